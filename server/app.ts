@@ -1,0 +1,75 @@
+import { randomUUID } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import type { Sequelize } from 'sequelize';
+import { configurePassport } from './auth/passport';
+import type { Config } from './config';
+import { createCsrf } from './middlewares/csrf';
+import { errorHandler } from './middlewares/errors';
+import { createSessionMiddleware } from './middlewares/session';
+import { createSignInLimits } from './middlewares/sign-in-limits';
+import { createApiRouter } from './routes';
+import { deriveKey, loadServerSecret } from './services/secrets';
+
+export interface AppContext {
+  config: Config;
+  sequelize: Sequelize;
+  /** Where the built client lives; served with an SPA fallback when present. */
+  clientDir?: string;
+}
+
+export interface KinefoldApp {
+  app: Express;
+  /** Stops the app's background timers (the expired-session sweep). */
+  close(): void;
+}
+
+/** Builds the Express app: security headers, sessions, CSRF, the API under /api and the built client. */
+export function createApp(context: AppContext): KinefoldApp {
+  const { config, sequelize } = context;
+  const secret = loadServerSecret(config.storageDir, config.sessionSecret);
+  const sessions = createSessionMiddleware(config, sequelize, deriveKey(secret, 'session'));
+  const csrf = createCsrf(config, deriveKey(secret, 'csrf'));
+  const passport = configurePassport();
+
+  const app = express();
+  app.disable('x-powered-by');
+  if (config.tls) app.set('trust proxy', 1);
+  app.use((_req, res, next) => {
+    res.locals.requestId = randomUUID();
+    res.setHeader('X-Request-Id', res.locals.requestId as string);
+    next();
+  });
+  app.use(helmet({
+    // HSTS and upgrade-insecure-requests only make sense when Kinefold is served over TLS.
+    strictTransportSecurity: config.tls,
+    contentSecurityPolicy: {
+      directives: { upgradeInsecureRequests: config.tls ? [] : null, imgSrc: ["'self'", 'data:', 'blob:'] },
+    },
+  }));
+  app.use(express.json({ limit: '1mb' }));
+  app.use(cookieParser());
+  app.use(sessions.middleware);
+  app.use(passport.session());
+  app.use('/api', csrf.protect, createApiRouter({
+    signInLimits: createSignInLimits(config),
+    issueCsrfToken: csrf.issueToken,
+  }));
+  if (context.clientDir) serveClient(app, context.clientDir);
+  app.use(errorHandler);
+  return { app, close: sessions.stop };
+}
+
+/** Serves the built Vue client and sends index.html for any other path so the client's router can take over. */
+function serveClient(app: Express, clientDir: string): void {
+  const indexFile = path.join(clientDir, 'index.html');
+  if (!fs.existsSync(indexFile)) return;
+  app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+  app.get('/{*rest}', (_req, res) => {
+    res.setHeader('Cache-Control', 'no-cache');
+    res.sendFile(indexFile);
+  });
+}

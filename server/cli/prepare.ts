@@ -1,0 +1,12 @@
+/** `npm start`'s first step: bring the schema up to date and create demo data, before server and worker start. */
+import { loadConfig } from '../config';
+import { openKinefoldDatabase } from '../db/open';
+import { DEMO_ACCOUNTS, createDemoAccountsOnFirstStart } from '../services/demo-accounts';
+
+const config = loadConfig();
+const sequelize = await openKinefoldDatabase(config);
+if (config.demo !== 'off' && (await createDemoAccountsOnFirstStart(config.bcryptCost))) {
+  console.log('Kinefold: created the demo accounts (KINEFOLD_DEMO=%s):', config.demo);
+  for (const account of DEMO_ACCOUNTS) console.log(`  ${account.role.padEnd(9)} ${account.email}  ${account.password}`);
+}
+await sequelize.close();

@@ -1,0 +1,58 @@
+import path from 'node:path';
+
+export type DemoMode = 'full' | 'accounts' | 'off';
+
+/** Every setting Kinefold reads from the environment, with its default, in one place. */
+export interface Config {
+  port: number;
+  storageDir: string;
+  demo: DemoMode;
+  smtpUrl: string | null;
+  publicUrl: string;
+  sessionSecret: string;
+  sessionMaxAgeMs: number;
+  /** True when the server sits behind TLS: cookies get `secure`, helmet adds HSTS. */
+  tls: boolean;
+  signInLimitPerIp: number;
+  signInLimitPerAccount: number;
+  signInWindowMs: number;
+  bcryptCost: number;
+}
+
+function parseDemo(value: string | undefined): DemoMode {
+  const mode = value ?? 'full';
+  if (mode !== 'full' && mode !== 'accounts' && mode !== 'off') {
+    throw new Error(`KINEFOLD_DEMO must be full, accounts or off (got "${mode}")`);
+  }
+  return mode;
+}
+
+function parseInteger(name: string, value: string | undefined, fallback: number): number {
+  if (value === undefined || value === '') return fallback;
+  const parsed = Number(value);
+  if (!Number.isInteger(parsed) || parsed < 0) throw new Error(`${name} must be a whole number (got "${value}")`);
+  return parsed;
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const publicUrl = env.KINEFOLD_PUBLIC_URL ?? 'http://localhost:3000';
+  return {
+    port: parseInteger('PORT', env.PORT, 3000),
+    storageDir: path.resolve(env.KINEFOLD_STORAGE_DIR ?? 'storage'),
+    demo: parseDemo(env.KINEFOLD_DEMO),
+    smtpUrl: env.SMTP_URL || null,
+    publicUrl,
+    sessionSecret: env.KINEFOLD_SESSION_SECRET ?? '',
+    sessionMaxAgeMs: parseInteger('KINEFOLD_SESSION_HOURS', env.KINEFOLD_SESSION_HOURS, 12) * 3600_000,
+    tls: env.KINEFOLD_TLS === '1' || publicUrl.startsWith('https://'),
+    signInLimitPerIp: parseInteger('KINEFOLD_SIGNIN_LIMIT_IP', env.KINEFOLD_SIGNIN_LIMIT_IP, 30),
+    signInLimitPerAccount: parseInteger('KINEFOLD_SIGNIN_LIMIT_ACCOUNT', env.KINEFOLD_SIGNIN_LIMIT_ACCOUNT, 8),
+    signInWindowMs: 15 * 60_000,
+    bcryptCost: parseInteger('KINEFOLD_BCRYPT_COST', env.KINEFOLD_BCRYPT_COST, 12),
+  };
+}
+
+/** Where the SQLite file lives under the storage root (DESIGN §6). */
+export function databasePath(config: Pick<Config, 'storageDir'>): string {
+  return path.join(config.storageDir, 'db', 'kinefold.sqlite');
+}

@@ -1,0 +1,26 @@
+import type { QueryInterface, Sequelize, Transaction } from 'sequelize';
+import { SequelizeStorage, Umzug } from 'umzug';
+import * as foundation from './migrations/0001-foundation';
+
+interface MigrationModule {
+  up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
+  down(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
+}
+
+/** Every migration in order; imported statically so tsx, vitest and a bundler all find them. */
+const MIGRATIONS: [name: string, module: MigrationModule][] = [
+  ['0001-foundation', foundation],
+];
+
+/** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */
+export function createMigrator(sequelize: Sequelize, logger: Console | undefined = undefined) {
+  return new Umzug({
+    migrations: MIGRATIONS.map(([name, module]) => ({
+      name,
+      up: () => sequelize.transaction((transaction) => module.up(sequelize.getQueryInterface(), transaction)),
+      down: () => sequelize.transaction((transaction) => module.down(sequelize.getQueryInterface(), transaction)),
+    })),
+    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    logger,
+  });
+}

@@ -1,0 +1,31 @@
+/** Starts the Kinefold server: opens the database, serves the API and the built client, stops cleanly on signals. */
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { createApp } from './app';
+import { loadConfig } from './config';
+import { openKinefoldDatabase } from './db/open';
+
+const config = loadConfig();
+const sequelize = await openKinefoldDatabase(config);
+const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
+const kinefold = createApp({ config, sequelize, clientDir });
+
+const server = kinefold.app.listen(config.port, () => {
+  console.log(`Kinefold server listening on http://localhost:${config.port} (storage: ${config.storageDir})`);
+});
+
+let stopping = false;
+function stop(signal: string): void {
+  if (stopping) return;
+  stopping = true;
+  console.log(`Kinefold server: ${signal} received, closing.`);
+  kinefold.close();
+  server.close(() => {
+    sequelize.close().finally(() => process.exit(0));
+  });
+  server.closeIdleConnections();
+  // Long downloads must not hold the process forever.
+  setTimeout(() => process.exit(0), 5_000).unref();
+}
+process.on('SIGINT', () => stop('SIGINT'));
+process.on('SIGTERM', () => stop('SIGTERM'));

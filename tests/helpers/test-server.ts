@@ -1,0 +1,67 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import type { Sequelize } from 'sequelize';
+import request from 'supertest';
+import { createApp } from '../../server/app';
+import { loadConfig, type Config } from '../../server/config';
+import { openKinefoldDatabase } from '../../server/db/open';
+import type { Role } from '../../shared/roles';
+import { createUser } from '../../server/services/users';
+
+export interface TestServer {
+  app: ReturnType<typeof createApp>['app'];
+  config: Config;
+  sequelize: Sequelize;
+  storageDir: string;
+  close(): Promise<void>;
+}
+
+/** A fresh storage folder and database per test file, and the same app `npm start` serves. */
+export async function startTestServer(
+  overrides: Partial<Config> = {},
+  { clientDir }: { clientDir?: string } = {},
+): Promise<TestServer> {
+  const storageDir = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-test-'));
+  const config: Config = {
+    ...loadConfig({ KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DEMO: 'off' }),
+    bcryptCost: 10,
+    signInLimitPerIp: 1000,
+    signInLimitPerAccount: 1000,
+    ...overrides,
+  };
+  const sequelize = await openKinefoldDatabase(config);
+  const kinefold = createApp({ config, sequelize, clientDir });
+  return {
+    app: kinefold.app,
+    config,
+    sequelize,
+    storageDir,
+    async close() {
+      kinefold.close();
+      await sequelize.close();
+      fs.rmSync(storageDir, { recursive: true, force: true });
+    },
+  };
+}
+
+export const TEST_PASSWORD = 'long-enough-test-phrase';
+
+export async function addUser(server: TestServer, role: Role, email = `${role}@example.test`) {
+  return createUser({ email, name: `Test ${role}`, role, password: TEST_PASSWORD }, server.config.bcryptCost, null);
+}
+
+/** A cookie-keeping client with the CSRF token every write needs. */
+export async function agentWithCsrf(server: TestServer) {
+  const agent = request.agent(server.app);
+  const { body } = await agent.get('/api/auth/csrf').expect(200);
+  return { agent, csrf: body.token as string };
+}
+
+/** A signed-in client for `email`; its CSRF token is fetched again after sign-in (the session id changed). */
+export async function signedInAgent(server: TestServer, email: string, password = TEST_PASSWORD) {
+  const { agent, csrf } = await agentWithCsrf(server);
+  await agent.post('/api/auth/sign-in').set('x-csrf-token', csrf).send({ email, password }).expect(200);
+  const { body } = await agent.get('/api/auth/csrf').expect(200);
+  return { agent, csrf: body.token as string };
+}
