@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { User } from '../../server/models';
 import {
-  TEST_PASSWORD, addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer,
+  TEST_PASSWORD, addUser, agentWithCsrf, appWith, signedInAgent, startTestServer, type TestServer,
 } from '../helpers/test-server';
 
 let server: TestServer;
@@ -145,9 +145,8 @@ describe('sign-out and sessions', () => {
 
 describe('rate limits', () => {
   it('answers 429 with a clear message after too many failed attempts on one account', async () => {
-    const limited = await startTestServer({ signInLimitPerAccount: 3 });
+    const limited = appWith(server, { signInLimitPerAccount: 3 });
     try {
-      await addUser(limited, 'operator');
       const { agent, csrf } = await agentWithCsrf(limited);
       const attempt = () => agent
         .post('/api/auth/sign-in')
@@ -159,12 +158,12 @@ describe('rate limits', () => {
       expect(blocked.body.error.code).toBe('too_many_sign_in_attempts');
       expect(blocked.body.error.message).toMatch(/Too many sign-in attempts/);
     } finally {
-      await limited.close();
+      limited.close();
     }
   });
 
   it('answers 429 after too many attempts from one address, whatever the account', async () => {
-    const limited = await startTestServer({ signInLimitPerIp: 2 });
+    const limited = appWith(server, { signInLimitPerIp: 2 });
     try {
       const { agent, csrf } = await agentWithCsrf(limited);
       for (const email of ['a@example.test', 'b@example.test']) {
@@ -173,7 +172,7 @@ describe('rate limits', () => {
       await agent.post('/api/auth/sign-in').set('x-csrf-token', csrf)
         .send({ email: 'c@example.test', password: 'x' }).expect(429);
     } finally {
-      await limited.close();
+      limited.close();
     }
   });
 });
@@ -188,7 +187,7 @@ describe('security headers', () => {
   });
 
   it('adds HSTS, upgrade-insecure-requests and secure cookies when TLS is on', async () => {
-    const tls = await startTestServer({ tls: true });
+    const tls = appWith(server, { tls: true });
     try {
       const { agent } = await agentWithCsrf(tls);
       const response = await agent.get('/api/health').set('X-Forwarded-Proto', 'https');
@@ -197,7 +196,7 @@ describe('security headers', () => {
       const csrf = await request(tls.app).get('/api/auth/csrf').set('X-Forwarded-Proto', 'https');
       expect(String(csrf.headers['set-cookie'])).toMatch(/Secure/);
     } finally {
-      await tls.close();
+      tls.close();
     }
   });
 });

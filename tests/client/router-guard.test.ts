@@ -3,7 +3,7 @@ import { createMemoryHistory, createRouter } from 'vue-router';
 import type { Me } from '../../shared/api-types';
 import type { Role } from '../../shared/roles';
 import { resolveAccess } from '../../src/router/access';
-import { routes } from '../../src/router/routes';
+import { stubbedRoutes } from '../helpers/stub-routes';
 
 function userWith(role: Role): Me {
   return {
@@ -14,7 +14,7 @@ function userWith(role: Role): Me {
 
 /** Navigates a router that carries the app's route table and the same guard function as the app. */
 async function landingFor(user: Me | null, path: string): Promise<string | undefined> {
-  const router = createRouter({ history: createMemoryHistory(), routes });
+  const router = createRouter({ history: createMemoryHistory(), routes: stubbedRoutes() });
   router.beforeEach((to) => resolveAccess(to, user));
   await router.push(path);
   return router.currentRoute.value.name?.toString();
@@ -30,7 +30,7 @@ describe('the router guard', () => {
   });
 
   it('sends a signed-out visitor to sign-in, keeping where they wanted to go', async () => {
-    const router = createRouter({ history: createMemoryHistory(), routes });
+    const router = createRouter({ history: createMemoryHistory(), routes: stubbedRoutes() });
     router.beforeEach((to) => resolveAccess(to, null));
     await router.push('/people');
     expect(router.currentRoute.value.name).toBe('sign-in');

@@ -3,7 +3,7 @@ import { createPinia, setActivePinia } from 'pinia';
 import PrimeVue from 'primevue/config';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { createMemoryHistory, createRouter } from 'vue-router';
-import { routes } from '../../src/router/routes';
+import { stubbedRoutes } from '../helpers/stub-routes';
 import SignInView from '../../src/views/auth/SignInView.vue';
 
 function jsonResponse(status: number, body: unknown): Response {
@@ -20,7 +20,7 @@ describe('SignInView', () => {
       return jsonResponse(401, { error: { code: 'wrong_credentials', message: 'E-mail address or password is wrong.' } });
     });
     vi.stubGlobal('fetch', fetchMock);
-    const router = createRouter({ history: createMemoryHistory(), routes });
+    const router = createRouter({ history: createMemoryHistory(), routes: stubbedRoutes() });
     const wrapper = mount(SignInView, { global: { plugins: [router, PrimeVue] } });
 
     await wrapper.find('#sign-in-email').setValue('someone@example.test');

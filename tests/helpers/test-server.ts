@@ -45,6 +45,14 @@ export async function startTestServer(
   };
 }
 
+/**
+ * Another app over the same database with some settings changed. Models are bound to one database per process,
+ * so a test file keeps one database and varies only the app around it.
+ */
+export function appWith(server: TestServer, overrides: Partial<Config>): { app: TestServer['app']; close(): void } {
+  return createApp({ config: { ...server.config, ...overrides }, sequelize: server.sequelize });
+}
+
 export const TEST_PASSWORD = 'long-enough-test-phrase';
 
 export async function addUser(server: TestServer, role: Role, email = `${role}@example.test`) {
@@ -52,7 +60,7 @@ export async function addUser(server: TestServer, role: Role, email = `${role}@e
 }
 
 /** A cookie-keeping client with the CSRF token every write needs. */
-export async function agentWithCsrf(server: TestServer) {
+export async function agentWithCsrf(server: Pick<TestServer, 'app'>) {
   const agent = request.agent(server.app);
   const { body } = await agent.get('/api/auth/csrf').expect(200);
   return { agent, csrf: body.token as string };
