@@ -13,6 +13,7 @@ import { createSessionMiddleware } from './middlewares/session';
 import { createSignInLimits } from './middlewares/sign-in-limits';
 import { createApiRouter } from './routes';
 import { deriveKey, loadServerSecret } from './services/secrets';
+import { storagePaths } from './storage/paths';
 
 export interface AppContext {
   config: Config;
@@ -55,8 +56,10 @@ export function createApp(context: AppContext): KinefoldApp {
   app.use(sessions.middleware);
   app.use(passport.session());
   app.use('/api', csrf.protect, createApiRouter({
-    signInLimits: createSignInLimits(config),
-    issueCsrfToken: csrf.issueToken,
+    auth: { signInLimits: createSignInLimits(config), issueCsrfToken: csrf.issueToken },
+    paths: storagePaths(config.storageDir),
+    uploadLimitBytes: config.uploadLimitBytes,
+    config,
   }));
   if (context.clientDir) serveClient(app, context.clientDir);
   app.use(errorHandler);

@@ -17,6 +17,17 @@ export interface Config {
   signInLimitPerAccount: number;
   signInWindowMs: number;
   bcryptCost: number;
+  /** The sender of every message Kinefold mails. */
+  mailFrom: string;
+  resetLimitPerIp: number;
+  resetLimitPerAccount: number;
+  resetWindowMs: number;
+  /** Largest file one upload may carry. */
+  uploadLimitBytes: number;
+  /** Seconds a worker holds a claimed job before another may take it over; renewed every third of it. */
+  jobLeaseS: number;
+  /** Jobs one worker process runs at once. */
+  jobConcurrency: number;
 }
 
 function parseDemo(value: string | undefined): DemoMode {
@@ -49,6 +60,13 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signInLimitPerAccount: parseInteger('KINEFOLD_SIGNIN_LIMIT_ACCOUNT', env.KINEFOLD_SIGNIN_LIMIT_ACCOUNT, 8),
     signInWindowMs: 15 * 60_000,
     bcryptCost: parseInteger('KINEFOLD_BCRYPT_COST', env.KINEFOLD_BCRYPT_COST, 12),
+    mailFrom: env.KINEFOLD_MAIL_FROM || `Kinefold <kinefold@${new URL(publicUrl).hostname}>`,
+    resetLimitPerIp: parseInteger('KINEFOLD_RESET_LIMIT_IP', env.KINEFOLD_RESET_LIMIT_IP, 10),
+    resetLimitPerAccount: parseInteger('KINEFOLD_RESET_LIMIT_ACCOUNT', env.KINEFOLD_RESET_LIMIT_ACCOUNT, 3),
+    resetWindowMs: 60 * 60_000,
+    uploadLimitBytes: parseInteger('KINEFOLD_UPLOAD_LIMIT_BYTES', env.KINEFOLD_UPLOAD_LIMIT_BYTES, 4 * 1024 ** 3),
+    jobLeaseS: Math.max(1, parseInteger('KINEFOLD_JOB_LEASE_S', env.KINEFOLD_JOB_LEASE_S, 60)),
+    jobConcurrency: Math.max(1, parseInteger('KINEFOLD_JOB_CONCURRENCY', env.KINEFOLD_JOB_CONCURRENCY, 2)),
   };
 }
 

@@ -4,11 +4,24 @@ import { fileURLToPath } from 'node:url';
 import { createApp } from './app';
 import { loadConfig } from './config';
 import { openKinefoldDatabase } from './db/open';
+import { startMail } from './mail';
+import { cleanStaleUploads } from './services/storage-hygiene';
+import { storagePaths } from './storage/paths';
 
 const config = loadConfig();
 const sequelize = await openKinefoldDatabase(config);
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
 const kinefold = createApp({ config, sequelize, clientDir });
+const cleaned = await cleanStaleUploads(storagePaths(config.storageDir));
+if (cleaned.files + cleaned.reservations > 0) {
+  console.log(`Kinefold server: removed ${cleaned.files} stale partial uploads, released ${cleaned.reservations} reservations.`);
+}
+
+const mail = await startMail(config);
+console.log(mail.fakeSmtp
+  ? `Kinefold mail: no SMTP_URL, so a local fake SMTP server on ${mail.fakeSmtp.host}:${mail.fakeSmtp.port} keeps `
+    + 'every message for the mail log.'
+  : 'Kinefold mail: sending through SMTP_URL.');
 
 const server = kinefold.app.listen(config.port, () => {
   console.log(`Kinefold server listening on http://localhost:${config.port} (storage: ${config.storageDir})`);
@@ -21,7 +34,8 @@ function stop(signal: string): void {
   console.log(`Kinefold server: ${signal} received, closing.`);
   kinefold.close();
   server.close(() => {
-    sequelize.close().finally(() => process.exit(0));
+    // A message in flight finishes before the database closes; anything not yet sent waits in the outbox.
+    mail.stop().finally(() => sequelize.close().finally(() => process.exit(0)));
   });
   server.closeIdleConnections();
   // Long downloads must not hold the process forever.

@@ -1,27 +1,41 @@
 /**
- * The Kinefold worker process: opens the shared database and waits for jobs. The job runtime (claiming,
- * leases, stages) plugs in here; until then the worker only proves it can reach the database and stop cleanly.
+ * The Kinefold worker process (`npm run worker`): claims jobs from the shared database and runs them, with the
+ * per-frame work in a worker-thread pool. SIGTERM or SIGINT: stop claiming, give the jobs in hand back to the
+ * queue (their committed stages stay done), close and exit. A second signal exits at once.
  */
 import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import { loadConfig } from '../server/config';
 import { openKinefoldDatabase } from '../server/db/open';
-
-const HEARTBEAT_MS = 30_000;
+import { storagePaths } from '../server/storage/paths';
+import { createFramePool } from './pool/frame-pool';
+import { createJobRuntime } from './runtime/job-runtime';
 
 const config = loadConfig();
-const workerId = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
+const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
 const sequelize = await openKinefoldDatabase(config, { migrate: false });
-console.log(`Kinefold worker ${workerId} ready (storage: ${config.storageDir}).`);
+const pool = createFramePool();
+const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir), pool, owner });
+console.log(`Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, `
+  + `${config.jobConcurrency} jobs at once).`);
 
-const heartbeat = setInterval(() => {
-  sequelize.query('SELECT 1').catch((error: unknown) => console.error('Kinefold worker: database unreachable', error));
-}, HEARTBEAT_MS);
-
+let stopping = false;
 function stop(signal: string): void {
-  console.log(`Kinefold worker: ${signal} received, stopping.`);
-  clearInterval(heartbeat);
-  sequelize.close().finally(() => process.exit(0));
+  if (stopping) {
+    console.log(`Kinefold worker: ${signal} again, exiting now.`);
+    process.exit(1);
+  }
+  stopping = true;
+  console.log(`Kinefold worker: ${signal} received, giving back the jobs in hand and stopping.`);
+  runtime.stop()
+    .then(() => pool.destroy())
+    .then(() => sequelize.close())
+    .then(() => process.exit(0), (error: unknown) => {
+      console.error('Kinefold worker: stopped with an error', error);
+      process.exit(1);
+    });
 }
-process.once('SIGINT', () => stop('SIGINT'));
-process.once('SIGTERM', () => stop('SIGTERM'));
+process.on('SIGINT', () => stop('SIGINT'));
+process.on('SIGTERM', () => stop('SIGTERM'));
+
+await runtime.run();

@@ -1,6 +1,9 @@
 import type { QueryInterface, Sequelize, Transaction } from 'sequelize';
 import { SequelizeStorage, Umzug } from 'umzug';
 import * as foundation from './migrations/0001-foundation';
+import * as peopleMail from './migrations/0002-people-mail';
+import * as ingest from './migrations/0003-ingest';
+import * as pipeline from './migrations/0004-pipeline';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -10,6 +13,9 @@ interface MigrationModule {
 /** Every migration in order; imported statically so tsx, vitest and a bundler all find them. */
 const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0001-foundation', foundation],
+  ['0002-people-mail', peopleMail],
+  ['0003-ingest', ingest],
+  ['0004-pipeline', pipeline],
 ];
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */

@@ -25,6 +25,8 @@ interface HttpLikeError {
 
 /** The one place errors become answers: known errors keep their status and message; the rest are logged. */
 export function errorHandler(error: unknown, req: Request, res: Response, _next: NextFunction): void {
+  // A client that hung up mid-request (a cancelled upload) gets no answer and is not a server fault.
+  if (!res.socket || res.socket.destroyed) return;
   if (error instanceof AppError) {
     send(res, error.status, { error: { code: error.code, message: error.message, details: error.details } });
     return;

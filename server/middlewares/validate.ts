@@ -33,7 +33,8 @@ export function validate(schemas: Schemas) {
   };
 }
 
-function invalidInput(part: string, error: z.ZodError): AppError {
+/** A zod failure as a 400 whose message starts with the field at fault. */
+export function invalidInput(part: string, error: z.ZodError): AppError {
   const issues = error.issues.map((issue) => {
     const keys = 'keys' in issue && Array.isArray(issue.keys) ? issue.keys.join(', ') : '';
     const field = issue.path.length > 0 ? issue.path.join('.') : keys;

@@ -1,5 +1,5 @@
 import {
-  DataTypes, Model, Op, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
 } from 'sequelize';
 import type { UserSummary } from '../../shared/api-types';
 import type { Role } from '../../shared/roles';
@@ -22,11 +22,6 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
 
   static countActiveAdmins(): Promise<number> {
     return User.count({ where: { role: 'admin', disabled: false } });
-  }
-
-  static searchCondition(search: string) {
-    const pattern = `%${search.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    return { [Op.or]: [{ email: { [Op.like]: pattern } }, { name: { [Op.like]: pattern } }] };
   }
 
   toApi(): UserSummary {

@@ -1,17 +1,43 @@
 import { Router } from 'express';
+import type { Config } from '../config';
 import { apiNotFound } from '../middlewares/errors';
+import type { StoragePaths } from '../storage/paths';
 import { createAuthRouter, type AuthRouterDeps } from './auth';
+import { createClipMediaRouter } from './clip-media';
+import { createClipsRouter } from './clips';
 import { healthRouter } from './health';
+import { createInvitationsRouter } from './invitations';
+import { mailRouter } from './mail';
 import { meRouter } from './me';
+import { createPasswordResetRouter } from './password-reset';
+import { createPeopleRouter } from './people';
+import { createProfileRouter } from './profile';
+import { projectsRouter } from './projects';
 import { usersRouter } from './users';
 
 /** Every API route under /api, then a JSON 404 for anything else there. */
-export function createApiRouter(authDeps: AuthRouterDeps): Router {
+export interface ApiDeps {
+  auth: AuthRouterDeps;
+  paths: StoragePaths;
+  uploadLimitBytes: number;
+  /** Mail links, password hashing and the reset-request limits read the settings. */
+  config: Config;
+}
+
+export function createApiRouter(deps: ApiDeps): Router {
   const api = Router();
   api.use('/health', healthRouter);
-  api.use('/auth', createAuthRouter(authDeps));
+  api.use('/auth', createAuthRouter(deps.auth));
+  api.use('/auth', createPasswordResetRouter(deps.config));
   api.use('/me', meRouter);
+  api.use('/me', createProfileRouter(deps.config));
   api.use('/users', usersRouter);
+  api.use('/users', createPeopleRouter(deps.config));
+  api.use('/invitations', createInvitationsRouter(deps.config));
+  api.use('/mail', mailRouter);
+  api.use('/projects', projectsRouter);
+  api.use('/clips', createClipsRouter(deps.paths, deps.uploadLimitBytes));
+  api.use('/clips', createClipMediaRouter(deps.paths));
   api.use(apiNotFound);
   return api;
 }

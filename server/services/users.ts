@@ -5,6 +5,7 @@ import type { UserListQuery } from '../../shared/schemas/users';
 import { conflict } from '../errors';
 import { User } from '../models';
 import { recordAudit } from './audit';
+import { containsText } from './text-search';
 import { assertPasswordAcceptable, hashPassword } from './passwords';
 
 export interface NewUser {
@@ -42,7 +43,7 @@ function duplicateEmail(email: string) {
 
 export async function listUsers(query: UserListQuery): Promise<ListPage<UserSummary>> {
   const where: WhereOptions<User> = {
-    ...(query.search ? User.searchCondition(query.search) : {}),
+    ...(query.search ? containsText<User>(['email', 'name'], query.search) : {}),
     ...(query.role ? { role: query.role } : {}),
   };
   const order: Order = query.sort

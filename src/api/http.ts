@@ -36,7 +36,7 @@ export function forgetCsrfToken(): void {
   csrfToken = null;
 }
 
-function fetchCsrfToken(): Promise<string> {
+export function fetchCsrfToken(): Promise<string> {
   csrfToken ??= fetch('/api/auth/csrf', { credentials: 'same-origin' })
     .then((response) => response.json() as Promise<CsrfToken>)
     .then((body) => body.token)
@@ -56,10 +56,15 @@ function buildUrl(path: string, query?: Record<string, QueryValue>): string {
   return `/api${path}${search ? `?${search}` : ''}`;
 }
 
+/** An error answer's body as an ApiError; `body` is the parsed JSON when the caller already read it. */
+export function apiErrorFrom(status: number, statusText: string, body: ApiErrorBody | null): ApiError {
+  const message = body?.error?.message ?? `The server answered ${status} ${statusText}.`;
+  return new ApiError(status, body?.error?.code ?? 'http_error', message, body?.error?.details);
+}
+
 async function toApiError(response: Response): Promise<ApiError> {
   const body = (await response.json().catch(() => null)) as ApiErrorBody | null;
-  const message = body?.error?.message ?? `The server answered ${response.status} ${response.statusText}.`;
-  return new ApiError(response.status, body?.error?.code ?? 'http_error', message, body?.error?.details);
+  return apiErrorFrom(response.status, response.statusText, body);
 }
 
 /** The one HTTP client of the app: JSON in and out, CSRF header on writes, one retry on a stale token. */

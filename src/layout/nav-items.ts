@@ -9,5 +9,10 @@ export interface NavItem {
 /** The side navigation, in order. Who sees an item comes from its route's `meta.roles`, never from here. */
 export const NAV_ITEMS: NavItem[] = [
   { label: 'Home', icon: 'pi pi-compass', route: 'home' },
+  { label: 'Upload', icon: 'pi pi-cloud-upload', route: 'upload' },
+  { label: 'Clips', icon: 'pi pi-video', route: 'clips' },
+  { label: 'Projects', icon: 'pi pi-folder', route: 'projects' },
   { label: 'People', icon: 'pi pi-users', route: 'people' },
+  { label: 'Mail log', icon: 'pi pi-envelope', route: 'mail-log' },
+  { label: 'Profile', icon: 'pi pi-id-card', route: 'profile' },
 ];

@@ -1,6 +1,9 @@
 import type { RouteRecordRaw } from 'vue-router';
 
-export type RouteName = 'sign-in' | 'home' | 'people' | 'not-allowed' | 'not-found';
+export type RouteName =
+  | 'sign-in' | 'home' | 'people' | 'not-allowed' | 'not-found'
+  | 'projects' | 'upload' | 'clips' | 'clip-detail'
+  | 'invitation' | 'forgot-password' | 'reset-password' | 'profile' | 'mail-log';
 
 export const routes: (RouteRecordRaw & { name?: RouteName })[] = [
   {
@@ -8,6 +11,26 @@ export const routes: (RouteRecordRaw & { name?: RouteName })[] = [
     name: 'sign-in',
     component: () => import('../views/auth/SignInView.vue'),
     meta: { title: 'Sign in' },
+  },
+  {
+    path: '/invite/:token',
+    name: 'invitation',
+    component: () => import('../views/auth/InvitationView.vue'),
+    props: true,
+    meta: { title: 'Invitation' },
+  },
+  {
+    path: '/forgot-password',
+    name: 'forgot-password',
+    component: () => import('../views/auth/ForgotPasswordView.vue'),
+    meta: { title: 'Forgot password' },
+  },
+  {
+    path: '/reset-password/:token',
+    name: 'reset-password',
+    component: () => import('../views/auth/ResetPasswordView.vue'),
+    props: true,
+    meta: { title: 'New password' },
   },
   {
     path: '/',
@@ -20,6 +43,43 @@ export const routes: (RouteRecordRaw & { name?: RouteName })[] = [
         name: 'people',
         component: () => import('../views/people/PeopleView.vue'),
         meta: { title: 'People', roles: ['admin'] },
+      },
+      {
+        path: 'mail',
+        name: 'mail-log',
+        component: () => import('../views/mail/MailLogView.vue'),
+        meta: { title: 'Mail log', roles: ['admin'] },
+      },
+      {
+        path: 'profile',
+        name: 'profile',
+        component: () => import('../views/profile/ProfileView.vue'),
+        meta: { title: 'Profile' },
+      },
+      {
+        path: 'projects',
+        name: 'projects',
+        component: () => import('../views/projects/ProjectsView.vue'),
+        meta: { title: 'Projects' },
+      },
+      {
+        path: 'upload',
+        name: 'upload',
+        component: () => import('../views/upload/UploadView.vue'),
+        meta: { title: 'Upload', roles: ['operator'] },
+      },
+      {
+        path: 'clips',
+        name: 'clips',
+        component: () => import('../views/clips/ClipsView.vue'),
+        meta: { title: 'Clips' },
+      },
+      {
+        path: 'clips/:id(\\d+)',
+        name: 'clip-detail',
+        component: () => import('../views/clips/ClipDetailView.vue'),
+        props: true,
+        meta: { title: 'Clip' },
       },
       {
         path: 'not-allowed',

@@ -18,10 +18,10 @@ afterAll(async () => {
 
 /** What each role's side navigation offers (admin sees everything). */
 const EXPECTED_NAV: Record<string, string[]> = {
-  operator: ['nav-home'],
-  curator: ['nav-home'],
-  engineer: ['nav-home'],
-  admin: ['nav-home', 'nav-people'],
+  operator: ['nav-home', 'nav-upload', 'nav-clips', 'nav-projects', 'nav-profile'],
+  curator: ['nav-home', 'nav-clips', 'nav-projects', 'nav-profile'],
+  engineer: ['nav-home', 'nav-clips', 'nav-projects', 'nav-profile'],
+  admin: ['nav-home', 'nav-upload', 'nav-clips', 'nav-projects', 'nav-people', 'nav-mail-log', 'nav-profile'],
 };
 
 describe('signing in as each demo account', () => {

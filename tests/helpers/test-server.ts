@@ -67,7 +67,7 @@ export async function agentWithCsrf(server: Pick<TestServer, 'app'>) {
 }
 
 /** A signed-in client for `email`; its CSRF token is fetched again after sign-in (the session id changed). */
-export async function signedInAgent(server: TestServer, email: string, password = TEST_PASSWORD) {
+export async function signedInAgent(server: Pick<TestServer, 'app'>, email: string, password = TEST_PASSWORD) {
   const { agent, csrf } = await agentWithCsrf(server);
   await agent.post('/api/auth/sign-in').set('x-csrf-token', csrf).send({ email, password }).expect(200);
   const { body } = await agent.get('/api/auth/csrf').expect(200);

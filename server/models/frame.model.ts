@@ -1,0 +1,71 @@
+import {
+  DataTypes, Model, QueryTypes, type CreationOptional, type InferAttributes, type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
+import type { ClipFrame } from '../../shared/types/frames';
+
+/** A sampled still of a clip and its signals (DESIGN §2); written by the worker's sample and signals stages. */
+export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes<Frame>> {
+  declare id: CreationOptional<number>;
+  declare clipId: number;
+  declare index: number;
+  declare timeS: number;
+  declare meanLuma: CreationOptional<number | null>;
+  declare contrast: CreationOptional<number | null>;
+  declare sharpness: CreationOptional<number | null>;
+  /** Share of crushed plus blown pixels. */
+  declare clippedShare: CreationOptional<number | null>;
+  declare clippedHighShare: CreationOptional<number | null>;
+  declare cutBefore: CreationOptional<boolean>;
+  /** 1 − correlation of this frame's grey histogram with the previous frame's; null for the first frame. */
+  declare cutScore: CreationOptional<number | null>;
+  /** 64-bit difference hash as 16 hex digits, compared across the project's clips for the duplicate flag. */
+  declare dhash: CreationOptional<string | null>;
+
+  toApi(): ClipFrame {
+    return {
+      index: this.index,
+      timeS: this.timeS,
+      meanLuma: this.meanLuma,
+      contrast: this.contrast,
+      sharpness: this.sharpness,
+      clippedShare: this.clippedShare,
+      cutBefore: this.cutBefore,
+      motion: null,
+    };
+  }
+
+  /** The stored frame hashes of the project's other clips, by clip, for the duplicate flag. */
+  static async hashesOfOtherClips(projectId: number, clipId: number): Promise<{ clipId: number; hashes: string[] }[]> {
+    const rows = await Frame.sequelize!.query<{ clipId: number; dhash: string }>(
+      `SELECT frames.clipId, frames.dhash FROM frames JOIN clips ON clips.id = frames.clipId
+       WHERE clips.projectId = :projectId AND frames.clipId <> :clipId AND frames.dhash IS NOT NULL
+       ORDER BY frames.clipId, frames.\`index\``,
+      { replacements: { projectId, clipId }, type: QueryTypes.SELECT },
+    );
+    const byClip = new Map<number, string[]>();
+    for (const row of rows) {
+      const hashes = byClip.get(row.clipId) ?? [];
+      hashes.push(row.dhash);
+      byClip.set(row.clipId, hashes);
+    }
+    return [...byClip].map(([id, hashes]) => ({ clipId: id, hashes }));
+  }
+
+  static initModel(sequelize: Sequelize): void {
+    Frame.init({
+      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+      clipId: { type: DataTypes.INTEGER, allowNull: false },
+      index: { type: DataTypes.INTEGER, allowNull: false },
+      timeS: { type: DataTypes.FLOAT, allowNull: false },
+      meanLuma: { type: DataTypes.FLOAT, allowNull: true },
+      contrast: { type: DataTypes.FLOAT, allowNull: true },
+      sharpness: { type: DataTypes.FLOAT, allowNull: true },
+      clippedShare: { type: DataTypes.FLOAT, allowNull: true },
+      clippedHighShare: { type: DataTypes.FLOAT, allowNull: true },
+      cutBefore: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      cutScore: { type: DataTypes.FLOAT, allowNull: true },
+      dhash: { type: DataTypes.STRING(16), allowNull: true },
+    }, { sequelize, tableName: 'frames', timestamps: false });
+  }
+}

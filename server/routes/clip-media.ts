@@ -1,0 +1,70 @@
+import { Router, type Request, type Response } from 'express';
+import { HttpStatus } from '../../shared/http-status';
+import { frameParamSchema, viewParamSchema, type FrameParam, type ViewParam } from '../../shared/schemas/clip-media';
+import { idParamSchema, type IdParam } from '../../shared/schemas/params';
+import type { ClipFrameList, ClipProgress } from '../../shared/types/frames';
+import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
+import { validate } from '../middlewares/validate';
+import {
+  clipProgress, framePath, listFrames, previewPath, reprocessClip, thumbnailPath, viewPath,
+} from '../services/clip-media';
+import type { StoragePaths } from '../storage/paths';
+
+/** What processing made of a clip, under /api/clips. Files stream with Range support (sendFile answers 206). */
+export function createClipMediaRouter(paths: StoragePaths): Router {
+  const router = Router();
+  const byId = validate({ params: idParamSchema });
+  router.get('/:id/frames', requireSignIn, byId, getFrames);
+  router.get('/:id/frames/:index', requireSignIn, validate({ params: frameParamSchema }), getFrameImage(paths));
+  router.get('/:id/views/:index/:view', requireSignIn, validate({ params: viewParamSchema }), getViewImage(paths));
+  router.get('/:id/thumbnail', requireSignIn, byId, getThumbnail(paths));
+  router.get('/:id/preview', requireSignIn, byId, getPreview(paths));
+  router.get('/:id/progress', requireSignIn, byId, getProgress);
+  router.post('/:id/reprocess', requireRole('admin'), byId, postReprocess);
+  return router;
+}
+
+async function getFrames(req: Request, res: Response<ClipFrameList>): Promise<void> {
+  res.json(await listFrames((req.valid.params as IdParam).id));
+}
+
+function getFrameImage(paths: StoragePaths) {
+  return async (req: Request, res: Response) => {
+    const { id, index } = req.valid.params as FrameParam;
+    sendDerived(res, await framePath(id, index, paths));
+  };
+}
+
+function getViewImage(paths: StoragePaths) {
+  return async (req: Request, res: Response) => {
+    const { id, index, view } = req.valid.params as ViewParam;
+    sendDerived(res, await viewPath(id, index, view, paths));
+  };
+}
+
+function getThumbnail(paths: StoragePaths) {
+  return async (req: Request, res: Response) => {
+    sendDerived(res, await thumbnailPath((req.valid.params as IdParam).id, paths));
+  };
+}
+
+function getPreview(paths: StoragePaths) {
+  return async (req: Request, res: Response) => {
+    sendDerived(res, await previewPath((req.valid.params as IdParam).id, paths));
+  };
+}
+
+async function getProgress(req: Request, res: Response<ClipProgress>): Promise<void> {
+  res.json(await clipProgress((req.valid.params as IdParam).id));
+}
+
+async function postReprocess(req: Request, res: Response<ClipProgress>): Promise<void> {
+  res.status(HttpStatus.ACCEPTED).json(await reprocessClip((req.valid.params as IdParam).id, currentUser(req).id));
+}
+
+/** Derived files change when a clip is processed again, so the browser asks each time (ETag makes that cheap). */
+function sendDerived(res: Response, file: string): void {
+  res.sendFile(file, {
+    acceptRanges: true, dotfiles: 'deny', cacheControl: false, headers: { 'Cache-Control': 'private, no-cache' },
+  });
+}

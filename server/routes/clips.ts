@@ -1,0 +1,58 @@
+import { Router, type Request, type Response } from 'express';
+import type { ListPage } from '../../shared/api-types';
+import { HttpStatus } from '../../shared/http-status';
+import { clipListQuerySchema, clipPatchSchema, type ClipListQuery, type ClipPatch } from '../../shared/schemas/clips';
+import { idParamSchema, type IdParam } from '../../shared/schemas/params';
+import type { ClipDetail, ClipSummary } from '../../shared/types/clips';
+import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
+import { receiveClipUpload } from '../middlewares/upload';
+import { validate } from '../middlewares/validate';
+import { admitUpload } from '../services/clip-admission';
+import { clipSourcePath, getClipDetail, listClips, removeClip, updateClipMetadata } from '../services/clips';
+import type { StoragePaths } from '../storage/paths';
+
+export function createClipsRouter(paths: StoragePaths, uploadLimitBytes: number): Router {
+  const router = Router();
+  router.post('/', requireRole('operator'), receiveClipUpload(paths, uploadLimitBytes), postClip(paths));
+  router.get('/', requireSignIn, validate({ query: clipListQuerySchema }), getClips);
+  router.get('/:id', requireSignIn, validate({ params: idParamSchema }), getClip);
+  router.patch('/:id', requireSignIn, validate({ params: idParamSchema, body: clipPatchSchema }), patchClip);
+  router.delete('/:id', requireSignIn, validate({ params: idParamSchema }), deleteClip(paths));
+  router.get('/:id/source', requireSignIn, validate({ params: idParamSchema }), getClipSource(paths));
+  return router;
+}
+
+function postClip(paths: StoragePaths) {
+  return async (req: Request, res: Response<ClipSummary>) => {
+    const clip = await admitUpload(req.file!.received!, req.file!.originalname, currentUser(req).id, paths);
+    res.status(HttpStatus.CREATED).json(clip);
+  };
+}
+
+async function getClips(req: Request, res: Response<ListPage<ClipSummary>>): Promise<void> {
+  res.json(await listClips(req.valid.query as ClipListQuery));
+}
+
+async function getClip(req: Request, res: Response<ClipDetail>): Promise<void> {
+  res.json(await getClipDetail((req.valid.params as IdParam).id, currentUser(req)));
+}
+
+async function patchClip(req: Request, res: Response<ClipDetail>): Promise<void> {
+  const { id } = req.valid.params as IdParam;
+  res.json(await updateClipMetadata(id, req.valid.body as ClipPatch, currentUser(req)));
+}
+
+function deleteClip(paths: StoragePaths) {
+  return async (req: Request, res: Response) => {
+    await removeClip((req.valid.params as IdParam).id, currentUser(req), paths);
+    res.status(HttpStatus.NO_CONTENT).end();
+  };
+}
+
+/** The source file, typed by its stored extension, with HTTP Range support (sendFile answers 206 to a Range). */
+function getClipSource(paths: StoragePaths) {
+  return async (req: Request, res: Response) => {
+    const source = await clipSourcePath((req.valid.params as IdParam).id, paths);
+    res.sendFile(source.path, { acceptRanges: true, dotfiles: 'deny' });
+  };
+}

@@ -1,0 +1,10 @@
+/**
+ * The stages of processing a clip, in order (DESIGN §5). `motion` runs between signals and views once the Motion
+ * stage is plugged into the worker; until then a clip goes from signals straight to views.
+ */
+export const CLIP_STAGES = ['sample', 'signals', 'motion', 'views', 'flags'] as const;
+export type ClipStage = (typeof CLIP_STAGES)[number];
+
+/** Views stored per frame by the views stage (DESIGN §7): luma as 8-bit grey, chroma as 16-bit RGB. */
+export const STORED_VIEWS = ['luma', 'chroma'] as const;
+export type StoredView = (typeof STORED_VIEWS)[number];

@@ -1,0 +1,24 @@
+import type { EstimatorName } from '../estimators';
+
+/** A project as the API shows it: its settings and the bytes its clips use. */
+export interface ProjectSummary {
+  id: number;
+  name: string;
+  description: string;
+  archived: boolean;
+  quotaBytes: number | null;
+  usedBytes: number;
+  clipCount: number;
+  settings: ProjectSettings;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface ProjectSettings {
+  sampleFps: number;
+  workingSize: number;
+  deltas: number[];
+  estimator: EstimatorName;
+  estimatorParams: Record<string, number | string | boolean>;
+  flagThresholds: Record<string, number>;
+}

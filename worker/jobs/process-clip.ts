@@ -1,0 +1,121 @@
+import fs from 'node:fs';
+import type { ClipState } from '../../shared/clip-states';
+import { Clip, Project } from '../../server/models';
+import { recordClipFailure } from '../pipeline/clip-failure';
+import { flagsStage } from '../pipeline/flags-stage';
+import { pipelineSettings } from '../pipeline/project-settings';
+import { sampleStage } from '../pipeline/sample-stage';
+import { signalsStage } from '../pipeline/signals-stage';
+import type { PipelineStage } from '../pipeline/stage';
+import { viewsStage } from '../pipeline/views-stage';
+import { clipFolderBytes, openWorkDir, removeLeftoverWorkDirs, type WorkDir } from '../pipeline/work-dir';
+import { enterJobStage, finishJob, reportJobProgress, type Lease } from './claim';
+import type { Handler, JobContext } from './handler';
+import { LeaseLostError } from './job-errors';
+
+/**
+ * The Motion stage plugs in here: motion fields for neighbour pairs that do not span a cut, between signals
+ * and views (DESIGN §5). It also supplies the motion input of the flags stage (static, shaky).
+ */
+export const MOTION_STAGES: readonly PipelineStage[] = [];
+
+const STAGES: readonly PipelineStage[] = [sampleStage, signalsStage, ...MOTION_STAGES, viewsStage, flagsStage];
+
+const PROGRESS_INTERVAL_MS = 500;
+
+/**
+ * process-clip: runs the stages in order. The job row remembers the stage in hand, and each stage's commit moves
+ * it on in the same transaction as the stage's rows, so a job claimed again after a crash resumes at the stage
+ * that did not commit and redoes only that one.
+ */
+export const processClip: Handler<'process-clip'> = {
+  async run({ job, payload }, context) {
+    const clipDir = context.paths.clipDir(payload.clipId);
+    if (!(await Clip.findByPk(payload.clipId))) return;
+    await removeLeftoverWorkDirs(clipDir);
+    const first = Math.max(0, STAGES.findIndex((stage) => stage.name === job.stage));
+    try {
+      for (let i = first; i < STAGES.length; i += 1) {
+        if (!(await runStage(STAGES[i]!, STAGES[i + 1] ?? null, payload.clipId, context))) return;
+      }
+    } catch (error) {
+      if (await removeIfClipDeleted(payload.clipId, clipDir)) return;
+      throw error;
+    }
+  },
+  recordFailure: recordClipFailure,
+};
+
+/** Runs one stage on a freshly loaded clip; false when the clip was deleted meanwhile. */
+async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId: number, context: JobContext) {
+  const clip = await Clip.findByPk(clipId);
+  const project = clip && await Project.findByPk(clip.projectId);
+  if (!clip || !project) return false;
+  const settings = pipelineSettings(project);
+  await enterStage(stage, clip, context.lease);
+  const progress = progressWriter(context.lease, stage.name);
+  const clipDir = context.paths.clipDir(clipId);
+  let work: WorkDir | null = null;
+  try {
+    await stage.run({
+      clip, project, settings, paths: context.paths, pool: context.pool, signal: context.signal,
+      progress: progress.report,
+      workDir: async () => (work ??= await openWorkDir(clipDir, stage.name)),
+      async commit(write) {
+        await progress.settled();
+        const storedBytes = await clipFolderBytes(clipDir);
+        await Clip.sequelize!.transaction(async (transaction) => {
+          const held = next
+            ? await enterJobStage(context.lease, next.name, transaction)
+            : await finishJob(context.lease, transaction);
+          if (!held) throw new LeaseLostError(context.lease.jobId);
+          await Clip.update({ storedBytes }, { where: { id: clipId }, transaction });
+          await write?.(transaction);
+        });
+      },
+    });
+  } finally {
+    await (work as WorkDir | null)?.remove();
+  }
+  return true;
+}
+
+/** Shows the stage on the job and the clip; a clip not yet reviewed is `processing` meanwhile. */
+async function enterStage(stage: PipelineStage, clip: Clip, lease: Lease): Promise<void> {
+  await Clip.sequelize!.transaction(async (transaction) => {
+    if (!(await enterJobStage(lease, stage.name, transaction))) throw new LeaseLostError(lease.jobId);
+    await Clip.update({ stage: stage.name, state: stateWhileProcessing(clip.state), error: null },
+      { where: { id: clip.id }, transaction });
+  });
+}
+
+function stateWhileProcessing(state: ClipState): ClipState {
+  return state === 'accepted' || state === 'rejected' ? state : 'processing';
+}
+
+/** Writes progress at most twice a second, one write at a time; the commit waits for the last one. */
+function progressWriter(lease: Lease, stage: string) {
+  let lastAt = 0;
+  let pending: Promise<void> = Promise.resolve();
+  return {
+    report(share: number) {
+      const now = Date.now();
+      if (now - lastAt < PROGRESS_INTERVAL_MS) return;
+      lastAt = now;
+      pending = pending
+        .then(() => reportJobProgress(lease, stage, Math.round(share * 1000) / 1000))
+        .then(() => undefined, (error: unknown) => console.warn(`Kinefold worker: progress not saved: ${error}`));
+    },
+    settled: () => pending,
+  };
+}
+
+/**
+ * The clip was deleted while we worked (its job row went with it): the server removed its folder, but files we
+ * wrote since may have brought it back. Remove it again and stop quietly.
+ */
+async function removeIfClipDeleted(clipId: number, clipDir: string): Promise<boolean> {
+  if (await Clip.findByPk(clipId)) return false;
+  await fs.promises.rm(clipDir, { recursive: true, force: true });
+  return true;
+}
