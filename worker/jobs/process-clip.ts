@@ -17,7 +17,7 @@ import { LeaseLostError } from './job-errors';
  * The Motion stage plugs in here: motion fields for neighbour pairs that do not span a cut, between signals
  * and views (DESIGN §5). It also supplies the motion input of the flags stage (static, shaky).
  */
-export const MOTION_STAGES: readonly PipelineStage[] = [];
+const MOTION_STAGES: readonly PipelineStage[] = [];
 
 const STAGES: readonly PipelineStage[] = [sampleStage, signalsStage, ...MOTION_STAGES, viewsStage, flagsStage];
 

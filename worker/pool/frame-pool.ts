@@ -4,8 +4,9 @@ import type { FrameMeasurement, FrameViewsTask, MeasureFrameTask } from './frame
 
 /**
  * The worker-thread pool for CPU-heavy per-frame work, one thread per core, so a clip's frames are measured on
- * both cores while the job loop stays free. Threads load the TypeScript entry through tsx's loader, exactly as the
- * worker process itself runs (`node --import tsx worker/index.ts`), in tests and in production alike.
+ * both cores while the job loop stays free. Every thread, in tests and in production alike, starts from
+ * frame-thread-entry.mjs, which registers tsx's loader in the thread and imports the TypeScript entry; execArgv is
+ * empty so nothing of the parent's command line (vitest's or `--import tsx`) reaches the threads.
  */
 export interface FramePool {
   measureFrame(task: Omit<MeasureFrameTask, 'kind'>, signal?: AbortSignal): Promise<FrameMeasurement>;
@@ -15,8 +16,8 @@ export interface FramePool {
 
 export function createFramePool(threads = os.availableParallelism()): FramePool {
   const pool = new Piscina({
-    filename: new URL('./frame-thread.ts', import.meta.url).href,
-    execArgv: ['--import', 'tsx'],
+    filename: new URL('./frame-thread-entry.mjs', import.meta.url).href,
+    execArgv: [],
     minThreads: 1,
     maxThreads: Math.max(1, threads),
   });

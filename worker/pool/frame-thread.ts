@@ -1,8 +1,7 @@
 /**
- * Entry of each thread of the frame pool: one default export that runs a task by its kind. Threads load this file
- * through tsx's require hook (the `--import tsx` in the pool's execArgv); piscina looks for the default export
- * first, and only a file that has one loads that way.
- * libvips would start its own threads per image; one is enough when every core already runs a pool thread.
+ * The frame pool's task runner (loaded by frame-thread-entry.mjs in each thread): one handler that runs a task by
+ * its kind. libvips would start its own threads per image; one is enough when every core already runs a pool
+ * thread.
  */
 import sharp from 'sharp';
 import { measureFrame, writeFrameViews, type FrameMeasurement, type FrameTask } from './frame-tasks';

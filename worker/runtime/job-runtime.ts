@@ -141,6 +141,7 @@ export function createJobRuntime(options: JobRuntimeOptions): JobRuntime {
 
   return {
     run() {
+      stopping = false;
       looping = loop();
       return looping;
     },

@@ -1,0 +1,32 @@
+import { storagePaths } from '../../server/storage/paths';
+import type { Handlers } from '../../worker/jobs/handler';
+import { createFramePool, type FramePool } from '../../worker/pool/frame-pool';
+import { createJobRuntime, type JobRuntime } from '../../worker/runtime/job-runtime';
+import type { TestServer } from './test-server';
+
+export interface TestRuntime {
+  runtime: JobRuntime;
+  pool: FramePool;
+  /** Runs due jobs one after another until none is left. */
+  drain(): Promise<number>;
+  close(): Promise<void>;
+}
+
+/** The worker's real job runtime and frame pool, in the test process, over a test server's database and storage. */
+export function startTestRuntime(server: TestServer, { handlers, owner = 'test-worker' }:
+  { handlers?: Handlers; owner?: string } = {}): TestRuntime {
+  const pool = createFramePool();
+  const runtime = createJobRuntime({
+    config: server.config, paths: storagePaths(server.storageDir), pool, owner, handlers, pollMs: 50,
+  });
+  return {
+    runtime,
+    pool,
+    async drain() {
+      let ran = 0;
+      while (await runtime.runOnce()) ran += 1;
+      return ran;
+    },
+    close: () => pool.destroy(),
+  };
+}
