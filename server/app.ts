@@ -7,12 +7,14 @@ import helmet from 'helmet';
 import type { Sequelize } from 'sequelize';
 import { configurePassport } from './auth/passport';
 import type { Config } from './config';
+import { bearerToken } from './middlewares/bearer-token';
 import { createCsrf } from './middlewares/csrf';
 import { errorHandler } from './middlewares/errors';
 import { createSessionMiddleware } from './middlewares/session';
 import { createSignInLimits } from './middlewares/sign-in-limits';
 import { createApiRouter } from './routes';
 import { deriveKey, loadServerSecret } from './services/secrets';
+import { sessionMaxAgeMs } from './services/settings';
 import { storagePaths } from './storage/paths';
 
 export interface AppContext {
@@ -54,8 +56,15 @@ export function createApp(context: AppContext): KinefoldApp {
   app.use(express.json({ limit: '1mb' }));
   app.use(cookieParser());
   app.use(sessions.middleware);
+  // The session lifetime is an admin setting; each request's cookie gets the one in force (rolling sessions).
+  app.use((req, _res, next) => {
+    sessionMaxAgeMs(config).then((ms) => {
+      if (req.session) req.session.cookie.maxAge = ms;
+      next();
+    }, next);
+  });
   app.use(passport.session());
-  app.use('/api', csrf.protect, createApiRouter({
+  app.use('/api', bearerToken, csrf.protect, createApiRouter({
     auth: { signInLimits: createSignInLimits(config), issueCsrfToken: csrf.issueToken },
     paths: storagePaths(config.storageDir),
     uploadLimitBytes: config.uploadLimitBytes,

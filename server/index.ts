@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url';
 import { createApp } from './app';
 import { loadConfig } from './config';
 import { openKinefoldDatabase } from './db/open';
+import { demoSeeded, seedDemoCampaign } from './demo/seed';
 import { startMail } from './mail';
 import { cleanStaleUploads } from './services/storage-hygiene';
 import { storagePaths } from './storage/paths';
@@ -25,6 +26,11 @@ console.log(mail.fakeSmtp
 
 const server = kinefold.app.listen(config.port, () => {
   console.log(`Kinefold server listening on http://localhost:${config.port} (storage: ${config.storageDir})`);
+  // The demo footage is rendered by ffmpeg child processes, so the server answers requests meanwhile.
+  if (config.demo === 'full') {
+    void demoSeeded().then((seeded) => (seeded ? undefined : seedDemoCampaign(config)))
+      .catch((error: unknown) => console.error('Kinefold demo: seeding stopped', error));
+  }
 });
 
 let stopping = false;

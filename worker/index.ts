@@ -9,6 +9,7 @@ import { loadConfig } from '../server/config';
 import { openKinefoldDatabase } from '../server/db/open';
 import { storagePaths } from '../server/storage/paths';
 import { createFramePool } from './pool/frame-pool';
+import { startDailySchedule } from './runtime/daily-schedule';
 import { createJobRuntime } from './runtime/job-runtime';
 
 const config = loadConfig();
@@ -19,6 +20,8 @@ const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir
 console.log(`Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, `
   + `${config.jobConcurrency} jobs at once).`);
 
+const stopSchedule = startDailySchedule();
+
 let stopping = false;
 function stop(signal: string): void {
   if (stopping) {
@@ -27,6 +30,7 @@ function stop(signal: string): void {
   }
   stopping = true;
   console.log(`Kinefold worker: ${signal} received, giving back the jobs in hand and stopping.`);
+  stopSchedule();
   runtime.stop()
     .then(() => pool.destroy())
     .then(() => sequelize.close())

@@ -4,6 +4,10 @@ import * as foundation from './migrations/0001-foundation';
 import * as peopleMail from './migrations/0002-people-mail';
 import * as ingest from './migrations/0003-ingest';
 import * as pipeline from './migrations/0004-pipeline';
+import * as motion from './migrations/0005-motion';
+import * as review from './migrations/0006-review';
+import * as pairsets from './migrations/0007-pairsets';
+import * as admin from './migrations/0008-admin';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -16,6 +20,10 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0002-people-mail', peopleMail],
   ['0003-ingest', ingest],
   ['0004-pipeline', pipeline],
+  ['0005-motion', motion],
+  ['0006-review', review],
+  ['0007-pairsets', pairsets],
+  ['0008-admin', admin],
 ];
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */

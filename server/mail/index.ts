@@ -1,5 +1,6 @@
 import nodemailer from 'nodemailer';
 import type { Config } from '../config';
+import { currentSettings } from '../services/settings';
 import { startFakeSmtp, type FakeSmtp } from './fake-smtp';
 import { createMailSender, type MailSender, type MailSenderOptions } from './sender';
 
@@ -18,14 +19,15 @@ const SMTP_TIMEOUTS = { connectionTimeout: 30_000, greetingTimeout: 30_000, sock
  * sender that delivers the outbox to it. `start: false` leaves the sender idle (tests call `drain`).
  */
 export async function startMail(
-  config: Pick<Config, 'smtpUrl' | 'mailFrom'>,
+  config: Pick<Config, 'smtpUrl' | 'mailFrom' | 'sessionMaxAgeMs'>,
   { start = true, ...senderOptions }: { start?: boolean } & Partial<MailSenderOptions> = {},
 ): Promise<RunningMail> {
   const fakeSmtp = config.smtpUrl ? null : await startFakeSmtp();
   const transport = fakeSmtp
     ? nodemailer.createTransport({ host: fakeSmtp.host, port: fakeSmtp.port, secure: false, ignoreTLS: true })
     : nodemailer.createTransport({ url: config.smtpUrl!, ...SMTP_TIMEOUTS });
-  const sender = createMailSender({ transport, from: config.mailFrom, ...senderOptions });
+  const from = async () => (await currentSettings(config)).mailFrom;
+  const sender = createMailSender({ transport, from, ...senderOptions });
   if (start) sender.start();
   return {
     fakeSmtp,

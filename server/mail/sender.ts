@@ -4,7 +4,8 @@ import { MailOutbox } from '../models';
 
 export interface MailSenderOptions {
   transport: Transporter;
-  from: string;
+  /** The sender address, read again for every message so an admin's change applies at once. */
+  from: string | (() => Promise<string>);
   /** How often the outbox is looked at; the worker writes to it too, so it is polled rather than signalled. */
   pollMs?: number;
   /** How long a claimed row stays with one sender; longer than the transport's worst-case timeouts. */
@@ -91,7 +92,7 @@ export function createMailSender(options: MailSenderOptions): MailSender {
     }
     try {
       const info = await options.transport.sendMail({
-        from: options.from,
+        from: typeof options.from === 'string' ? options.from : await options.from(),
         to: row.to,
         subject: row.subject,
         text: row.text,

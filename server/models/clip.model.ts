@@ -6,6 +6,7 @@ import type { ClipState } from '../../shared/clip-states';
 import type { ClipFlagDetail, ClipProbe, ClipSummary } from '../../shared/types/clips';
 import type { Project } from './project.model';
 import type { User } from './user.model';
+import type { Verdict } from './verdict.model';
 
 /** One uploaded video file and everything derived from it (DESIGN §2). */
 export class Clip extends Model<InferAttributes<Clip>, InferCreationAttributes<Clip>> {
@@ -42,6 +43,10 @@ export class Clip extends Model<InferAttributes<Clip>, InferCreationAttributes<C
   declare flagDetails: CreationOptional<ClipFlagDetail[]>;
   declare medianSharpness: CreationOptional<number | null>;
   declare meanLuma: CreationOptional<number | null>;
+  /** Review signals the flags stage writes (shared/review/clip-signals.ts). */
+  declare meanMotion: CreationOptional<number | null>;
+  declare consistentShare: CreationOptional<number | null>;
+  declare usablePairs: CreationOptional<number | null>;
   /** Set by the sample stage once preview.mp4 and the thumbnail are in place. */
   declare hasPreview: CreationOptional<boolean>;
   declare hasThumbnail: CreationOptional<boolean>;
@@ -50,6 +55,8 @@ export class Clip extends Model<InferAttributes<Clip>, InferCreationAttributes<C
 
   declare project?: NonAttribute<Project>;
   declare uploader?: NonAttribute<User>;
+  /** The verdict in force, when loaded with the `verdict` include. */
+  declare verdict?: NonAttribute<Verdict | null>;
 
   probe(): ClipProbe {
     return {
@@ -89,6 +96,10 @@ export class Clip extends Model<InferAttributes<Clip>, InferCreationAttributes<C
       medianSharpness: this.medianSharpness,
       meanLuma: this.meanLuma,
       flagDetails: this.flagDetails,
+      meanMotion: this.meanMotion,
+      consistentShare: this.consistentShare,
+      usablePairs: this.usablePairs,
+      verdict: this.verdict?.toApi() ?? null,
     };
   }
 
@@ -126,6 +137,9 @@ export class Clip extends Model<InferAttributes<Clip>, InferCreationAttributes<C
       flagDetails: { type: DataTypes.JSON, allowNull: false, defaultValue: [] },
       medianSharpness: { type: DataTypes.FLOAT, allowNull: true },
       meanLuma: { type: DataTypes.FLOAT, allowNull: true },
+      meanMotion: { type: DataTypes.FLOAT, allowNull: true },
+      consistentShare: { type: DataTypes.FLOAT, allowNull: true },
+      usablePairs: { type: DataTypes.INTEGER, allowNull: true },
       hasPreview: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       hasThumbnail: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       createdAt: DataTypes.DATE,

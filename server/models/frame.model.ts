@@ -2,7 +2,7 @@ import {
   DataTypes, Model, QueryTypes, type CreationOptional, type InferAttributes, type InferCreationAttributes,
   type Sequelize,
 } from 'sequelize';
-import type { ClipFrame } from '../../shared/types/frames';
+import type { ClipFrame, FrameMotion } from '../../shared/types/frames';
 
 /** A sampled still of a clip and its signals (DESIGN §2); written by the worker's sample and signals stages. */
 export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes<Frame>> {
@@ -22,7 +22,8 @@ export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes
   /** 64-bit difference hash as 16 hex digits, compared across the project's clips for the duplicate flag. */
   declare dhash: CreationOptional<string | null>;
 
-  toApi(): ClipFrame {
+  /** `motion`: the summary of the forward field from this frame to the next, where one exists. */
+  toApi(motion: FrameMotion | null = null): ClipFrame {
     return {
       index: this.index,
       timeS: this.timeS,
@@ -31,7 +32,7 @@ export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes
       sharpness: this.sharpness,
       clippedShare: this.clippedShare,
       cutBefore: this.cutBefore,
-      motion: null,
+      motion,
     };
   }
 

@@ -15,6 +15,8 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare workingSize: number;
   declare deltas: number[];
   declare flagThresholds: Record<string, number>;
+  /** Days after a reject verdict when the clip's files are purged; null keeps rejected footage. */
+  declare retentionDays: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -31,6 +33,7 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
       workingSize: { type: DataTypes.INTEGER, allowNull: false },
       deltas: { type: DataTypes.JSON, allowNull: false },
       flagThresholds: { type: DataTypes.JSON, allowNull: false },
+      retentionDays: { type: DataTypes.INTEGER, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     }, { sequelize, tableName: 'projects' });

@@ -8,6 +8,7 @@ import { validate } from '../middlewares/validate';
 import {
   clipProgress, framePath, listFrames, previewPath, reprocessClip, thumbnailPath, viewPath,
 } from '../services/clip-media';
+import { motionFieldPath, type MotionFile } from '../services/clip-motion';
 import type { StoragePaths } from '../storage/paths';
 
 /** What processing made of a clip, under /api/clips. Files stream with Range support (sendFile answers 206). */
@@ -17,6 +18,8 @@ export function createClipMediaRouter(paths: StoragePaths): Router {
   router.get('/:id/frames', requireSignIn, byId, getFrames);
   router.get('/:id/frames/:index', requireSignIn, validate({ params: frameParamSchema }), getFrameImage(paths));
   router.get('/:id/views/:index/:view', requireSignIn, validate({ params: viewParamSchema }), getViewImage(paths));
+  router.get('/:id/motion/:index', requireSignIn, validate({ params: frameParamSchema }), getMotion(paths, 'picture'));
+  router.get('/:id/motion/:index/flo', requireSignIn, validate({ params: frameParamSchema }), getMotion(paths, 'flo'));
   router.get('/:id/thumbnail', requireSignIn, byId, getThumbnail(paths));
   router.get('/:id/preview', requireSignIn, byId, getPreview(paths));
   router.get('/:id/progress', requireSignIn, byId, getProgress);
@@ -42,6 +45,19 @@ function getViewImage(paths: StoragePaths) {
   };
 }
 
+/** The forward field from frame index to index + 1: its colour picture, or the field as a Middlebury .flo file. */
+function getMotion(paths: StoragePaths, file: MotionFile) {
+  return async (req: Request, res: Response) => {
+    const { id, index } = req.valid.params as FrameParam;
+    const field = await motionFieldPath(id, index, file, paths);
+    // .flo has no registered media type; a download name saves scripts from guessing one.
+    const download = `attachment; filename="clip-${id}-motion-${index}.flo"`;
+    sendDerived(res, field, file === 'flo'
+      ? { 'Content-Type': 'application/octet-stream', 'Content-Disposition': download }
+      : {});
+  };
+}
+
 function getThumbnail(paths: StoragePaths) {
   return async (req: Request, res: Response) => {
     sendDerived(res, await thumbnailPath((req.valid.params as IdParam).id, paths));
@@ -63,8 +79,9 @@ async function postReprocess(req: Request, res: Response<ClipProgress>): Promise
 }
 
 /** Derived files change when a clip is processed again, so the browser asks each time (ETag makes that cheap). */
-function sendDerived(res: Response, file: string): void {
+function sendDerived(res: Response, file: string, headers: Record<string, string> = {}): void {
   res.sendFile(file, {
-    acceptRanges: true, dotfiles: 'deny', cacheControl: false, headers: { 'Cache-Control': 'private, no-cache' },
+    acceptRanges: true, dotfiles: 'deny', cacheControl: false,
+    headers: { 'Cache-Control': 'private, no-cache', ...headers },
   });
 }

@@ -11,9 +11,9 @@ import { admitUpload } from '../services/clip-admission';
 import { clipSourcePath, getClipDetail, listClips, removeClip, updateClipMetadata } from '../services/clips';
 import type { StoragePaths } from '../storage/paths';
 
-export function createClipsRouter(paths: StoragePaths, uploadLimitBytes: number): Router {
+export function createClipsRouter(paths: StoragePaths, uploadLimitBytes: number, publicUrl: string): Router {
   const router = Router();
-  router.post('/', requireRole('operator'), receiveClipUpload(paths, uploadLimitBytes), postClip(paths));
+  router.post('/', requireRole('operator'), receiveClipUpload(paths, uploadLimitBytes), postClip(paths, publicUrl));
   router.get('/', requireSignIn, validate({ query: clipListQuerySchema }), getClips);
   router.get('/:id', requireSignIn, validate({ params: idParamSchema }), getClip);
   router.patch('/:id', requireSignIn, validate({ params: idParamSchema, body: clipPatchSchema }), patchClip);
@@ -22,9 +22,9 @@ export function createClipsRouter(paths: StoragePaths, uploadLimitBytes: number)
   return router;
 }
 
-function postClip(paths: StoragePaths) {
+function postClip(paths: StoragePaths, publicUrl: string) {
   return async (req: Request, res: Response<ClipSummary>) => {
-    const clip = await admitUpload(req.file!.received!, req.file!.originalname, currentUser(req).id, paths);
+    const clip = await admitUpload(req.file!.received!, req.file!.originalname, currentUser(req).id, { paths, publicUrl });
     res.status(HttpStatus.CREATED).json(clip);
   };
 }

@@ -2,17 +2,24 @@ import { Router } from 'express';
 import type { Config } from '../config';
 import { apiNotFound } from '../middlewares/errors';
 import type { StoragePaths } from '../storage/paths';
+import { createAdminRouter } from './admin';
+import { createSettingsRouter } from './settings';
+import { auditRouter } from './audit';
 import { createAuthRouter, type AuthRouterDeps } from './auth';
 import { createClipMediaRouter } from './clip-media';
 import { createClipsRouter } from './clips';
 import { healthRouter } from './health';
 import { createInvitationsRouter } from './invitations';
+import { jobsRouter } from './jobs';
 import { mailRouter } from './mail';
 import { meRouter } from './me';
+import { createPairsetsRouter } from './pairsets';
 import { createPasswordResetRouter } from './password-reset';
 import { createPeopleRouter } from './people';
 import { createProfileRouter } from './profile';
 import { projectsRouter } from './projects';
+import { createClipReviewRouter, createReviewRouter, createReviewSettingsRouter } from './review';
+import { tokensRouter } from './tokens';
 import { usersRouter } from './users';
 
 /** Every API route under /api, then a JSON 404 for anything else there. */
@@ -36,8 +43,17 @@ export function createApiRouter(deps: ApiDeps): Router {
   api.use('/invitations', createInvitationsRouter(deps.config));
   api.use('/mail', mailRouter);
   api.use('/projects', projectsRouter);
-  api.use('/clips', createClipsRouter(deps.paths, deps.uploadLimitBytes));
+  api.use('/clips', createClipsRouter(deps.paths, deps.uploadLimitBytes, deps.config.publicUrl));
   api.use('/clips', createClipMediaRouter(deps.paths));
+  api.use('/clips', createClipReviewRouter());
+  api.use('/review', createReviewRouter());
+  api.use('/settings', createReviewSettingsRouter());
+  api.use('/settings', createSettingsRouter(deps.config));
+  api.use('/admin', createAdminRouter(deps.paths));
+  api.use('/jobs', jobsRouter);
+  api.use('/pairsets', createPairsetsRouter(deps.paths));
+  api.use('/tokens', tokensRouter);
+  api.use(auditRouter);
   api.use(apiNotFound);
   return api;
 }

@@ -19,3 +19,14 @@ export async function recordAudit(entry: AuditEntry, transaction?: Transaction):
     detail: entry.detail ?? {},
   }, { transaction });
 }
+
+/** Records many events in one statement (a bulk action's per-clip trail), in the caller's transaction. */
+export async function recordAudits(entries: AuditEntry[], transaction: Transaction): Promise<void> {
+  await AuditEvent.bulkCreate(entries.map((entry) => ({
+    actorId: entry.actorId,
+    action: entry.action,
+    targetType: entry.targetType,
+    targetId: entry.targetId === undefined || entry.targetId === null ? null : String(entry.targetId),
+    detail: entry.detail ?? {},
+  })), { transaction });
+}

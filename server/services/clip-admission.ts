@@ -7,6 +7,7 @@ import { Clip, Job, Project, User } from '../models';
 import type { StoragePaths } from '../storage/paths';
 import { recordAudit } from './audit';
 import { probeUpload } from './clip-probe';
+import { checkQuotaThresholds } from './quota-warnings';
 import { releaseUpload } from './quotas';
 import { discardUpload, type ReceivedUpload } from './upload-engine';
 
@@ -32,7 +33,7 @@ export async function admitUpload(
   upload: ReceivedUpload,
   uploadedName: string | undefined,
   uploaderId: number,
-  paths: StoragePaths,
+  { paths, publicUrl }: { paths: StoragePaths; publicUrl: string },
 ): Promise<ClipSummary> {
   const originalName = cleanOriginalName(uploadedName);
   try {
@@ -41,7 +42,7 @@ export async function admitUpload(
     }
     await refuseDuplicate(upload, originalName);
     const { probe, ext } = await probeUpload(upload.path, originalName);
-    const clip = await commitClip(upload, { originalName, uploaderId, probe, ext }, paths);
+    const clip = await commitClip(upload, { originalName, uploaderId, probe, ext }, paths, publicUrl);
     return clip.toApi();
   } catch (error) {
     await discardUpload(upload);
@@ -68,7 +69,9 @@ interface ClipFacts {
   ext: string;
 }
 
-async function commitClip(upload: ReceivedUpload, facts: ClipFacts, paths: StoragePaths): Promise<Clip> {
+async function commitClip(
+  upload: ReceivedUpload, facts: ClipFacts, paths: StoragePaths, publicUrl: string,
+): Promise<Clip> {
   const { fields } = upload;
   let clipId: number | null = null;
   const clip = await Clip.sequelize!.transaction(async (transaction) => {
@@ -97,6 +100,7 @@ async function commitClip(upload: ReceivedUpload, facts: ClipFacts, paths: Stora
       detail: { originalName: facts.originalName, sizeBytes: upload.size, projectId: fields.projectId },
     }, transaction);
     await releaseUpload(upload.reservationId, transaction);
+    await checkQuotaThresholds(fields.projectId, facts.uploaderId, publicUrl, transaction);
     // The rename is one metadata operation on the same volume: done last inside the transaction, so the row
     // commits only once the file is in place, and a failed rename rolls the rows back.
     await fs.promises.mkdir(paths.clipDir(created.id), { recursive: true });

@@ -1,22 +1,30 @@
 import fs from 'node:fs';
 import { Op } from 'sequelize';
 import { HttpStatus } from '../../shared/http-status';
+import { clipMotionScale } from '../../shared/motion/motion-scale';
 import type { ClipStage, StoredView } from '../../shared/pipeline-stages';
 import type { ClipFrameList, ClipProgress } from '../../shared/types/frames';
 import { AppError, conflict, notFound } from '../errors';
-import { Clip, Frame, Job } from '../models';
+import { Clip, Frame, Job, MotionField } from '../models';
 import type { StoragePaths } from '../storage/paths';
 import { recordAudit } from './audit';
 
 /**
  * What processing made of a clip (frames, signals, views, preview, thumbnail, progress) and starting it again.
+ * Motion field files: clip-motion.ts.
  * Files are answered as paths for the route to stream; a path is always built from ids (storage/paths.ts).
  */
 
+/** Frames with the summary of the forward motion field from each, and the scale of the clip's motion pictures. */
 export async function listFrames(clipId: number): Promise<ClipFrameList> {
   await existingClip(clipId);
   const frames = await Frame.findAll({ where: { clipId }, order: [['index', 'ASC']] });
-  return { items: frames.map((frame) => frame.toApi()), total: frames.length };
+  const fields = new Map((await MotionField.forwardOfClip(clipId)).map((field) => [field.fromIndex, field]));
+  return {
+    items: frames.map((frame) => frame.toApi(fields.get(frame.index)?.toFrameMotion() ?? null)),
+    total: frames.length,
+    motionScale: clipMotionScale([...fields.values()]),
+  };
 }
 
 export async function framePath(clipId: number, index: number, paths: StoragePaths): Promise<string> {
@@ -77,7 +85,7 @@ export async function reprocessClip(clipId: number, actorId: number): Promise<Cl
   return clipProgress(clipId);
 }
 
-async function existingClip(clipId: number): Promise<Clip> {
+export async function existingClip(clipId: number): Promise<Clip> {
   const clip = await Clip.findByPk(clipId);
   if (!clip) throw notFound(`Clip ${clipId}`);
   return clip;
@@ -91,7 +99,7 @@ async function existingFrame(clipId: number, index: number): Promise<void> {
 }
 
 /** The file, or a 404 saying what is missing (not made yet, or removed). */
-async function existingFile(file: string, what: string): Promise<string> {
+export async function existingFile(file: string, what: string): Promise<string> {
   try {
     await fs.promises.access(file, fs.constants.R_OK);
     return file;

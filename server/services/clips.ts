@@ -6,9 +6,11 @@ import { HttpStatus } from '../../shared/http-status';
 import type { ClipListQuery, ClipPatch } from '../../shared/schemas/clips';
 import type { ClipDetail, ClipSummary } from '../../shared/types/clips';
 import { AppError, notFound } from '../errors';
-import { AuditEvent, Clip, Project, User } from '../models';
+import { AuditEvent, Clip, Project, User, Verdict } from '../models';
 import type { StoragePaths } from '../storage/paths';
 import { recordAudit } from './audit';
+import { claimOf } from './review-claims';
+import { verdictHistory } from './review-history';
 import { containsText } from './text-search';
 
 export interface Viewer {
@@ -19,6 +21,8 @@ export interface Viewer {
 const INCLUDE = [
   { model: Project, as: 'project', attributes: ['id', 'name'] },
   { model: User, as: 'uploader', attributes: ['id', 'name'] },
+  // Operators see the verdict in force on their clips, with its reason and comment.
+  { model: Verdict, as: 'verdict', include: [{ model: User, as: 'curator', attributes: ['id', 'name'] }] },
 ];
 
 export async function listClips(query: ClipListQuery): Promise<ListPage<ClipSummary>> {
@@ -75,6 +79,8 @@ export async function getClipDetail(id: number, viewer: Viewer): Promise<ClipDet
       actorName: (event.get('actor') as User | null)?.name ?? null,
       detail: event.detail,
     })),
+    verdicts: await verdictHistory(id),
+    claim: await claimOf(clip),
     can: permissions(clip, viewer),
   };
 }

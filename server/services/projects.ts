@@ -7,6 +7,7 @@ import { DEFAULT_FLAG_THRESHOLDS } from '../../shared/flag-thresholds';
 import { conflict, notFound } from '../errors';
 import { Project } from '../models';
 import { recordAudit } from './audit';
+import { projectFlagDefaults } from './settings';
 
 /** Processing defaults for a new project (the Ingest issue): 5 frames/s, 320 px, Δ 1, 2 and 4 sampled frames. */
 export const PROJECT_DEFAULTS = {
@@ -29,6 +30,7 @@ function toSummary(project: Project): ProjectSummary {
     description: project.description,
     archived: project.archived,
     quotaBytes: project.quotaBytes === null ? null : Number(project.quotaBytes),
+    retentionDays: project.retentionDays ?? null,
     usedBytes: Number(project.getDataValue('usedBytes' as never) ?? 0),
     clipCount: Number(project.getDataValue('clipCount' as never) ?? 0),
     settings: {
@@ -72,18 +74,20 @@ async function assertNameFree(name: string, exceptId?: number): Promise<void> {
 
 export async function createProject(body: ProjectBody, actorId: number): Promise<ProjectSummary> {
   await assertNameFree(body.name);
+  const flagThresholds = (body.flagThresholds ?? await projectFlagDefaults()) as Record<string, number>;
   const project = await Project.sequelize!.transaction(async (transaction) => {
     const created = await Project.create({
       name: body.name,
       description: body.description ?? '',
       archived: body.archived ?? false,
       quotaBytes: body.quotaBytes ?? null,
+      retentionDays: body.retentionDays ?? null,
       sampleFps: body.sampleFps ?? PROJECT_DEFAULTS.sampleFps,
       workingSize: body.workingSize ?? PROJECT_DEFAULTS.workingSize,
       deltas: body.deltas ?? [...PROJECT_DEFAULTS.deltas],
       estimator: body.estimator ?? PROJECT_DEFAULTS.estimator,
       estimatorParams: body.estimatorParams ?? {},
-      flagThresholds: body.flagThresholds ?? {},
+      flagThresholds,
     }, { transaction });
     await recordAudit({
       actorId, action: 'project.create', targetType: 'project', targetId: created.id, detail: { name: created.name },

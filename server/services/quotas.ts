@@ -15,10 +15,11 @@ export async function projectUsage(projectId: number, transaction?: Transaction)
   return { stored: Number(row?.stored ?? 0), reserved: Number(row?.reserved ?? 0) };
 }
 
-/** Bytes a user's uploads hold now, plus bytes reserved by their uploads in flight. */
+/** Bytes a user's uploads and the pairsets they built hold now, plus bytes reserved by their uploads in flight. */
 export async function userUsage(userId: number, transaction?: Transaction): Promise<{ stored: number; reserved: number }> {
   const [row] = await User.sequelize!.query<{ stored: number | null; reserved: number | null }>(
-    `SELECT (SELECT SUM(storedBytes) FROM clips WHERE uploaderId = :id) AS stored,
+    `SELECT COALESCE((SELECT SUM(storedBytes) FROM clips WHERE uploaderId = :id), 0)
+              + COALESCE((SELECT SUM(bytes) FROM pairsets WHERE ownerId = :id), 0) AS stored,
             (SELECT SUM(bytes) FROM upload_reservations WHERE userId = :id) AS reserved`,
     { replacements: { id: userId }, type: QueryTypes.SELECT, transaction },
   );

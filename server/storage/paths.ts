@@ -1,4 +1,6 @@
 import path from 'node:path';
+import { shardFileName } from '../../shared/pairing/shard-name';
+import type { SplitName } from '../../shared/pairing/split';
 import type { StoredView } from '../../shared/pipeline-stages';
 
 /**
@@ -11,7 +13,15 @@ export function storagePaths(root: string) {
     root,
     incomingDir: path.join(root, 'incoming'),
     incomingFile: (uploadId: string) => path.join(root, 'incoming', `${uploadId}.part`),
-    trashDir: path.join(root, 'trash'),
+    pairsetsDir: path.join(root, 'pairsets'),
+    /** The shards and pairset.json of a built pairset. */
+    pairsetDir: (pairsetId: number) => path.join(root, 'pairsets', String(pairsetId)),
+    pairsetManifest: (pairsetId: number) => path.join(root, 'pairsets', String(pairsetId), PAIRSET_MANIFEST),
+    pairsetShard: (pairsetId: number, split: SplitName, index: number) =>
+      path.join(root, 'pairsets', String(pairsetId), shardFileName(split, index)),
+    /** Where a build writes before its folder is renamed to pairsetDir; `token` tells attempts apart. */
+    pairsetWorkDir: (pairsetId: number, token: string) =>
+      path.join(root, 'pairsets', `${pairsetWorkPrefix(pairsetId)}${token}`),
     clipsDir: path.join(root, 'clips'),
     clipDir,
     clipSource: (clipId: number, ext: string) => path.join(clipDir(clipId), `source.${ext}`),
@@ -26,6 +36,9 @@ export type StoragePaths = ReturnType<typeof storagePaths>;
 
 /** Work folders start with this, so leftovers of a crashed attempt are found and removed by name. */
 export const WORK_DIR_PREFIX = 'work-';
+export const PAIRSET_MANIFEST = 'pairset.json';
+/** Names of the work folders of one pairset's builds, for removing leftovers by name. */
+export const pairsetWorkPrefix = (pairsetId: number) => `${WORK_DIR_PREFIX}${pairsetId}-`;
 const FRAME_NAME_DIGITS = 6;
 
 function frameName(index: number): string {
@@ -40,6 +53,7 @@ export function derivedLayout(base: string) {
   const framesDir = path.join(base, 'frames');
   const thumbsDir = path.join(base, 'thumbs');
   const viewsDir = path.join(base, 'views');
+  const motionDir = path.join(base, 'motion');
   return {
     preview: path.join(base, 'preview.mp4'),
     framesDir,
@@ -51,6 +65,11 @@ export function derivedLayout(base: string) {
     viewsDir,
     viewDir: (view: StoredView) => path.join(viewsDir, view),
     view: (view: StoredView, index: number) => path.join(viewsDir, view, `${frameName(index)}.png`),
+    motionDir,
+    /** The forward field from frame `index` to `index` + 1 (Middlebury .flo), its colour picture, its backward. */
+    motionFlo: (index: number) => path.join(motionDir, `${frameName(index)}.flo`),
+    motionPicture: (index: number) => path.join(motionDir, `${frameName(index)}.png`),
+    motionBackwardFlo: (index: number) => path.join(motionDir, `${frameName(index)}.back.flo`),
   };
 }
 export type DerivedLayout = ReturnType<typeof derivedLayout>;

@@ -20,6 +20,7 @@ export const projectBodySchema = z.strictObject({
   description: z.string().max(4000).optional(),
   quotaBytes: quotaBytes.optional(),
   archived: z.boolean().optional(),
+  retentionDays: z.number().int().min(1, 'retentionDays must be at least 1 day').max(3650).nullable().optional(),
   sampleFps: settingsShape.sampleFps.optional(),
   workingSize: settingsShape.workingSize.optional(),
   deltas: settingsShape.deltas.optional(),

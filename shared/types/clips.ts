@@ -1,5 +1,6 @@
 import type { ClipState } from '../clip-states';
 import type { FlagName } from '../flag-thresholds';
+import type { ClipClaim, ClipVerdict } from './review';
 
 export interface ClipProbe {
   container: string;
@@ -45,6 +46,12 @@ export interface ClipSummary extends CaptureMetadata {
   medianSharpness: number | null;
   meanLuma: number | null;
   flagDetails: ClipFlagDetail[];
+  /** Clip-level review signals (shared/review/clip-signals.ts); motion ones null while no field exists. */
+  meanMotion: number | null;
+  consistentShare: number | null;
+  usablePairs: number | null;
+  /** The verdict in force, with its reason and comment; null until the clip is decided. */
+  verdict: ClipVerdict | null;
 }
 
 export interface ClipHistoryEntry {
@@ -56,6 +63,10 @@ export interface ClipHistoryEntry {
 
 export interface ClipDetail extends ClipSummary {
   history: ClipHistoryEntry[];
+  /** Every verdict given on the clip, oldest first, changed ones included. */
+  verdicts: ClipVerdict[];
+  /** Someone's live review claim on the clip, or null. */
+  claim: ClipClaim | null;
   /** What the signed-in person may do with this clip now. */
   can: { edit: boolean; withdraw: boolean; delete: boolean };
 }

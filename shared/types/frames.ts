@@ -1,7 +1,10 @@
 import type { ClipState } from '../clip-states';
 import type { ClipStage } from '../pipeline-stages';
 
-/** Motion of the field from this frame to the next; null until the Motion stage has run or across a cut. */
+/**
+ * The forward motion field from this frame to the next (px per frame step at the working size); null until the
+ * Motion stage has run, and where a cut or the clip's end follows the frame.
+ */
 export interface FrameMotion {
   meanMagnitude: number;
   p95Magnitude: number;
@@ -24,6 +27,8 @@ export interface ClipFrame {
 export interface ClipFrameList {
   items: ClipFrame[];
   total: number;
+  /** Motion (px per frame step) at full colour in this clip's motion pictures (motion-scale.ts); null: no fields. */
+  motionScale: number | null;
 }
 
 /** Where processing of a clip stands: its state, the stage running (or that failed) and that stage's progress. */

@@ -7,6 +7,8 @@ export interface ProjectSummary {
   description: string;
   archived: boolean;
   quotaBytes: number | null;
+  /** Days after a reject verdict when the clip's files are purged; null keeps rejected footage. */
+  retentionDays: number | null;
   usedBytes: number;
   clipCount: number;
   settings: ProjectSettings;

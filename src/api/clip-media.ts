@@ -9,6 +9,9 @@ export const clipMediaUrl = {
   frame: (clipId: number, index: number) => `/api/clips/${clipId}/frames/${index}`,
   luma: (clipId: number, index: number) => `/api/clips/${clipId}/views/${index}/luma`,
   chroma: (clipId: number, index: number) => `/api/clips/${clipId}/views/${index}/chroma`,
+  /** Colour picture of the forward motion field from frame `index` to `index` + 1; the field itself as .flo. */
+  motion: (clipId: number, index: number) => `/api/clips/${clipId}/motion/${index}`,
+  motionFlo: (clipId: number, index: number) => `/api/clips/${clipId}/motion/${index}/flo`,
   preview: (clipId: number) => `/api/clips/${clipId}/preview`,
   thumbnail: (clipId: number) => `/api/clips/${clipId}/thumbnail`,
 };

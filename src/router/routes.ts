@@ -3,7 +3,10 @@ import type { RouteRecordRaw } from 'vue-router';
 export type RouteName =
   | 'sign-in' | 'home' | 'people' | 'not-allowed' | 'not-found'
   | 'projects' | 'upload' | 'clips' | 'clip-detail'
-  | 'invitation' | 'forgot-password' | 'reset-password' | 'profile' | 'mail-log';
+  | 'invitation' | 'forgot-password' | 'reset-password' | 'profile' | 'mail-log'
+  | 'admin-usage' | 'admin-jobs' | 'admin-audit' | 'admin-settings'
+  | 'review-queue' | 'review-clip'
+  | 'pairsets' | 'pairset-new' | 'pairset-detail' | 'api-tokens';
 
 export const routes: (RouteRecordRaw & { name?: RouteName })[] = [
   {
@@ -80,6 +83,68 @@ export const routes: (RouteRecordRaw & { name?: RouteName })[] = [
         component: () => import('../views/clips/ClipDetailView.vue'),
         props: true,
         meta: { title: 'Clip' },
+      },
+      {
+        path: 'review',
+        name: 'review-queue',
+        component: () => import('../views/review/ReviewQueueView.vue'),
+        meta: { title: 'Review', roles: ['curator'] },
+      },
+      {
+        path: 'review/:id(\\d+)',
+        name: 'review-clip',
+        component: () => import('../views/review/ReviewClipView.vue'),
+        props: true,
+        meta: { title: 'Review clip', roles: ['curator'] },
+      },
+      {
+        path: 'admin/usage',
+        name: 'admin-usage',
+        component: () => import('../views/admin/UsageView.vue'),
+        meta: { title: 'Storage', roles: ['admin'] },
+      },
+      {
+        path: 'admin/jobs',
+        name: 'admin-jobs',
+        component: () => import('../views/admin/JobsView.vue'),
+        meta: { title: 'Worker jobs', roles: ['admin'] },
+      },
+      {
+        path: 'admin/settings',
+        name: 'admin-settings',
+        component: () => import('../views/admin/SettingsView.vue'),
+        meta: { title: 'Settings', roles: ['admin'] },
+      },
+      {
+        path: 'admin/audit',
+        name: 'admin-audit',
+        component: () => import('../views/admin/AuditLogView.vue'),
+        meta: { title: 'Audit log', roles: ['admin'] },
+      },
+      {
+        path: 'pairsets',
+        name: 'pairsets',
+        component: () => import('../views/pairsets/PairsetsView.vue'),
+        meta: { title: 'Pairsets', roles: ['engineer'] },
+      },
+      {
+        path: 'pairsets/new',
+        name: 'pairset-new',
+        component: () => import('../views/pairsets/PairsetDefineView.vue'),
+        meta: { title: 'New pairset', roles: ['engineer'] },
+      },
+      {
+        path: 'pairsets/:id(\\d+)',
+        name: 'pairset-detail',
+        component: () => import('../views/pairsets/PairsetDetailView.vue'),
+        props: true,
+        meta: { title: 'Pairset', roles: ['engineer'] },
+      },
+      {
+        path: 'api-tokens',
+        name: 'api-tokens',
+        component: () => import('../views/tokens/ApiTokensView.vue'),
+        meta: { title: 'API tokens', roles: ['engineer'] },
       },
       {
         path: 'not-allowed',

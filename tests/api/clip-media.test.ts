@@ -66,7 +66,7 @@ describe.each([
 });
 
 describe('GET /api/clips/:id/frames', () => {
-  it('lists every frame with its signals, in order; motion stays null until the Motion stage exists', async () => {
+  it('lists every frame with its signals and forward motion, in order (motion: tests/api/clip-motion)', async () => {
     const { agent } = await curator();
     const { body } = await agent.get(`/api/clips/${processed.id}/frames`).expect(200);
     expect(body.total).toBe(processed.frameCount);
@@ -74,13 +74,14 @@ describe('GET /api/clips/:id/frames', () => {
     expect(Object.keys(body.items[0]).sort()).toEqual(
       ['clippedShare', 'contrast', 'cutBefore', 'index', 'meanLuma', 'motion', 'sharpness', 'timeS'],
     );
-    expect(body.items[1]).toMatchObject({ index: 1, timeS: 0.2, cutBefore: false, motion: null });
+    expect(body.items[1]).toMatchObject({ index: 1, timeS: 0.2, cutBefore: false });
     expect(body.items[1].sharpness).toBeGreaterThan(0);
   });
 
   it('is an empty list for a clip not processed yet', async () => {
     const { agent } = await curator();
-    expect((await agent.get(`/api/clips/${queued.id}/frames`).expect(200)).body).toEqual({ items: [], total: 0 });
+    expect((await agent.get(`/api/clips/${queued.id}/frames`).expect(200)).body)
+      .toEqual({ items: [], total: 0, motionScale: null });
   });
 });
 

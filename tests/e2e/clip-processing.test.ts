@@ -39,7 +39,7 @@ beforeAll(async () => {
     path: incoming, size: fs.statSync(incoming).size, reservationId,
     sha256: createHash('sha256').update(fs.readFileSync(incoming)).digest('hex'),
     fields: { projectId: project.id, site: 'Creek bank', rig: 'handheld', capturedAt: null, tags: [], notes: '' },
-  }, 'creek-pass.mp4', operator.id, storagePaths(server.storageDir));
+  }, 'creek-pass.mp4', operator.id, { paths: storagePaths(server.storageDir), publicUrl: server.config.publicUrl });
   clipId = clip.id;
   expect(await runtime.drain()).toBe(1);
 });
@@ -61,9 +61,15 @@ describe('a processed clip', () => {
     expect(await page.$$eval('[data-test="frame-strip"] button', (frames) => frames.length)).toBe(20);
     await page.waitForSelector('[data-test="signal-chart"] canvas');
     await page.click('[data-test="frame-strip"] button:nth-child(6)');
+    await page.waitForFunction(() => [...document.querySelectorAll('[data-test="frame-views"] img')]
+      .every((image) => (image as HTMLImageElement).complete && (image as HTMLImageElement).naturalWidth > 0));
     const views = await page.$$eval('[data-test="frame-views"] img', (images) =>
       images.map((image) => (image as HTMLImageElement).naturalWidth));
-    expect(views).toEqual([320, 320, 320]);
+    // Frame, luma, chroma and the motion picture of the field to the next frame.
+    expect(views).toEqual([320, 320, 320, 320]);
+    expect(await page.$$eval('[data-test="frame-strip"] [data-test="strip-motion"]', (pictures) => pictures.length))
+      .toBeGreaterThan(0);
+    await page.waitForSelector('[data-test="motion-wheel-legend"] canvas');
 
     const played = await page.$eval('[data-test="clip-preview"]', async (element) => {
       const video = element as HTMLVideoElement;

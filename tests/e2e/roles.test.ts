@@ -19,9 +19,11 @@ afterAll(async () => {
 /** What each role's side navigation offers (admin sees everything). */
 const EXPECTED_NAV: Record<string, string[]> = {
   operator: ['nav-home', 'nav-upload', 'nav-clips', 'nav-projects', 'nav-profile'],
-  curator: ['nav-home', 'nav-clips', 'nav-projects', 'nav-profile'],
-  engineer: ['nav-home', 'nav-clips', 'nav-projects', 'nav-profile'],
-  admin: ['nav-home', 'nav-upload', 'nav-clips', 'nav-projects', 'nav-people', 'nav-mail-log', 'nav-profile'],
+  curator: ['nav-home', 'nav-clips', 'nav-review-queue', 'nav-projects', 'nav-profile'],
+  engineer: ['nav-home', 'nav-clips', 'nav-projects', 'nav-pairsets', 'nav-api-tokens', 'nav-profile'],
+  admin: ['nav-home', 'nav-upload', 'nav-clips', 'nav-review-queue', 'nav-projects', 'nav-pairsets', 'nav-api-tokens',
+    'nav-people', 'nav-admin-usage', 'nav-admin-jobs', 'nav-admin-audit', 'nav-admin-settings', 'nav-mail-log',
+    'nav-profile'],
 };
 
 describe('signing in as each demo account', () => {

@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, Clip, Job, MailOutbox } from '../../server/models';
 import { claimJob, finishJob, renewLease } from '../../worker/jobs/claim';
 import type { Handlers } from '../../worker/jobs/handler';
+import { HANDLERS } from '../../worker/jobs/handlers';
 import { RETRY_POLICIES } from '../../worker/jobs/retry-policy';
 import {
   addProject, damageSecondPart, insertClip, makePatternClip, workFolders,
@@ -83,6 +84,7 @@ describe('failures', () => {
   it('retries a failure that may pass after the backoff of its kind, then fails it for good once', async () => {
     const recorded: string[] = [];
     const handlers: Handlers = {
+      ...HANDLERS,
       'process-clip': {
         run: async () => { throw new Error('the disk is full'); },
         recordFailure: async (_claimed, failure) => { recorded.push(`${failure.final}: ${failure.message}`); },

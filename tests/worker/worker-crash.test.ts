@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { Op } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Frame, Job } from '../../server/models';
+import { AuditEvent, Clip, Frame, Job, MotionField } from '../../server/models';
 import { storagePaths } from '../../server/storage/paths';
 import { addProject, insertClip, makePatternClip, workFolders } from '../helpers/pipeline-clips';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
@@ -12,14 +12,14 @@ import { addUser, startTestServer, type TestServer } from '../helpers/test-serve
  * A real worker process (`node --import tsx worker/index.ts`, as `npm run worker` starts it) is killed with SIGKILL
  * at random moments while it processes a clip, and started again each time. With a 2 s lease the next process takes
  * the job over; each kill must cost at most the stage in hand, never doubled rows or leftover work folders.
- * Kill k waits until the job has reached stage k mod 4 (or a later one) and then a random time, so every stage,
+ * Kill k waits until the job has reached stage k mod 5 (or a later one) and then a random time, so every stage,
  * its commit included, gets its share of kills.
  */
 
 const REPO = path.resolve(import.meta.dirname, '../..');
 const KILLS = 10;
 const LEASE_S = 2;
-const STAGES = ['sample', 'signals', 'views', 'flags'];
+const STAGES = ['sample', 'signals', 'motion', 'views', 'flags'];
 const MAX_DELAY_IN_STAGE_MS = 600;
 const CLIP_S = 5;
 
@@ -111,6 +111,9 @@ describe('a worker killed at random moments', () => {
       expect(fs.readdirSync(layout.framesDir)).toHaveLength(clip.frameCount!);
       expect(fs.readdirSync(layout.viewDir('luma'))).toHaveLength(clip.frameCount!);
       expect(fs.readdirSync(layout.viewDir('chroma'))).toHaveLength(clip.frameCount!);
+      // The test pattern has no cut: a forward and a backward field per pair, three files per pair.
+      expect(await MotionField.count({ where: { clipId: clip.id } })).toBe(2 * (clip.frameCount! - 1));
+      expect(fs.readdirSync(layout.motionDir)).toHaveLength(3 * (clip.frameCount! - 1));
       expect(workFolders(server, clip.id)).toEqual([]);
       expect(await AuditEvent.count({ where: { targetId: String(clip.id), action: 'clip.processed' } })).toBe(1);
       expect(await Job.findOne({ where: { clipId: clip.id } })).toMatchObject({ state: 'done', leaseOwner: null });

@@ -73,6 +73,15 @@ export async function finishJob({ jobId, owner }: Lease, transaction?: Transacti
   );
 }
 
+/** Marks the job cancelled: what it worked for was called off meanwhile (a pairset build cancelled or deleted). */
+export async function cancelJob({ jobId, owner }: Lease): Promise<boolean> {
+  return update(
+    `UPDATE jobs SET state = 'cancelled', leaseOwner = NULL, leaseExpiresAt = NULL, finishedAt = :now, updatedAt = :now
+     WHERE id = :jobId AND leaseOwner = :owner AND state = 'running'`,
+    { jobId, owner, now: new Date() },
+  );
+}
+
 /** Puts the job back in the queue after a failure that may go better later. */
 export async function retryJob({ jobId, owner }: Lease, error: string, runAfter: Date): Promise<boolean> {
   return update(

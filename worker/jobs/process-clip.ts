@@ -1,8 +1,10 @@
 import fs from 'node:fs';
 import type { ClipState } from '../../shared/clip-states';
+import { checkQuotaThresholds } from '../../server/services/quota-warnings';
 import { Clip, Project } from '../../server/models';
 import { recordClipFailure } from '../pipeline/clip-failure';
 import { flagsStage } from '../pipeline/flags-stage';
+import { motionStage } from '../pipeline/motion-stage';
 import { pipelineSettings } from '../pipeline/project-settings';
 import { sampleStage } from '../pipeline/sample-stage';
 import { signalsStage } from '../pipeline/signals-stage';
@@ -14,10 +16,10 @@ import type { Handler, JobContext } from './handler';
 import { LeaseLostError } from './job-errors';
 
 /**
- * The Motion stage plugs in here: motion fields for neighbour pairs that do not span a cut, between signals
- * and views (DESIGN §5). It also supplies the motion input of the flags stage (static, shaky).
+ * The Motion stage: motion fields for neighbour pairs that do not span a cut, between signals and views
+ * (DESIGN §5). Its fields are also the motion input of the flags stage (static, shaky).
  */
-const MOTION_STAGES: readonly PipelineStage[] = [];
+const MOTION_STAGES: readonly PipelineStage[] = [motionStage];
 
 const STAGES: readonly PipelineStage[] = [sampleStage, signalsStage, ...MOTION_STAGES, viewsStage, flagsStage];
 
@@ -70,6 +72,7 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
             : await finishJob(context.lease, transaction);
           if (!held) throw new LeaseLostError(context.lease.jobId);
           await Clip.update({ storedBytes }, { where: { id: clipId }, transaction });
+          await checkQuotaThresholds(clip.projectId, clip.uploaderId, context.config.publicUrl, transaction);
           await write?.(transaction);
         });
       },

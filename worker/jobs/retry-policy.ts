@@ -18,6 +18,15 @@ export const RETRY_POLICIES: { readonly [K in JobKind]: RetryPolicy } = {
   // Reading a clip fails for good at once (FinalJobError); what is left is the machine: a full disk, a busy
   // database. Those are worth a second and third try after a pause.
   'process-clip': { maxAttempts: 3, backoffS: [30, 120], maxClaims: 25 },
+  // Measuring the disk only fails on a busy database or a vanished folder; the next try sees a settled tree.
+  'reconcile-usage': { maxAttempts: 3, backoffS: [60, 600], maxClaims: 10 },
+  // Purging is clip by clip, each committed on its own; a retry carries on with what is left.
+  'run-retention': { maxAttempts: 3, backoffS: [60, 600], maxClaims: 10 },
+  // A digest only writes rows (the outbox sends the mail), so a failure is a busy database: worth a few tries.
+  'send-rejection-digest': { maxAttempts: 5, backoffS: [60, 300, 900], maxClaims: 10 },
+  // A build starts over on each try; a definition that gives no pairs fails at once (FinalJobError), and a clip
+  // reprocessed mid-build is worth one more try once its files are back.
+  'build-pairset': { maxAttempts: 2, backoffS: [60], maxClaims: 5 },
 };
 
 /** When a job that failed on its `attempts`-th try is due again. */

@@ -7,7 +7,7 @@
 // bilinearly; a pixel whose forward motion leaves the frame has no backward motion to check against and counts
 // as inconsistent (it is occluded by the frame edge).
 
-import { isUnknownFlow } from './unknown-flow.js';
+import { isUnknownFlow } from '../../shared/motion/unknown-flow.js';
 
 export interface ConsistencyParams {
   /** Relative tolerance α (dimensionless). */

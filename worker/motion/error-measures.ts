@@ -3,7 +3,7 @@
 // as evaluated there); Barron, Fleet, Beauchemin, "Performance of Optical Flow Techniques", IJCV 12(1), 1994
 // (the angular error between space-time directions (u, v, 1)).
 
-import { isUnknownFlow } from './unknown-flow.js';
+import { isUnknownFlow } from '../../shared/motion/unknown-flow.js';
 
 const DEGREES_PER_RADIAN = 180 / Math.PI;
 

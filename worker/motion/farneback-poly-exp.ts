@@ -75,8 +75,9 @@ export function polyRowBufferLength(width: number, n: number): number {
 
 /**
  * Expands `src` (width × height) into `dst` (5 values per pixel). `rowBuffer` holds polyRowBufferLength floats.
- * The three vertical results are kept in separate planes of the row buffer (OpenCV interleaves them), which
- * keeps the horizontal loop's reads contiguous; the arithmetic is OpenCV's.
+ * The three vertical results of a row are interleaved per pixel in the row buffer (as OpenCV does) and the
+ * three taps per offset in one small table, so the horizontal loop reads from two arrays; the arithmetic and
+ * its order are OpenCV's.
  */
 export function polyExpand(
   src: Float32Array,
@@ -87,67 +88,54 @@ export function polyExpand(
   rowBuffer: Float32Array,
 ): void {
   const { n, g, xg, xxg, ig11, ig03, ig33, ig55 } = constants;
-  const planeLength = width + 2 * n;
-  // Plane index n + x is pixel x; the n entries on each side repeat the edge pixel.
-  const smooth = rowBuffer.subarray(0, planeLength);
-  const slopeY = rowBuffer.subarray(planeLength, 2 * planeLength);
-  const curveY = rowBuffer.subarray(2 * planeLength, 3 * planeLength);
+  // Entry n + x is pixel x: g, y·g, y²·g sums; the n entries on each side repeat the edge pixel.
+  const raw = rowBuffer;
+  const taps = new Float64Array(3 * (n + 1));
+  for (let k = 0; k <= n; k++) {
+    taps[3 * k] = g[k];
+    taps[3 * k + 1] = xg[k];
+    taps[3 * k + 2] = xxg[k];
+  }
   const g0 = g[0];
+  const rowsAbove = new Int32Array(n + 1);
+  const rowsBelow = new Int32Array(n + 1);
   for (let y = 0; y < height; y++) {
-    // Vertical part: g, y·g and y²·g down the column, edge rows repeated.
-    const centre = y * width;
-    for (let x = 0; x < width; x++) {
-      smooth[n + x] = src[centre + x] * g0;
-      slopeY[n + x] = 0;
-      curveY[n + x] = 0;
-    }
     for (let k = 1; k <= n; k++) {
-      const gk = g[k];
-      const xgk = xg[k];
-      const xxgk = xxg[k];
-      const above = Math.max(y - k, 0) * width;
-      const below = Math.min(y + k, height - 1) * width;
-      for (let x = 0; x < width; x++) {
-        const a = src[above + x];
-        const b = src[below + x];
-        const sum = a + b;
-        smooth[n + x] += gk * sum;
-        slopeY[n + x] += xgk * (b - a);
-        curveY[n + x] += xxgk * sum;
-      }
+      rowsAbove[k] = Math.max(y - k, 0) * width;
+      rowsBelow[k] = Math.min(y + k, height - 1) * width;
     }
+    verticalSums(src, y * width, width, n, taps, g0, rowsAbove, rowsBelow, raw);
+    const last = RAW_CHANNELS * (n + width - 1);
     for (let i = 0; i < n; i++) {
-      smooth[i] = smooth[n];
-      slopeY[i] = slopeY[n];
-      curveY[i] = curveY[n];
-      smooth[n + width + i] = smooth[n + width - 1];
-      slopeY[n + width + i] = slopeY[n + width - 1];
-      curveY[n + width + i] = curveY[n + width - 1];
+      for (let c = 0; c < RAW_CHANNELS; c++) {
+        raw[RAW_CHANNELS * i + c] = raw[RAW_CHANNELS * n + c];
+        raw[RAW_CHANNELS * (n + width + i) + c] = raw[last + c];
+      }
     }
     // Horizontal part: the six filter products, then G⁻¹ gives the polynomial coefficients.
     const out = y * width * POLY_CHANNELS;
     for (let x = 0; x < width; x++) {
-      const i = n + x;
-      let b1 = smooth[i] * g0;
+      const i = RAW_CHANNELS * (n + x);
+      let b1 = raw[i] * g0;
       let b2 = 0;
-      let b3 = slopeY[i] * g0;
+      let b3 = raw[i + 1] * g0;
       let b4 = 0;
-      let b5 = curveY[i] * g0;
+      let b5 = raw[i + 2] * g0;
       let b6 = 0;
-      for (let k = 1; k <= n; k++) {
-        const gk = g[k];
-        const xgk = xg[k];
-        const right = smooth[i + k];
-        const left = smooth[i - k];
-        const slopeRight = slopeY[i + k];
-        const slopeLeft = slopeY[i - k];
+      for (let k = 1, d = RAW_CHANNELS; k <= n; k++, d += RAW_CHANNELS) {
+        const gk = taps[3 * k];
+        const xgk = taps[3 * k + 1];
+        const right = raw[i + d];
+        const left = raw[i - d];
+        const slopeRight = raw[i + d + 1];
+        const slopeLeft = raw[i - d + 1];
         const tg = right + left;
         b1 += tg * gk;
-        b4 += tg * xxg[k];
+        b4 += tg * taps[3 * k + 2];
         b2 += (right - left) * xgk;
         b3 += (slopeRight + slopeLeft) * gk;
         b6 += (slopeRight - slopeLeft) * xgk;
-        b5 += (curveY[i + k] + curveY[i - k]) * gk;
+        b5 += (raw[i + d + 2] + raw[i - d + 2]) * gk;
       }
       const o = out + x * POLY_CHANNELS;
       dst[o] = b3 * ig11;
@@ -156,5 +144,74 @@ export function polyExpand(
       dst[o + 3] = b1 * ig03 + b4 * ig33;
       dst[o + 4] = b6 * ig55;
     }
+  }
+}
+
+/**
+ * Vertical part of one row: g, y·g and y²·g down each column (rows above and below given, edge rows repeated),
+ * written interleaved from entry n. Each sum is kept in a register and rounded to single precision after every
+ * tap, as accumulating in the Float32Array row buffer would be; two columns at a time so the chains of
+ * dependent additions overlap.
+ */
+function verticalSums(
+  src: Float32Array,
+  centre: number,
+  width: number,
+  n: number,
+  taps: Float64Array,
+  g0: number,
+  rowsAbove: Int32Array,
+  rowsBelow: Int32Array,
+  raw: Float32Array,
+): void {
+  const f = Math.fround;
+  let x = 0;
+  for (; x + 1 < width; x += 2) {
+    let s0 = f(src[centre + x] * g0);
+    let s1 = f(src[centre + x + 1] * g0);
+    let t0 = 0;
+    let t1 = 0;
+    let c0 = 0;
+    let c1 = 0;
+    for (let k = 1; k <= n; k++) {
+      const gk = taps[3 * k];
+      const xgk = taps[3 * k + 1];
+      const xxgk = taps[3 * k + 2];
+      const above = rowsAbove[k] + x;
+      const below = rowsBelow[k] + x;
+      const a0 = src[above];
+      const b0 = src[below];
+      const a1 = src[above + 1];
+      const b1 = src[below + 1];
+      s0 = f(s0 + gk * (a0 + b0));
+      s1 = f(s1 + gk * (a1 + b1));
+      t0 = f(t0 + xgk * (b0 - a0));
+      t1 = f(t1 + xgk * (b1 - a1));
+      c0 = f(c0 + xxgk * (a0 + b0));
+      c1 = f(c1 + xxgk * (a1 + b1));
+    }
+    const o = RAW_CHANNELS * (n + x);
+    raw[o] = s0;
+    raw[o + 1] = t0;
+    raw[o + 2] = c0;
+    raw[o + 3] = s1;
+    raw[o + 4] = t1;
+    raw[o + 5] = c1;
+  }
+  for (; x < width; x++) {
+    let s0 = f(src[centre + x] * g0);
+    let t0 = 0;
+    let c0 = 0;
+    for (let k = 1; k <= n; k++) {
+      const a = src[rowsAbove[k] + x];
+      const b = src[rowsBelow[k] + x];
+      s0 = f(s0 + taps[3 * k] * (a + b));
+      t0 = f(t0 + taps[3 * k + 1] * (b - a));
+      c0 = f(c0 + taps[3 * k + 2] * (a + b));
+    }
+    const o = RAW_CHANNELS * (n + x);
+    raw[o] = s0;
+    raw[o + 1] = t0;
+    raw[o + 2] = c0;
   }
 }

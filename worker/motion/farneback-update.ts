@@ -20,6 +20,7 @@ const WINDOW_SIGMA_PER_RADIUS = 0.3;
 /**
  * Builds M (5 values per pixel) from the expansions R0 of the first frame, R1 of the second and the current
  * motion: R1 is read bilinearly at x + flow(x), then A = (A0 + A1)/2 and Δb = −(b1 − b0)/2 + A·flow.
+ * Rows firstRow to lastRow − 1 only, when given.
  */
 export function updateMatrices(
   r0: Float32Array,
@@ -28,9 +29,11 @@ export function updateMatrices(
   matrices: Float32Array,
   width: number,
   height: number,
+  firstRow = 0,
+  lastRow = height,
 ): void {
   const step = width * C;
-  for (let y = 0; y < height; y++) {
+  for (let y = firstRow; y < lastRow; y++) {
     const yInside = y >= BORDER && y < height - BORDER;
     const yWeight = y < BORDER ? BORDER_WEIGHTS[y] : y >= height - BORDER ? BORDER_WEIGHTS[height - y - 1] : 1;
     for (let x = 0; x < width; x++) {
@@ -106,9 +109,15 @@ function solveInto(
   flow[2 * p + 1] = (g22 * h1 - g12 * h2) * inverseDet;
 }
 
+/** Recomputes the matrix rows firstRow to lastRow − 1 from the new motion, for the next iteration. */
+export type MatrixRefresh = (firstRow: number, lastRow: number) => void;
+
 /**
  * Box window (OpenCV's default): running sums over (2m+1)² pixels, m = ⌊blockSize/2⌋, edge rows and columns
  * repeated, divided by blockSize² as OpenCV does. `columnSums` needs (width + 2m + 2)·5 doubles.
+ * With `refresh`, each matrix row is recomputed as soon as the running sums have read it for the last time,
+ * m + 1 rows behind the solve (OpenCV's stripes), while it is still in cache; the numbers are those of a full
+ * solve followed by a full update.
  */
 export function solveFlowBox(
   matrices: Float32Array,
@@ -117,6 +126,7 @@ export function solveFlowBox(
   height: number,
   blockSize: number,
   columnSums: Float64Array,
+  refresh?: MatrixRefresh,
 ): void {
   const m = blockSize >> 1;
   const scale = 1 / (blockSize * blockSize);
@@ -160,7 +170,11 @@ export function solveFlowBox(
       h2 += vsum[enter + 4] - vsum[leave + 4];
       solveInto(flow, y * width + x, g11 * scale, g12 * scale, g22 * scale, h1 * scale, h2 * scale);
     }
+    // Row y − m − 1 left the running sums at this step (row 0 leaves last at step m + 1).
+    if (refresh !== undefined && y - m - 1 >= 0) refresh(y - m - 1, y - m);
   }
+  // The last m + 1 rows are read as entering rows until the end.
+  if (refresh !== undefined) refresh(Math.max(height - m - 1, 0), height);
 }
 
 /** The normalised one-sided Gaussian window of OpenCV's FarnebackUpdateFlow_GaussianBlur (index 0 = centre). */

@@ -150,16 +150,19 @@ export function estimateFromExpansions(
     const r1 = next.coefficients[k];
     const matrices = workspace.float32('fb.matrices', pixels * POLY_CHANNELS);
     updateMatrices(r0, r1, flow, matrices, w, h);
+    // Between iterations the box solve refreshes the matrices as it goes; the Gaussian one is followed by a pass.
+    const refresh = (first: number, last: number) => updateMatrices(r0, r1, flow, matrices, w, h, first, last);
     for (let i = 0; i < params.iterations; i++) {
+      const more = i < params.iterations - 1;
       if (window === undefined) {
         const columnSums = workspace.float64('fb.boxColumns', (w + 2 * half + 2) * POLY_CHANNELS);
-        solveFlowBox(matrices, flow, w, h, params.winSize, columnSums);
+        solveFlowBox(matrices, flow, w, h, params.winSize, columnSums, more ? refresh : undefined);
       } else {
         const columnSums = workspace.float32('fb.gaussColumns', (w + 2 * half) * POLY_CHANNELS);
         const rowSums = workspace.float32('fb.gaussRows', w * POLY_CHANNELS);
         solveFlowGaussian(matrices, flow, w, h, window, columnSums, rowSums);
+        if (more) updateMatrices(r0, r1, flow, matrices, w, h);
       }
-      if (i < params.iterations - 1) updateMatrices(r0, r1, flow, matrices, w, h);
     }
     coarser = { flow, width: w, height: h };
   }

@@ -4,7 +4,7 @@
 // the result is always one of the measured magnitudes), found with quickselect rather than a full sort.
 // Unknown pixels are left out.
 
-import { isUnknownFlow } from './unknown-flow.js';
+import { isUnknownFlow } from '../../shared/motion/unknown-flow.js';
 
 export const P95 = 0.95;
 

@@ -2,7 +2,7 @@
 // Source: D. Scharstein, Middlebury optical flow `flow-code` (README.txt, flowIO.cpp, flowIO.h); format of
 // Baker et al., "A Database and Evaluation Methodology for Optical Flow", IJCV 92(1), 2011.
 // Layout, all little-endian: "PIEH" (float 202021.25), int32 width, int32 height, then width*height pairs of
-// float32 (u, v) in row order. Unknown motion is stored as UNKNOWN_FLOW (see unknown-flow.ts).
+// float32 (u, v) in row order. Unknown motion is stored as UNKNOWN_FLOW (see shared/motion/unknown-flow.ts).
 
 /** The tag "PIEH" read as a little-endian float32; flowIO.cpp checks the tag this way. */
 export const FLO_TAG_FLOAT = 202021.25;

@@ -47,9 +47,21 @@ export function reflect101(i: number, n: number): number {
   return j;
 }
 
+/** The filtered value at one position of a row, with the row's ends reflected (BORDER_REFLECT_101). */
+function filterAtEdge(src: Float32Array, rowStart: number, width: number, kernel: Float32Array, x: number): number {
+  const radius = kernel.length >> 1;
+  let sum = kernel[radius] * src[rowStart + x];
+  for (let i = 1; i <= radius; i++) {
+    const left = src[rowStart + reflect101(x - i, width)];
+    sum += kernel[radius + i] * (left + src[rowStart + reflect101(x + i, width)]);
+  }
+  return sum;
+}
+
 /**
  * Filters one row of `src` (starting at `rowStart`) with the symmetric `kernel` into `out` (from `outStart`),
- * pairing the taps on either side of the centre.
+ * pairing the taps on either side of the centre. Away from the ends four outputs are summed side by side, each
+ * in the same order as alone, so the chains of dependent additions overlap.
  */
 function filterRow(
   src: Float32Array,
@@ -61,25 +73,42 @@ function filterRow(
 ): void {
   const radius = kernel.length >> 1;
   const centre = kernel[radius];
-  const innerEnd = width - radius;
-  for (let x = 0; x < width; x++) {
-    let sum = centre * src[rowStart + x];
-    if (x >= radius && x < innerEnd) {
-      const at = rowStart + x;
-      for (let i = 1; i <= radius; i++) sum += kernel[radius + i] * (src[at - i] + src[at + i]);
-    } else {
-      for (let i = 1; i <= radius; i++) {
-        const left = src[rowStart + reflect101(x - i, width)];
-        sum += kernel[radius + i] * (left + src[rowStart + reflect101(x + i, width)]);
-      }
+  const innerEnd = Math.max(width - radius, radius);
+  for (let x = 0; x < Math.min(radius, width); x++) out[outStart + x] = filterAtEdge(src, rowStart, width, kernel, x);
+  let x = radius;
+  for (; x + 3 < innerEnd; x += 4) {
+    const at = rowStart + x;
+    let s0 = centre * src[at];
+    let s1 = centre * src[at + 1];
+    let s2 = centre * src[at + 2];
+    let s3 = centre * src[at + 3];
+    for (let i = 1; i <= radius; i++) {
+      const k = kernel[radius + i];
+      s0 += k * (src[at - i] + src[at + i]);
+      s1 += k * (src[at + 1 - i] + src[at + 1 + i]);
+      s2 += k * (src[at + 2 - i] + src[at + 2 + i]);
+      s3 += k * (src[at + 3 - i] + src[at + 3 + i]);
     }
+    out[outStart + x] = s0;
+    out[outStart + x + 1] = s1;
+    out[outStart + x + 2] = s2;
+    out[outStart + x + 3] = s3;
+  }
+  for (; x < innerEnd; x++) {
+    const at = rowStart + x;
+    let sum = centre * src[at];
+    for (let i = 1; i <= radius; i++) sum += kernel[radius + i] * (src[at - i] + src[at + i]);
     out[outStart + x] = sum;
+  }
+  for (x = Math.max(innerEnd, Math.min(radius, width)); x < width; x++) {
+    out[outStart + x] = filterAtEdge(src, rowStart, width, kernel, x);
   }
 }
 
 /**
  * Filters the columns of `rows` (row length `stride`, `height` rows) at row `y` with the symmetric `kernel`
- * into `out` from `outStart`.
+ * into `out` from `outStart`. Each output is summed in a register, rounded to single precision after every tap
+ * as accumulating in the Float32Array output would be, so results do not depend on the loop order.
  */
 export function filterColumnsAt(
   rows: Float32Array,
@@ -93,6 +122,41 @@ export function filterColumnsAt(
   const radius = kernel.length >> 1;
   const centre = kernel[radius];
   const middle = y * stride;
+  if (y >= radius && y < height - radius) {
+    // Four columns side by side, each summed in its own order, so the chains of dependent additions overlap.
+    let c = 0;
+    for (; c + 3 < stride; c += 4) {
+      const at = middle + c;
+      let s0 = Math.fround(centre * rows[at]);
+      let s1 = Math.fround(centre * rows[at + 1]);
+      let s2 = Math.fround(centre * rows[at + 2]);
+      let s3 = Math.fround(centre * rows[at + 3]);
+      let offset = stride;
+      for (let i = 1; i <= radius; i++, offset += stride) {
+        const k = kernel[radius + i];
+        const a = at - offset;
+        const b = at + offset;
+        s0 = Math.fround(s0 + k * (rows[a] + rows[b]));
+        s1 = Math.fround(s1 + k * (rows[a + 1] + rows[b + 1]));
+        s2 = Math.fround(s2 + k * (rows[a + 2] + rows[b + 2]));
+        s3 = Math.fround(s3 + k * (rows[a + 3] + rows[b + 3]));
+      }
+      out[outStart + c] = s0;
+      out[outStart + c + 1] = s1;
+      out[outStart + c + 2] = s2;
+      out[outStart + c + 3] = s3;
+    }
+    for (; c < stride; c++) {
+      const at = middle + c;
+      let sum = Math.fround(centre * rows[at]);
+      let offset = stride;
+      for (let i = 1; i <= radius; i++, offset += stride) {
+        sum = Math.fround(sum + kernel[radius + i] * (rows[at - offset] + rows[at + offset]));
+      }
+      out[outStart + c] = sum;
+    }
+    return;
+  }
   for (let c = 0; c < stride; c++) out[outStart + c] = centre * rows[middle + c];
   for (let i = 1; i <= radius; i++) {
     const weight = kernel[radius + i];

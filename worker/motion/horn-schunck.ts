@@ -128,15 +128,32 @@ function jacobiSweep(
     const up = row - width;
     const down = row + width;
     updatePixel(row, neighbourMean(u, width, height, 0, y), neighbourMean(v, width, height, 0, y), terms, uOut, vOut);
-    // Inside the frame every neighbour exists, so the indices need no clamping.
+    // Inside the frame every neighbour exists, so the indices need no clamping. Sums of the pixels above and
+    // below each column, and the row's own values, slide along x so each value is read once per sweep.
+    let uColumnLeft = u[up] + u[down];
+    let uColumn = u[up + 1] + u[down + 1];
+    let uLeft = u[row];
+    let uHere = u[row + 1];
+    let vColumnLeft = v[up] + v[down];
+    let vColumn = v[up + 1] + v[down + 1];
+    let vLeft = v[row];
+    let vHere = v[row + 1];
     for (let x = 1; x < width - 1; x++) {
-      const uMean =
-        EDGE_WEIGHT * (u[up + x] + u[down + x] + u[row + x - 1] + u[row + x + 1]) +
-        CORNER_WEIGHT * (u[up + x - 1] + u[up + x + 1] + u[down + x - 1] + u[down + x + 1]);
-      const vMean =
-        EDGE_WEIGHT * (v[up + x] + v[down + x] + v[row + x - 1] + v[row + x + 1]) +
-        CORNER_WEIGHT * (v[up + x - 1] + v[up + x + 1] + v[down + x - 1] + v[down + x + 1]);
+      const uColumnRight = u[up + x + 1] + u[down + x + 1];
+      const uRight = u[row + x + 1];
+      const vColumnRight = v[up + x + 1] + v[down + x + 1];
+      const vRight = v[row + x + 1];
+      const uMean = EDGE_WEIGHT * (uColumn + uLeft + uRight) + CORNER_WEIGHT * (uColumnLeft + uColumnRight);
+      const vMean = EDGE_WEIGHT * (vColumn + vLeft + vRight) + CORNER_WEIGHT * (vColumnLeft + vColumnRight);
       updatePixel(row + x, uMean, vMean, terms, uOut, vOut);
+      uColumnLeft = uColumn;
+      uColumn = uColumnRight;
+      uLeft = uHere;
+      uHere = uRight;
+      vColumnLeft = vColumn;
+      vColumn = vColumnRight;
+      vLeft = vHere;
+      vHere = vRight;
     }
     const last = width - 1;
     const uLast = neighbourMean(u, width, height, last, y);

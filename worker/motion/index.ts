@@ -1,6 +1,7 @@
 // Kinefold's motion estimators by name: the project setting chooses one, and every field records the estimator
 // and the full parameters it was computed with (defaults merged with the project's overrides).
 
+import { DIS_DEFAULTS, estimateDis, validateDisParams, type DisParams } from './dis.js';
 import { FARNEBACK_DEFAULTS, estimateFarneback, validateFarnebackParams, type FarnebackParams } from './farneback.js';
 import {
   HORN_SCHUNCK_DEFAULTS,
@@ -16,12 +17,13 @@ import {
 } from './lucas-kanade.js';
 import type { MotionWorkspace } from './workspace.js';
 
-export type Estimator = 'farneback' | 'horn-schunck' | 'lucas-kanade';
+export type Estimator = 'farneback' | 'horn-schunck' | 'lucas-kanade' | 'dis';
 
 export interface EstimatorParams {
   farneback: FarnebackParams;
   'horn-schunck': HornSchunckParams;
   'lucas-kanade': LucasKanadeParams;
+  dis: DisParams;
 }
 
 export type EstimateFunction<P> = (
@@ -55,6 +57,11 @@ export const ESTIMATORS: { readonly [K in Estimator]: EstimatorEntry<EstimatorPa
     defaults: LUCAS_KANADE_DEFAULTS,
     validate: validateLucasKanadeParams,
     estimate: estimateLucasKanade,
+  },
+  dis: {
+    defaults: DIS_DEFAULTS,
+    validate: validateDisParams,
+    estimate: estimateDis,
   },
 };
 

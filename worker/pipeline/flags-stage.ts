@@ -1,16 +1,17 @@
 import type { ClipState } from '../../shared/clip-states';
 import type { ClipFlagDetail } from '../../shared/types/clips';
-import { Clip, Frame } from '../../server/models';
+import { Clip, Frame, MotionField } from '../../server/models';
 import { recordAudit } from '../../server/services/audit';
-import { clipFlags, type FlagFrameSignals } from '../signals/flags';
+import { listFrames } from '../../server/services/clip-media';
+import { clipReviewSignals } from '../../shared/review/clip-signals';
+import { clipFlags, type FlagFieldMotion, type FlagFrameSignals } from '../signals/flags';
 import { bestNearDuplicate, hexToHash } from '../signals/perceptual-hash';
 import type { PipelineStage } from './stage';
 
 /**
- * flags: dark, overexposed, blurry, short, cut-heavy and duplicate from the signals (flags.ts), with the project's
- * thresholds. duplicate compares this clip's frame hashes with those of the project's other clips. static and
- * shaky need motion fields and are raised once the Motion stage supplies them (motion is null until then).
- * Then the clip awaits review; a clip that already has a verdict keeps it.
+ * flags: dark, overexposed, blurry, short, cut-heavy and duplicate from the signals, static and shaky from the
+ * forward motion fields (flags.ts), with the project's thresholds. duplicate compares this clip's frame hashes with
+ * those of the project's other clips. Then the clip awaits review; a clip that already has a verdict keeps it.
  */
 export const flagsStage: PipelineStage = {
   name: 'flags',
@@ -25,16 +26,19 @@ export const flagsStage: PipelineStage = {
     const raised = clipFlags({
       durationS: clip.durationS,
       frames: frames.map(flagSignals),
-      motion: null,
+      motion: await forwardMotion(clip.id, frames.length),
       duplicateShare: duplicate?.share ?? null,
     }, settings.flagThresholds);
     const flagDetails: ClipFlagDetail[] = raised.map((flag) => (flag.flag === 'duplicate' && duplicate
       ? { ...flag, matchClipId: duplicate.clipId }
       : { ...flag }));
     const flags = flagDetails.map((detail) => detail.flag);
+    // What the review queue sorts by: mean motion, consistent share, usable pairs (shared/review/clip-signals.ts).
+    const review = clipReviewSignals((await listFrames(clip.id)).items, context.project.deltas);
     await context.commit(async (transaction) => {
-      await Clip.update({ flags, flagDetails, state: stateAfterProcessing(clip.state), stage: null, error: null },
-        { where: { id: clip.id }, transaction });
+      await Clip.update({
+        flags, flagDetails, ...review, state: stateAfterProcessing(clip.state), stage: null, error: null,
+      }, { where: { id: clip.id }, transaction });
       await recordAudit({
         actorId: null, action: 'clip.processed', targetType: 'clip', targetId: clip.id,
         detail: { frameCount: frames.length, cutCount: clip.cutCount, flags },
@@ -46,6 +50,16 @@ export const flagsStage: PipelineStage = {
 /** A verdict outlives reprocessing: only clips not yet reviewed go (back) to the review queue. */
 export function stateAfterProcessing(state: ClipState): ClipState {
   return state === 'accepted' || state === 'rejected' ? state : 'awaiting_review';
+}
+
+/** motion[t]: the field t → t+1, null where a cut or the clip's end leaves none (the Motion stage ran before). */
+async function forwardMotion(clipId: number, frameCount: number): Promise<(FlagFieldMotion | null)[]> {
+  const motion: (FlagFieldMotion | null)[] = Array.from({ length: frameCount }, () => null);
+  for (const field of await MotionField.forwardOfClip(clipId)) {
+    const { meanMagnitude, medianU, medianV } = field;
+    if (field.fromIndex < frameCount) motion[field.fromIndex] = { meanMagnitude, medianU, medianV };
+  }
+  return motion;
 }
 
 function flagSignals(frame: Frame): FlagFrameSignals {

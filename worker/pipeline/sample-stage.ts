@@ -1,5 +1,5 @@
 import fs from 'node:fs';
-import { Clip, Frame } from '../../server/models';
+import { Clip, Frame, MotionField } from '../../server/models';
 import { FinalJobError } from '../jobs/job-errors';
 import {
   encodePreview, MediaError, probeMedia, sampleFrames, type RunOptions, type SampledFrames,
@@ -49,6 +49,8 @@ export const sampleStage: PipelineStage = {
     await context.commit(async (transaction) => {
       await Frame.destroy({ where: { clipId: clip.id }, transaction });
       await Frame.bulkCreate(timesS.map((timeS, index) => ({ clipId: clip.id, index, timeS })), { transaction });
+      // Fields of the old frames do not describe the new ones; the Motion stage makes them again.
+      await MotionField.destroy({ where: { clipId: clip.id }, transaction });
       // New frames make earlier signals, counts and flags stale until the later stages measure them again.
       await Clip.update({
         frameCount: timesS.length, hasPreview: true, hasThumbnail: true,

@@ -1,6 +1,7 @@
 import os from 'node:os';
 import { Piscina } from 'piscina';
 import type { FrameMeasurement, FrameViewsTask, MeasureFrameTask } from './frame-tasks';
+import type { MotionPictureTask, MotionRunTask, PairMotion } from './motion-tasks';
 
 /**
  * The worker-thread pool for CPU-heavy per-frame work, one thread per core, so a clip's frames are measured on
@@ -11,19 +12,33 @@ import type { FrameMeasurement, FrameViewsTask, MeasureFrameTask } from './frame
 export interface FramePool {
   measureFrame(task: Omit<MeasureFrameTask, 'kind'>, signal?: AbortSignal): Promise<FrameMeasurement>;
   writeFrameViews(task: Omit<FrameViewsTask, 'kind'>, signal?: AbortSignal): Promise<void>;
+  /** Fields of a run of neighbouring frames; the thread keeps its motion buffers from one run to the next. */
+  estimateMotionRun(task: Omit<MotionRunTask, 'kind'>, signal?: AbortSignal): Promise<PairMotion[]>;
+  writeMotionPicture(task: Omit<MotionPictureTask, 'kind'>, signal?: AbortSignal): Promise<void>;
+  /** Threads at most, so a stage can split its work into enough pieces to keep each one busy. */
+  threads: number;
   destroy(): Promise<void>;
 }
 
+const IDLE_THREAD_MS = 30_000;
+
 export function createFramePool(threads = os.availableParallelism()): FramePool {
+  const maxThreads = Math.max(1, threads);
   const pool = new Piscina({
     filename: new URL('./frame-thread-entry.mjs', import.meta.url).href,
     execArgv: [],
     minThreads: 1,
-    maxThreads: Math.max(1, threads),
+    maxThreads,
+    // Piscina ends a thread above minThreads as soon as it idles; a short pause between stages or clips would then
+    // cost a thread start and the thread's motion buffers.
+    idleTimeout: IDLE_THREAD_MS,
   });
   return {
     measureFrame: (task, signal) => pool.run({ kind: 'measure', ...task }, { signal }),
     writeFrameViews: (task, signal) => pool.run({ kind: 'views', ...task }, { signal }),
+    estimateMotionRun: (task, signal) => pool.run({ kind: 'motion-run', ...task }, { signal }),
+    writeMotionPicture: (task, signal) => pool.run({ kind: 'motion-picture', ...task }, { signal }),
+    threads: maxThreads,
     destroy: () => pool.destroy(),
   };
 }

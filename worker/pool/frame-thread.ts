@@ -5,14 +5,19 @@
  */
 import sharp from 'sharp';
 import { measureFrame, writeFrameViews, type FrameMeasurement, type FrameTask } from './frame-tasks';
+import { estimateMotionRun, writeMotionPicture, type MotionTask, type PairMotion } from './motion-tasks';
 
 sharp.concurrency(1);
 
-export default function runFrameTask(task: FrameTask): Promise<FrameMeasurement | void> {
+export default function runFrameTask(task: FrameTask | MotionTask): Promise<FrameMeasurement | PairMotion[] | void> {
   switch (task.kind) {
     case 'measure':
       return measureFrame(task);
     case 'views':
       return writeFrameViews(task);
+    case 'motion-run':
+      return estimateMotionRun(task);
+    case 'motion-picture':
+      return writeMotionPicture(task);
   }
 }

@@ -2,12 +2,16 @@ import { clipFailedMail, type ClipFailedMailData } from './clip-failed';
 import { invitationMail, type InvitationMailData } from './invitation';
 import type { RenderedMail } from './layout';
 import { passwordResetMail, type PasswordResetMailData } from './password-reset';
+import { quotaThresholdMail, type QuotaThresholdMailData } from './quota-threshold';
+import { rejectionDigestMail, type RejectionDigestMailData } from './rejection-digest';
 
 /** Every kind of message Kinefold sends, with the data each one needs. */
 export interface MailTemplateData {
   invitation: InvitationMailData;
   'password-reset': PasswordResetMailData;
   'clip-failed': ClipFailedMailData;
+  'quota-threshold': QuotaThresholdMailData;
+  'rejection-digest': RejectionDigestMailData;
 }
 export type MailTemplate = keyof MailTemplateData;
 
@@ -18,6 +22,8 @@ const RENDERERS: Renderers = {
   invitation: invitationMail,
   'password-reset': passwordResetMail,
   'clip-failed': clipFailedMail,
+  'quota-threshold': quotaThresholdMail,
+  'rejection-digest': rejectionDigestMail,
 };
 
 export function renderTemplate<T extends MailTemplate>(

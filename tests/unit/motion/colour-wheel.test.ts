@@ -6,8 +6,8 @@ import {
   colourWheelLegend,
   maxMotionRadius,
   motionToColour,
-} from '../../../worker/motion/colour-wheel.js';
-import { UNKNOWN_FLOW } from '../../../worker/motion/unknown-flow.js';
+} from '../../../shared/motion/colour-wheel.js';
+import { UNKNOWN_FLOW } from '../../../shared/motion/unknown-flow.js';
 
 // Source: D. Scharstein, Middlebury `flow-code` colorcode.cpp and color_flow.cpp; expected colours from
 // CHECK-VALUES §2 ([V] for the construction, [C] for the table of a faithful port).

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../../../worker/motion/consistency.js';
 import { fieldStatistics, nearestRankPercentile } from '../../../worker/motion/field-statistics.js';
-import { UNKNOWN_FLOW } from '../../../worker/motion/unknown-flow.js';
+import { UNKNOWN_FLOW } from '../../../shared/motion/unknown-flow.js';
 
 // Source: Sundaram, Brox, Keutzer, "Dense Point Trajectories by GPU-Accelerated Large Displacement Optical
 // Flow", ECCV 2010: consistent when |w_f + w_b|² < 0.01(|w_f|² + |w_b|²) + 0.5 [M: constants as commonly quoted

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { angularErrorDegrees, averageErrors, endpointError } from '../../../worker/motion/error-measures.js';
-import { UNKNOWN_FLOW } from '../../../worker/motion/unknown-flow.js';
+import { UNKNOWN_FLOW } from '../../../shared/motion/unknown-flow.js';
 
 // Sources: Baker et al., "A Database and Evaluation Methodology for Optical Flow", IJCV 92(1), 2011; Barron,
 // Fleet, Beauchemin, IJCV 12(1), 1994 (CHECK-VALUES §4, worked examples [C]).

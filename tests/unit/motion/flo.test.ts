@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { FLO_TAG_FLOAT, decodeFlo, encodeFlo, floByteLength } from '../../../worker/motion/flo.js';
-import { UNKNOWN_FLOW, isUnknownFlow } from '../../../worker/motion/unknown-flow.js';
+import { UNKNOWN_FLOW, isUnknownFlow } from '../../../shared/motion/unknown-flow.js';
 
 // Source for every check here: D. Scharstein, Middlebury optical flow `flow-code` (README.txt, flowIO.cpp,
 // flowIO.h), the .flo format of Baker et al., "A Database and Evaluation Methodology for Optical Flow",

@@ -6,7 +6,7 @@ import {
   encodeKittiComponent,
   encodeKittiFlow,
 } from '../../../worker/motion/kitti-png.js';
-import { UNKNOWN_FLOW, isUnknownFlow } from '../../../worker/motion/unknown-flow.js';
+import { UNKNOWN_FLOW, isUnknownFlow } from '../../../shared/motion/unknown-flow.js';
 
 // Source: KITTI 2015 devkit readme.txt (Geiger, Menze): u = (ch1 − 2^15)/64, v = (ch2 − 2^15)/64,
 // valid = (bool)ch3 (CHECK-VALUES §3).

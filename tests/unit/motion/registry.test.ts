@@ -4,10 +4,11 @@ import { ESTIMATOR_NAMES, estimateMotion, isEstimator, resolveParams } from '../
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 
 describe('estimator registry', () => {
-  it('names the three estimators', () => {
-    expect(ESTIMATOR_NAMES).toEqual(['farneback', 'horn-schunck', 'lucas-kanade']);
+  it('names the four estimators', () => {
+    expect(ESTIMATOR_NAMES).toEqual(['farneback', 'horn-schunck', 'lucas-kanade', 'dis']);
     expect(isEstimator('farneback')).toBe(true);
-    expect(isEstimator('dis')).toBe(false);
+    expect(isEstimator('dis')).toBe(true);
+    expect(isEstimator('rlof')).toBe(false);
     expect(isEstimator('toString')).toBe(false);
   });
 

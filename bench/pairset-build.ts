@@ -1,0 +1,158 @@
+/**
+ * Pairset build benchmark (not a test): writes the shards of a pairset that only copies existing files
+ * (frame~neighbour+1 over accepted clips of incompressible 320 × 240 PNG frames) and, in the same run, archives
+ * exactly the same files with GNU `tar -cf` as the reference. Reports both throughputs and their ratio
+ * (goal ≥ 0.8×), best of five alternating rounds each, plus the whole build-pairset job (planning, shards, pair
+ * difficulty, commit).
+ *   npm run bench:pairsets [-- --mb 256]
+ */
+import { execFile } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { parseArgs, promisify } from 'node:util';
+import sharp from 'sharp';
+import { loadConfig } from '../server/config';
+import { openKinefoldDatabase } from '../server/db/open';
+import { Clip, Frame, Pairset, Project } from '../server/models';
+import { loadPairsetSources } from '../server/services/pairset-sources';
+import { createPairset, startBuild } from '../server/services/pairsets';
+import { createUser } from '../server/services/users';
+import { storagePaths } from '../server/storage/paths';
+import { planPairs } from '../shared/pairing/pair-plan';
+import { definitionViews, pairsetDefinitionSchema } from '../shared/schemas/pairsets';
+import { viewSourceFile } from '../worker/pairsets/pair-members';
+import { writeShards } from '../worker/pairsets/write-shards';
+import { createFramePool } from '../worker/pool/frame-pool';
+import { createJobRuntime } from '../worker/runtime/job-runtime';
+
+const { values } = parseArgs({ options: { mb: { type: 'string', default: '256' } } });
+const WIDTH = 320;
+const HEIGHT = 240;
+const FRAMES_PER_CLIP = 50;
+const ROUNDS = 5;
+const run = promisify(execFile);
+const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-pairsets-'));
+const config = loadConfig({ KINEFOLD_STORAGE_DIR: path.join(work, 'storage'), KINEFOLD_DEMO: 'off' });
+const paths = storagePaths(config.storageDir);
+const mib = (bytes: number) => bytes / 1024 ** 2;
+
+/** Accepted clips of noise frames: PNG cannot compress noise, so the bytes on disk are what a camera gives. */
+async function makeClips(frameBytesWanted: number, projectId: number, uploaderId: number): Promise<void> {
+  let written = 0;
+  let seed = 0;
+  while (written < frameBytesWanted) {
+    const clip = await Clip.create({
+      projectId, uploaderId, originalName: `noise-${seed}.mp4`, sizeBytes: 1, storedBytes: 1,
+      sha256: createHash('sha256').update(String(seed)).digest('hex'), sourceExt: 'mp4', state: 'accepted',
+      container: 'mov,mp4', codec: 'h264', durationS: FRAMES_PER_CLIP / 5, fps: 25, width: WIDTH, height: HEIGHT,
+      rotation: 0, site: '', rig: '', capturedAt: null, tags: [], notes: '', frameCount: FRAMES_PER_CLIP,
+    });
+    const layout = paths.clipDerived(clip.id);
+    fs.mkdirSync(layout.framesDir, { recursive: true });
+    for (let index = 0; index < FRAMES_PER_CLIP; index += 1) {
+      const noise = createHash('sha512');
+      const pixels = Buffer.alloc(WIDTH * HEIGHT * 3);
+      for (let offset = 0; offset < pixels.length; offset += 64) {
+        noise.update(`${seed}:${index}:${offset}`);
+        noise.copy().digest().copy(pixels, offset);
+      }
+      await sharp(pixels, { raw: { width: WIDTH, height: HEIGHT, channels: 3 } }).png().toFile(layout.frame(index));
+      written += fs.statSync(layout.frame(index)).size;
+      await Frame.create({ clipId: clip.id, index, timeS: index / 5, sharpness: 500, cutBefore: false });
+    }
+    seed += 1;
+  }
+}
+
+/** Runs the two sides in alternating rounds (so both meet the same machine load) and keeps each side's best. */
+async function alternate(sides: [string, () => Promise<void>][]): Promise<number[]> {
+  const fastest = sides.map(() => Infinity);
+  for (let round = 0; round < ROUNDS; round += 1) {
+    for (const [i, [, action]] of sides.entries()) {
+      const start = performance.now();
+      await action();
+      fastest[i] = Math.min(fastest[i]!, (performance.now() - start) / 1000);
+    }
+  }
+  sides.forEach(([label], i) => console.log(`${label}: best of ${ROUNDS} ${fastest[i]!.toFixed(2)} s`));
+  return fastest;
+}
+
+const sequelize = await openKinefoldDatabase(config);
+try {
+  const user = await createUser({ email: 'bench@example.test', name: 'Bench', role: 'engineer',
+    password: 'benchmark-password-long' }, 10, null);
+  const project = await Project.create({
+    name: 'Pairset benchmark', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: WIDTH,
+    deltas: [1], flagThresholds: {},
+  });
+  // Each frame is read twice (as a at t and as b at t − 1), so half the wanted shard bytes in frames.
+  await makeClips(Number(values.mb) * 1024 ** 2 / 2, project.id, user.id);
+  const definition = pairsetDefinitionSchema.parse({
+    name: 'copy only', projectIds: [project.id], views: ['frame', 'neighbour'], deltas: [1], graph: 'core',
+    split: { val: 0.1, seed: 1 },
+  });
+  const sources = await loadPairsetSources(definition);
+  const planned = planPairs(sources, definitionViews(definition).pairs, definition.split, definition);
+  // The shards hold every frame twice (as a and as b). GNU tar stores a name it has archived already as a hard
+  // link, so its b-files come from a copy of the frames: both sides then read and write the same bytes.
+  const mirror = path.join(work, 'mirror');
+  for (const clip of sources) {
+    fs.cpSync(paths.clipDerived(clip.id).framesDir, path.join(mirror, String(clip.id)), { recursive: true });
+  }
+  const list = path.join(work, 'files.txt');
+  fs.writeFileSync(list, planned.flatMap((item) => [
+    viewSourceFile(paths, item.clipId, item.moment, item.pair.a),
+    path.join(mirror, String(item.clipId), path.basename(viewSourceFile(paths, item.clipId, item.moment, item.pair.b))),
+  ]).join('\n'));
+
+  const tarFile = path.join(work, 'reference.tar');
+  const outDir = path.join(work, 'shards');
+  let shardBytes = 0;
+  const [tarS, shardS] = await alternate([
+    ['tar -cf of the same files', async () => {
+      fs.rmSync(tarFile, { force: true });
+      await run('tar', ['-cf', tarFile, '-P', '-T', list]);
+    }],
+    ['Kinefold shards (tar-stream, SHA-256)', async () => {
+      fs.rmSync(outDir, { recursive: true, force: true });
+      fs.mkdirSync(path.join(outDir, 'staging'), { recursive: true });
+      const shards = await writeShards(planned, {
+        outDir, stagingDir: path.join(outDir, 'staging'), shardMB: definition.shardMB,
+        clips: new Map(sources.map((clip) => [clip.id, clip])),
+        member: { paths, motionFormat: definition.motionFormat }, progress: async () => undefined,
+      });
+      shardBytes = shards.reduce((sum, shard) => sum + shard.bytes, 0);
+    }],
+  ]);
+  const tarBytes = fs.statSync(tarFile).size;
+  const tarContent = fs.readFileSync(tarFile);
+  const hashStart = performance.now();
+  createHash('sha256').update(tarContent).digest();
+  const hashS = (performance.now() - hashStart) / 1000;
+
+  const created = await createPairset(definition, user.id);
+  await startBuild(created.id, user);
+  const pool = createFramePool();
+  const runtime = createJobRuntime({ config, paths, pool, owner: 'bench' });
+  const jobStart = performance.now();
+  await runtime.runOnce();
+  const jobS = (performance.now() - jobStart) / 1000;
+  await pool.destroy();
+  const built = (await Pairset.findByPk(created.id))!;
+
+  console.log(`${planned.length} pairs from ${sources.length} clips; tar ${mib(tarBytes).toFixed(0)} MiB, `
+    + `shards ${mib(shardBytes).toFixed(0)} MiB`);
+  console.log(`tar -cf: ${(mib(tarBytes) / tarS).toFixed(0)} MiB/s`);
+  const ratio = (mib(shardBytes) / shardS) / (mib(tarBytes) / tarS);
+  console.log(`shards:  ${(mib(shardBytes) / shardS).toFixed(0)} MiB/s, ${ratio.toFixed(2)}× tar's throughput `
+    + '(goal ≥ 0.8×)');
+  console.log(`(SHA-256 alone of the same bytes: ${(mib(tarBytes) / hashS).toFixed(0)} MiB/s on this machine now)`);
+  console.log(`whole build-pairset job (plan, shards, pair difficulty, commit): ${jobS.toFixed(2)} s, state `
+    + `${built.state}, ${mib(Number(built.bytes)).toFixed(0)} MiB`);
+} finally {
+  await sequelize.close();
+  fs.rmSync(work, { recursive: true, force: true });
+}

@@ -1,0 +1,99 @@
+/**
+ * The demo's invented field campaign: an agricultural-robotics team collecting footage to pre-train the vision of
+ * a row-following robot. Places, people and footage are made up; the footage is rendered by ffmpeg on first start.
+ */
+export const DEMO_PROJECTS = [
+  {
+    name: 'Terraced orchard, spring pass',
+    description: 'Row-following footage from the terraced orchard, shot from the tractor mount and by hand.',
+    quotaBytes: 2 * 1024 ** 3,
+  },
+  {
+    name: 'Glasshouse and creek block',
+    description: 'Bench rows in the glasshouse and the creek-side block, for the second training round.',
+    quotaBytes: 1024 ** 3,
+  },
+] as const;
+
+export const DEMO_SITES = ['Terraced orchard', 'Glasshouse', 'Creek-side block'] as const;
+export const DEMO_RIGS = ['tractor mount', 'handheld'] as const;
+
+/** How a demo clip is rendered from the procedural foliage texture (see footage.ts). */
+export interface DemoClipRecipe {
+  file: string;
+  project: 0 | 1;
+  site: (typeof DEMO_SITES)[number];
+  rig: (typeof DEMO_RIGS)[number];
+  seconds: number;
+  /** The camera path over the texture, as ffmpeg expressions of t (seconds). */
+  x: string;
+  y: string;
+  /** Extra ffmpeg filters after the crop (exposure, blur, objects crossing…). */
+  look?: string;
+  /** Another texture seed from this second on: a hard scene cut. */
+  cutAtS?: number;
+  textureSeed: number;
+  tags: string[];
+  notes: string;
+  /** Which flag the clip is made to raise, for the README and the console. */
+  expect?: string;
+}
+
+const CRATE = "drawbox=x='mod(t*110,760)-80':y=210:w=70:h=46:color=0xc2410c@0.95:t=fill";
+const STAKE = "drawbox=x=410:y='mod(t*70,520)-120':w=14:h=120:color=0xe9dcc0@0.95:t=fill";
+
+export const DEMO_CLIPS: DemoClipRecipe[] = [
+  { file: 'orchard-row-03-north.mp4', project: 0, site: 'Terraced orchard', rig: 'tractor mount', seconds: 10,
+    x: '120+t*38', y: '90+t*6', textureSeed: 1, tags: ['rows', 'morning'], notes: 'Steady pass along row 3.' },
+  { file: 'orchard-row-04-north.mp4', project: 0, site: 'Terraced orchard', rig: 'tractor mount', seconds: 9,
+    x: '300+t*42', y: '140-t*4', textureSeed: 2, tags: ['rows', 'morning'], notes: 'Row 4, light wind.' },
+  { file: 'orchard-row-05-crate.mp4', project: 0, site: 'Terraced orchard', rig: 'tractor mount', seconds: 8,
+    x: '220+t*30', y: '60+t*8', look: CRATE, textureSeed: 3, tags: ['rows', 'obstacle'],
+    notes: 'A picking crate crosses the row.' },
+  { file: 'orchard-terrace-turn.mp4', project: 0, site: 'Terraced orchard', rig: 'tractor mount', seconds: 8,
+    x: '400+200*sin(t/3)', y: '200+40*sin(t/2)', textureSeed: 4, tags: ['headland', 'turn'],
+    notes: 'Turning at the end of the terrace.' },
+  { file: 'orchard-handheld-walk.mp4', project: 0, site: 'Terraced orchard', rig: 'handheld', seconds: 7,
+    x: '500+t*22+3*sin(t*2)', y: '300+t*5', textureSeed: 5, tags: ['walk'], notes: 'Walking the row by hand.' },
+  { file: 'orchard-dusk-row-02.mp4', project: 0, site: 'Terraced orchard', rig: 'tractor mount', seconds: 7,
+    x: '150+t*35', y: '120', look: 'eq=brightness=-0.42:contrast=0.55', textureSeed: 6, tags: ['rows', 'dusk'],
+    notes: 'Shot after sunset.', expect: 'dark' },
+  { file: 'orchard-noon-glare.mp4', project: 0, site: 'Terraced orchard', rig: 'handheld', seconds: 6,
+    x: '260+t*25', y: '180', look: 'eq=brightness=0.55:contrast=0.6', textureSeed: 7, tags: ['glare'],
+    notes: 'Sun straight into the lens.', expect: 'overexposed' },
+  { file: 'orchard-fogged-lens.mp4', project: 0, site: 'Terraced orchard', rig: 'tractor mount', seconds: 6,
+    x: '330+t*30', y: '210', look: 'gblur=sigma=9', textureSeed: 8, tags: ['rows'],
+    notes: 'Condensation on the lens.', expect: 'blurry' },
+  { file: 'orchard-parked.mp4', project: 0, site: 'Terraced orchard', rig: 'tractor mount', seconds: 6,
+    x: '420', y: '260', textureSeed: 9, tags: ['parked'], notes: 'Tractor stood still, camera running.',
+    expect: 'static' },
+  { file: 'orchard-rough-ground.mp4', project: 0, site: 'Terraced orchard', rig: 'handheld', seconds: 6,
+    x: '380+14*sin(t*23)+9*sin(t*37)', y: '220+12*sin(t*29)+8*sin(t*41)', textureSeed: 10, tags: ['rough'],
+    notes: 'Stumbling over roots.', expect: 'shaky' },
+  { file: 'glasshouse-bench-01.mp4', project: 1, site: 'Glasshouse', rig: 'handheld', seconds: 9,
+    x: '100+t*33', y: '240-t*3', textureSeed: 11, tags: ['benches'], notes: 'Bench row 1, irrigation on.' },
+  { file: 'glasshouse-bench-02.mp4', project: 1, site: 'Glasshouse', rig: 'handheld', seconds: 8,
+    x: '260+t*36', y: '160', look: STAKE, textureSeed: 12, tags: ['benches', 'stakes'],
+    notes: 'Stakes passing the lens.' },
+  { file: 'glasshouse-bench-03.mp4', project: 1, site: 'Glasshouse', rig: 'tractor mount', seconds: 8,
+    x: '600-t*30', y: '120+t*10', textureSeed: 13, tags: ['benches'], notes: 'Reverse pass along bench 3.' },
+  { file: 'glasshouse-door-cut.mp4', project: 1, site: 'Glasshouse', rig: 'handheld', seconds: 8, cutAtS: 4,
+    x: '200+t*30', y: '200', textureSeed: 14, tags: ['benches'],
+    notes: 'Recording paused at the door and resumed outside.', expect: 'cut-heavy' },
+  { file: 'creek-bank-01.mp4', project: 1, site: 'Creek-side block', rig: 'tractor mount', seconds: 10,
+    x: '80+t*40', y: '300-t*8', textureSeed: 15, tags: ['rows', 'water'], notes: 'Along the creek bank.' },
+  { file: 'creek-bank-02.mp4', project: 1, site: 'Creek-side block', rig: 'tractor mount', seconds: 9,
+    x: '500+t*28', y: '100+t*12', look: CRATE, textureSeed: 16, tags: ['rows', 'obstacle'],
+    notes: 'A crate left on the track.' },
+  { file: 'creek-footbridge.mp4', project: 1, site: 'Creek-side block', rig: 'handheld', seconds: 7,
+    x: '700-60*sin(t/2)', y: '250+t*9', textureSeed: 17, tags: ['bridge'], notes: 'Crossing the footbridge.' },
+  { file: 'creek-blip.mp4', project: 1, site: 'Creek-side block', rig: 'handheld', seconds: 1,
+    x: '300', y: '300', textureSeed: 18, tags: ['accidental'], notes: 'Pressed record by accident.',
+    expect: 'short' },
+];
+
+/** The same footage as creek-bank-01 exported again at another quality: a near-duplicate. */
+export const DEMO_DUPLICATE = { of: 'creek-bank-01.mp4', file: 'creek-bank-01-export.mp4', crf: 30 };
+
+/** A file an operator might drop by mistake; ingest refuses it. */
+export const DEMO_NOT_A_VIDEO = { file: 'creek-field-notes.txt', text: 'Creek block: water level high, skip row 9.\n' };

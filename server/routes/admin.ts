@@ -1,0 +1,39 @@
+import { Router, type Request, type Response } from 'express';
+import { HttpStatus } from '../../shared/http-status';
+import { retentionQuerySchema, retentionRunSchema, type RetentionQuery } from '../../shared/schemas/admin';
+import type { RetentionPreview, UsageReport } from '../../shared/types/admin';
+import { currentUser, requireRole } from '../middlewares/auth';
+import { validate } from '../middlewares/validate';
+import { requestReconcile } from '../services/reconcile-requests';
+import { requestRetentionRun, retentionCandidates } from '../services/retention';
+import { usageReport } from '../services/usage';
+import type { StoragePaths } from '../storage/paths';
+
+export function createAdminRouter(paths: StoragePaths): Router {
+  const router = Router();
+  router.get('/usage', requireRole('admin'), getUsage(paths));
+  router.post('/reconcile', requireRole('admin'), postReconcile);
+  router.get('/retention/preview', requireRole('admin'), validate({ query: retentionQuerySchema }), getRetentionPreview);
+  router.post('/retention/run', requireRole('admin'), validate({ body: retentionRunSchema }), postRetentionRun);
+  return router;
+}
+
+async function getRetentionPreview(req: Request, res: Response<RetentionPreview>): Promise<void> {
+  res.json(await retentionCandidates((req.valid.query as RetentionQuery).projectId));
+}
+
+async function postRetentionRun(req: Request, res: Response<{ jobId: number }>): Promise<void> {
+  const job = await requestRetentionRun((req.valid.body as RetentionQuery).projectId, currentUser(req).id);
+  res.status(HttpStatus.ACCEPTED).json({ jobId: job.id });
+}
+
+function getUsage(paths: StoragePaths) {
+  return async (_req: Request, res: Response<UsageReport>) => {
+    res.json(await usageReport(paths));
+  };
+}
+
+async function postReconcile(req: Request, res: Response<{ jobId: number }>): Promise<void> {
+  const job = await requestReconcile('on-demand', currentUser(req).id);
+  res.status(HttpStatus.ACCEPTED).json({ jobId: job.id });
+}

@@ -1,0 +1,27 @@
+import { Readable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
+import { Router, type Request, type Response } from 'express';
+import type { ListPage } from '../../shared/api-types';
+import {
+  auditExportQuerySchema, auditListQuerySchema, type AuditExportQuery, type AuditListQuery,
+} from '../../shared/schemas/admin';
+import type { AuditEntry } from '../../shared/types/admin';
+import { requireRole } from '../middlewares/auth';
+import { validate } from '../middlewares/validate';
+import { auditCsvLines, listAudit } from '../services/audit-log';
+
+/** Mounted at /api so the export keeps its `.csv` address: /api/audit and /api/audit.csv. */
+export const auditRouter = Router();
+
+auditRouter.get('/audit', requireRole('admin'), validate({ query: auditListQuerySchema }), getAudit);
+auditRouter.get('/audit.csv', requireRole('admin'), validate({ query: auditExportQuerySchema }), getAuditCsv);
+
+async function getAudit(req: Request, res: Response<ListPage<AuditEntry>>): Promise<void> {
+  res.json(await listAudit(req.valid.query as AuditListQuery));
+}
+
+async function getAuditCsv(req: Request, res: Response): Promise<void> {
+  res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+  res.attachment(`kinefold-audit-${new Date().toISOString().slice(0, 10)}.csv`);
+  await pipeline(Readable.from(auditCsvLines(req.valid.query as AuditExportQuery)), res);
+}

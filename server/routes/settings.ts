@@ -1,0 +1,27 @@
+import { Router, type Request, type Response } from 'express';
+import { settingsSchema, type Settings } from '../../shared/schemas/settings';
+import type { Config } from '../config';
+import { currentUser, requireRole } from '../middlewares/auth';
+import { validate } from '../middlewares/validate';
+import { currentSettings, saveSettings } from '../services/settings';
+
+/** `/api/settings`: the reject reasons live beside it at `/api/settings/reject-reasons` (Review). */
+export function createSettingsRouter(config: Config): Router {
+  const router = Router();
+  router.get('/', requireRole('admin'), getSettings(config));
+  router.put('/', requireRole('admin'), validate({ body: settingsSchema }), putSettings(config));
+  return router;
+}
+
+function getSettings(config: Config) {
+  return async (_req: Request, res: Response<Settings>) => {
+    res.json(await currentSettings(config));
+  };
+}
+
+function putSettings(config: Config) {
+  return async (req: Request, res: Response<Settings>) => {
+    await saveSettings(req.valid.body as Settings, currentUser(req).id);
+    res.json(await currentSettings(config));
+  };
+}

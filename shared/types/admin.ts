@@ -1,0 +1,54 @@
+import type { JobKind, JobState } from '../jobs';
+
+export const USAGE_KINDS = ['source', 'preview', 'frames', 'motion', 'views', 'pairsets'] as const;
+export type UsageKind = (typeof USAGE_KINDS)[number];
+export type UsageByKind = Record<UsageKind, number>;
+
+export interface UsageReport {
+  disk: { usedBytes: number; freeBytes: number };
+  totalBytes: number;
+  byProject: { projectId: number; name: string; usedBytes: number; quotaBytes: number | null }[];
+  byUser: { userId: number; name: string; usedBytes: number; quotaBytes: number | null }[];
+  /** From the latest reconciliation (null before the first one). */
+  byKind: UsageByKind | null;
+  measuredAt: string | null;
+  lastDrift: Record<string, unknown> | null;
+  trend: { day: string; totalBytes: number }[];
+}
+
+export interface JobSummary {
+  id: number;
+  kind: JobKind;
+  target: string;
+  clipId: number | null;
+  state: JobState;
+  attempts: number;
+  leaseOwner: string | null;
+  leaseExpiresAt: string | null;
+  stage: string | null;
+  progress: number;
+  error: string | null;
+  runAfter: string;
+  createdAt: string;
+  finishedAt: string | null;
+}
+
+export interface AuditEntry {
+  id: number;
+  at: string;
+  actorId: number | null;
+  actorName: string | null;
+  action: string;
+  targetType: string;
+  targetId: string | null;
+  detail: Record<string, unknown>;
+}
+
+/** Rejected clips that retention would purge now in one project, and the bytes that frees. */
+export interface RetentionPreview {
+  projectId: number;
+  /** Null when retention is off for the project (then nothing is ever purged). */
+  retentionDays: number | null;
+  clips: { clipId: number; originalName: string; rejectedAt: string; bytes: number }[];
+  totalBytes: number;
+}

@@ -1,0 +1,243 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { AuditEvent, Clip, Job, MailOutbox, Project, QuotaWarning, UsageSnapshot, Verdict } from '../../server/models';
+import { checkQuotaThresholds } from '../../server/services/quota-warnings';
+import { storagePaths } from '../../server/storage/paths';
+import { csvField } from '../../server/services/audit-log';
+import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
+import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
+import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+
+type SignedIn = Awaited<ReturnType<typeof signedInAgent>>;
+let server: TestServer;
+let runtime: TestRuntime;
+let admin: SignedIn;
+let operator: SignedIn;
+let operatorId: number;
+let adminId: number;
+let projectId: number;
+let clipId: number;
+const media = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-admin-'));
+
+beforeAll(async () => {
+  server = await startTestServer();
+  runtime = startTestRuntime(server);
+  adminId = (await addUser(server, 'admin')).id;
+  operatorId = (await addUser(server, 'operator')).id;
+  admin = await signedInAgent(server, 'admin@example.test');
+  operator = await signedInAgent(server, 'operator@example.test');
+  projectId = (await addProject(adminId, 'Orchard rows')).id;
+  const file = await makePatternClip(path.join(media, 'orchard.mp4'), 3);
+  clipId = (await insertClip(server, file, projectId, operatorId)).clip.id;
+  await runtime.drain();
+}, 180_000);
+afterAll(async () => {
+  await runtime.close();
+  await server.close();
+  fs.rmSync(media, { recursive: true, force: true });
+});
+
+describe('admin routes', () => {
+  const routes: [string, string][] = [
+    ['get', '/api/admin/usage'], ['post', '/api/admin/reconcile'], ['get', '/api/jobs'],
+    ['post', '/api/jobs/1/retry'], ['post', '/api/jobs/1/cancel'], ['get', '/api/audit'], ['get', '/api/audit.csv'],
+  ];
+  it('are 401 signed out and 403 for other roles', async () => {
+    for (const [method, url] of routes) {
+      const anonymous = await (request(server.app) as unknown as Record<string, (u: string) => request.Test>)[method]!(url);
+      expect([401, 403]).toContain(anonymous.status);
+      const asOperator = await (operator.agent as unknown as Record<string, (u: string) => request.Test>)[method]!(url)
+        .set('x-csrf-token', operator.csrf);
+      expect(asOperator.status).toBe(403);
+    }
+  });
+
+  it('answer 400 naming the field for bad filters', async () => {
+    const jobs = await admin.agent.get('/api/jobs?state=lost').expect(400);
+    expect(jobs.body.error.message).toMatch(/^state/);
+    const audit = await admin.agent.get('/api/audit?from=yesterday').expect(400);
+    expect(audit.body.error.message).toMatch(/^from/);
+    await admin.agent.post('/api/jobs/abc/retry').set('x-csrf-token', admin.csrf).expect(400);
+  });
+});
+
+describe('jobs', () => {
+  it('lists jobs with their target, and cancels and retries them', async () => {
+    const list = await admin.agent.get('/api/jobs?kind=process-clip').expect(200);
+    expect(list.body.items[0]).toMatchObject({ kind: 'process-clip', state: 'done', target: `clip ${clipId} (orchard.mp4)` });
+    await admin.agent.post(`/api/jobs/${list.body.items[0].id}/cancel`).set('x-csrf-token', admin.csrf).expect(409);
+
+    const reprocess = await admin.agent.post(`/api/clips/${clipId}/reprocess`).set('x-csrf-token', admin.csrf).expect(202);
+    expect(reprocess.body.state).toBe('queued');
+    const queued = await Job.findOne({ where: { clipId, state: 'queued' } });
+    const cancelled = await admin.agent.post(`/api/jobs/${queued!.id}/cancel`).set('x-csrf-token', admin.csrf).expect(200);
+    expect(cancelled.body.state).toBe('cancelled');
+    expect((await Clip.findByPk(clipId))?.state).toBe('failed');
+
+    const retried = await admin.agent.post(`/api/jobs/${queued!.id}/retry`).set('x-csrf-token', admin.csrf).expect(200);
+    expect(retried.body).toMatchObject({ kind: 'process-clip', state: 'queued' });
+    expect(await runtime.drain()).toBe(1);
+    expect((await Clip.findByPk(clipId))?.state).toBe('awaiting_review');
+    expect(await AuditEvent.count({ where: { action: 'job.cancel' } })).toBe(1);
+  });
+});
+
+describe('usage and reconciliation', () => {
+  it('finds and fixes planted drift: a file deleted behind its back and a stray folder', async () => {
+    const paths = storagePaths(server.storageDir);
+    const before = Number((await Clip.findByPk(clipId))!.storedBytes);
+    const frame = path.join(paths.clipDir(clipId), 'frames', fs.readdirSync(path.join(paths.clipDir(clipId), 'frames'))[0]!);
+    const frameBytes = fs.statSync(frame).size;
+    fs.rmSync(frame);
+    const stray = paths.clipDir(9999);
+    fs.mkdirSync(stray, { recursive: true });
+    fs.writeFileSync(path.join(stray, 'source.mp4'), Buffer.alloc(1234));
+
+    await admin.agent.post('/api/admin/reconcile').set('x-csrf-token', admin.csrf).expect(202);
+    const again = await admin.agent.post('/api/admin/reconcile').set('x-csrf-token', admin.csrf).expect(202);
+    expect(await Job.count({ where: { kind: 'reconcile-usage', state: 'queued' } })).toBe(1);
+    expect(again.body.jobId).toBeGreaterThan(0);
+    expect(await runtime.drain()).toBe(1);
+
+    expect(Number((await Clip.findByPk(clipId))!.storedBytes)).toBe(before - frameBytes);
+    expect(fs.existsSync(stray)).toBe(false);
+    const snapshot = await UsageSnapshot.findOne();
+    expect(snapshot!.drift).toMatchObject({
+      clips: [{ clipId, recordedBytes: before, actualBytes: before - frameBytes }],
+      strayFolders: [{ folder: 'clips/9999', bytes: 1234 }],
+    });
+
+    const usage = await admin.agent.get('/api/admin/usage').expect(200);
+    const sumOfKinds = Object.values(usage.body.byKind as Record<string, number>).reduce((a, b) => a + b, 0);
+    expect(sumOfKinds).toBe(before - frameBytes);
+    expect(usage.body.byKind.source).toBe(Number((await Clip.findByPk(clipId))!.sizeBytes));
+    expect(usage.body.byProject[0]).toMatchObject({ name: 'Orchard rows', usedBytes: before - frameBytes });
+    expect(usage.body.disk.freeBytes).toBeGreaterThan(0);
+    expect(usage.body.trend).toHaveLength(1);
+  });
+});
+
+describe('quota threshold warnings', () => {
+  it('mails admins and the operators concerned once per crossing, again after falling back below', async () => {
+    const project = await Project.findByPk(projectId);
+    const used = Number((await Clip.findByPk(clipId))!.storedBytes);
+    const check = () => Clip.sequelize!.transaction((t) =>
+      checkQuotaThresholds(projectId, operatorId, server.config.publicUrl, t));
+    const mails = () => MailOutbox.count({ where: { template: 'quota-threshold' } });
+
+    await project!.update({ quotaBytes: Math.ceil(used / 0.85) });
+    await check();
+    expect(await mails()).toBe(2);
+    await check();
+    expect(await mails()).toBe(2);
+    const subject = (await MailOutbox.findOne({ where: { to: 'operator@example.test', template: 'quota-threshold' } }))!.subject;
+    expect(subject).toBe('Project "Orchard rows" has used 80 % of its storage quota');
+
+    await project!.update({ quotaBytes: used });
+    await check();
+    expect(await mails()).toBe(4);
+    await project!.update({ quotaBytes: used * 10 });
+    await check();
+    expect(await QuotaWarning.count()).toBe(0);
+    await project!.update({ quotaBytes: Math.ceil(used / 0.85) });
+    await check();
+    expect(await mails()).toBe(6);
+  });
+});
+
+describe('audit log', () => {
+  it('filters and exports as CSV', async () => {
+    const list = await admin.agent.get('/api/audit?action=job.cancel').expect(200);
+    expect(list.body.items).toHaveLength(1);
+    expect(list.body.items[0]).toMatchObject({ actorName: 'Test admin', targetType: 'job' });
+    const csv = await admin.agent.get('/api/audit.csv?targetType=job').expect(200);
+    expect(csv.headers['content-type']).toMatch(/text\/csv/);
+    const lines = csv.text.trim().split('\r\n');
+    expect(lines[0]).toBe('at,actor,action,target type,target id,detail');
+    expect(lines.some((line) => line.includes(',job.cancel,job,'))).toBe(true);
+  });
+
+  it('quotes CSV fields per RFC 4180 and defuses spreadsheet formulas', () => {
+    expect(csvField('plain')).toBe('plain');
+    expect(csvField('a,b')).toBe('"a,b"');
+    expect(csvField('say "hi"')).toBe('"say ""hi"""');
+    expect(csvField('=SUM(A1)')).toBe("'=SUM(A1)");
+  });
+});
+
+describe('retention of rejected footage', () => {
+  it('previews exactly what the run purges: old rejections only, accepted clips untouched, bytes released', async () => {
+    const project = await Project.findByPk(projectId);
+    const preview = () => admin.agent.get(`/api/admin/retention/preview?projectId=${projectId}`).expect(200);
+    await project!.update({ retentionDays: null });
+    expect((await preview()).body).toMatchObject({ retentionDays: null, clips: [] });
+    await admin.agent.post('/api/admin/retention/run').set('x-csrf-token', admin.csrf).send({ projectId }).expect(409);
+
+    const old = new Date(Date.now() - 40 * 24 * 3600_000);
+    const file = await makePatternClip(path.join(media, 'rejected.mp4'), 2, 'hue=h=90');
+    const rejected = (await insertClip(server, file, projectId, operatorId)).clip;
+    const keptFile = await makePatternClip(path.join(media, 'accepted.mp4'), 2, 'hue=h=200');
+    const accepted = (await insertClip(server, keptFile, projectId, operatorId)).clip;
+    const recentFile = await makePatternClip(path.join(media, 'recent.mp4'), 2, 'hue=h=300');
+    const recent = (await insertClip(server, recentFile, projectId, operatorId)).clip;
+    await runtime.drain();
+    for (const [clip, decision, at] of [[rejected, 'reject', old], [accepted, 'accept', old], [recent, 'reject', new Date()]] as const) {
+      await clip.update({ state: decision === 'reject' ? 'rejected' : 'accepted' });
+      await Verdict.create({ clipId: clip.id, curatorId: adminId, decision, reason: decision === 'reject' ? 'blurry' : null,
+        reasonLabel: null, comment: '', bulk: false, at, supersededAt: null, digestId: null } as never);
+    }
+    await project!.update({ retentionDays: 30 });
+    const before = Number((await Clip.findByPk(rejected.id))!.storedBytes);
+    const planned = (await preview()).body;
+    expect(planned.clips.map((clip: { clipId: number }) => clip.clipId)).toEqual([rejected.id]);
+    expect(planned.totalBytes).toBe(before);
+
+    await admin.agent.post('/api/admin/retention/run').set('x-csrf-token', admin.csrf).send({ projectId }).expect(202);
+    await runtime.drain();
+    const purged = await Clip.findByPk(rejected.id);
+    expect(purged!.purgedAt).toBeInstanceOf(Date);
+    expect(Number(purged!.storedBytes)).toBe(0);
+    expect(fs.existsSync(storagePaths(server.storageDir).clipDir(rejected.id))).toBe(false);
+    expect(await Verdict.count({ where: { clipId: rejected.id } })).toBe(1);
+    expect((await Clip.findByPk(accepted.id))!.purgedAt).toBeNull();
+    expect((await Clip.findByPk(recent.id))!.purgedAt).toBeNull();
+    expect(fs.existsSync(storagePaths(server.storageDir).clipDir(accepted.id))).toBe(true);
+    expect(await AuditEvent.count({ where: { action: 'clip.purge', targetId: String(rejected.id) } })).toBe(1);
+    expect((await preview()).body.clips).toEqual([]);
+  });
+});
+
+describe('settings', () => {
+  it('are admin-only, validated, and apply: new projects take the flag defaults, sessions the lifetime', async () => {
+    await request(server.app).get('/api/settings').expect(401);
+    await operator.agent.get('/api/settings').expect(403);
+    const current = (await admin.agent.get('/api/settings').expect(200)).body;
+    expect(current).toMatchObject({ mailFrom: server.config.mailFrom, sessionHours: 12 });
+    expect(current.projectFlagDefaults.blurryLaplacianVariance).toBe(100);
+
+    const bad = await admin.agent.put('/api/settings').set('x-csrf-token', admin.csrf)
+      .send({ ...current, sessionHours: 0 }).expect(400);
+    expect(bad.body.error.message).toMatch(/^sessionHours/);
+    await admin.agent.put('/api/settings').set('x-csrf-token', admin.csrf)
+      .send({ ...current, mailFrom: 'not an address' }).expect(400);
+
+    const saved = await admin.agent.put('/api/settings').set('x-csrf-token', admin.csrf).send({
+      ...current, projectFlagDefaults: { ...current.projectFlagDefaults, blurryLaplacianVariance: 60 },
+      mailFrom: 'Orchard team <robots@example.test>', sessionHours: 2,
+    }).expect(200);
+    expect(saved.body).toMatchObject({ mailFrom: 'Orchard team <robots@example.test>', sessionHours: 2 });
+    const project = await admin.agent.post('/api/projects').set('x-csrf-token', admin.csrf)
+      .send({ name: 'After the settings change' }).expect(201);
+    expect(project.body.settings.flagThresholds.blurryLaplacianVariance).toBe(60);
+    const me = await admin.agent.get('/api/me').expect(200);
+    const cookie = String(me.headers['set-cookie'] ?? '');
+    const expires = /Expires=([^;]+)/.exec(cookie)?.[1];
+    expect(expires).toBeDefined();
+    const hoursLeft = (new Date(expires!).getTime() - Date.now()) / 3600_000;
+    expect(hoursLeft).toBeGreaterThan(1.9);
+    expect(hoursLeft).toBeLessThan(2.1);
+  });
+});

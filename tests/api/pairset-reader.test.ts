@@ -1,0 +1,109 @@
+import { execFile } from 'node:child_process';
+import fs from 'node:fs';
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import { promisify } from 'node:util';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createApiToken } from '../../server/services/api-tokens';
+import type { PairsetDetail } from '../../shared/types/pairsets';
+import { curlCommand } from '../../src/components/pairsets/curl-command';
+import { addPairsetClip } from '../helpers/pairset-clips';
+import { buildPairsetNow } from '../helpers/pairset-build';
+import { addProject } from '../helpers/pipeline-clips';
+import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
+import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
+
+const run = promisify(execFile);
+let server: TestServer;
+let runtime: TestRuntime;
+let listener: Server;
+let origin: string;
+let pairset: PairsetDetail;
+let token: string;
+const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-reader-'));
+
+/** The Python block of the README's "Reading a pairset in Python", exactly as written there. */
+function readmeReader(): string {
+  const readme = fs.readFileSync(path.resolve('README.md'), 'utf8');
+  const match = /<!-- pairset-reader -->\n```python\n([\s\S]*?)```/.exec(readme);
+  if (!match) throw new Error('README.md has no pairset-reader block');
+  return match[1]!;
+}
+
+beforeAll(async () => {
+  server = await startTestServer();
+  runtime = startTestRuntime(server);
+  const engineer = await addUser(server, 'engineer');
+  const admin = await addUser(server, 'admin');
+  const project = await addProject(admin.id, 'valley');
+  for (let seed = 0; seed < 4; seed += 1) {
+    await addPairsetClip(server, { projectId: project.id, uploaderId: admin.id, frames: 9, seed, cutsBefore: [5] });
+  }
+  pairset = await buildPairsetNow(runtime, engineer, {
+    projectIds: [project.id], views: ['frame', 'neighbour', 'luma', 'motion'], deltas: [1], graph: 'full',
+    split: { val: 0.5, seed: 2 }, shardMB: 0.1,
+  });
+  token = (await createApiToken(engineer.id, 'reader test')).token;
+  listener = server.app.listen(0, '127.0.0.1');
+  await new Promise<void>((resolve) => listener.once('listening', () => resolve()));
+  origin = `http://127.0.0.1:${(listener.address() as AddressInfo).port}`;
+});
+afterAll(async () => {
+  listener?.closeAllConnections();
+  await new Promise<void>((resolve) => (listener ? listener.close(() => resolve()) : resolve()));
+  await runtime?.close();
+  await server?.close();
+  fs.rmSync(work, { recursive: true, force: true });
+});
+
+const bash = (script: string) => run('bash', ['-euo', 'pipefail', '-c', script],
+  { cwd: work, env: { ...process.env, KINEFOLD_TOKEN: token } });
+
+describe('downloading and reading a pairset with scripts', () => {
+  it('downloads every shard with the page\'s curl command and the token, and sha256sum accepts each', async () => {
+    expect(pairset.state).toBe('built');
+    expect(pairset.shards.length).toBeGreaterThan(1);
+    const { stdout } = await bash(curlCommand(origin, pairset.id, pairset.shards));
+    for (const shard of pairset.shards) expect(stdout).toContain(`${shard.file}: OK`);
+    const folder = path.join(work, `pairset-${pairset.id}`);
+    expect(JSON.parse(fs.readFileSync(path.join(folder, 'pairset.json'), 'utf8')).shards).toEqual(pairset.shards);
+  });
+
+  it('resumes a broken shard download through HTTP Range', async () => {
+    const folder = path.join(work, `pairset-${pairset.id}`);
+    const shard = pairset.shards[0]!;
+    const file = path.join(folder, shard.file);
+    const whole = fs.readFileSync(file);
+    fs.truncateSync(file, Math.floor(whole.length / 2));
+    const line = curlCommand(origin, pairset.id, pairset.shards).split('\n')
+      .find((candidate) => candidate.includes(`-o ${shard.file}`))!;
+    await bash(`cd pairset-${pairset.id} && ${line}`);
+    expect(fs.readFileSync(file).equals(whole)).toBe(true);
+  });
+
+  it('runs the README\'s Python reader: checksums verified, every pair read, .flo fields decoded', async () => {
+    const script = path.join(work, 'read_pairset.py');
+    fs.writeFileSync(script, readmeReader());
+    const { stdout } = await run('python3', [script, path.join(work, `pairset-${pairset.id}`)]);
+    const result = JSON.parse(stdout) as { pairs: Record<string, number>; flo_fields: number };
+    const expected = Object.fromEntries(pairset.stats!.kinds.map((kind) => [kind.kind, kind.total]));
+    expect(result.pairs).toEqual(expected);
+    const withMotion = pairset.stats!.kinds.filter((kind) => kind.b === 'motion');
+    expect(result.flo_fields).toBe(withMotion.reduce((sum, kind) => sum + kind.total, 0));
+  });
+
+  it('has the Python reader stop on a shard whose SHA-256 does not match', async () => {
+    const copy = path.join(work, 'damaged');
+    fs.cpSync(path.join(work, `pairset-${pairset.id}`), copy, { recursive: true });
+    const victim = path.join(copy, pairset.shards.at(-1)!.file);
+    const bytes = fs.readFileSync(victim);
+    bytes[700] ^= 0xff;
+    fs.writeFileSync(victim, bytes);
+    const script = path.join(work, 'read_pairset.py');
+    await expect(run('python3', [script, copy])).rejects.toMatchObject({
+      stderr: expect.stringContaining(`${pairset.shards.at(-1)!.file}: SHA-256 does not match pairset.json`),
+    });
+  });
+});

@@ -1,0 +1,34 @@
+import fs from 'node:fs';
+import { Clip } from '../../server/models';
+import { recordAudit } from '../../server/services/audit';
+import { retentionCandidates } from '../../server/services/retention';
+import type { Handler } from './handler';
+
+/**
+ * Purges the footage of rejected clips past their project's retention: each clip's folder goes (source and
+ * everything derived), then one short transaction keeps the row and its verdict, sets `purgedAt`, releases the
+ * bytes and writes an AuditEvent. Clip by clip, so a crash leaves the rest for the retry.
+ */
+export const runRetention: Handler<'run-retention'> = {
+  async run({ payload }, { paths, signal }) {
+    const { clips } = await retentionCandidates(payload.projectId);
+    for (const candidate of clips) {
+      if (signal.aborted) throw signal.reason;
+      await fs.promises.rm(paths.clipDir(candidate.clipId), { recursive: true, force: true });
+      await Clip.sequelize!.transaction(async (transaction) => {
+        const [changed] = await Clip.update(
+          { purgedAt: new Date(), storedBytes: 0, hasPreview: false, hasThumbnail: false },
+          { where: { id: candidate.clipId, state: 'rejected', purgedAt: null }, transaction },
+        );
+        if (changed === 0) return;
+        await recordAudit({
+          actorId: null, action: 'clip.purge', targetType: 'clip', targetId: candidate.clipId,
+          detail: { originalName: candidate.originalName, bytes: candidate.bytes, rejectedAt: candidate.rejectedAt },
+        }, transaction);
+      });
+    }
+  },
+  async recordFailure() {
+    // The job row keeps the error for the jobs screen; the clips not yet purged wait for the next run.
+  },
+};

@@ -1,0 +1,114 @@
+import fs from 'node:fs';
+import sharp from 'sharp';
+import { decodeChroma, decodeLuma } from '../../shared/colour/view-encoding';
+import { createFixedEmbedder, DEFAULT_FIXED_EMBEDDING } from '../../shared/pairing/fixed-embedding';
+import { pairDifficulty } from '../../shared/pairing/pair-difficulty';
+import type { PlannedPair } from '../../shared/pairing/pair-plan';
+import type { ViewName, ViewPair } from '../../shared/pairing/pairing-graph';
+import { mulberry32, shuffleInPlace } from '../../shared/pairing/seeded-random';
+import { viewPlane, type ViewData } from '../../shared/pairing/view-plane';
+import type { PairsetDifficulty } from '../../shared/types/pairsets';
+import type { StoragePaths } from '../../server/storage/paths';
+import { readRgbImage } from '../media/frame-images';
+import { decodeFlo } from '../motion/flo';
+import { viewFrame, viewSourceFile } from './pair-members';
+
+/** Batch sizes of the report (1 positive + K − 1 negatives); a K is reported when the sample fills a batch. */
+export const DIFFICULTY_KS = [16, 64, 256] as const;
+/** Pairs drawn per view pair: two batches at the largest K. */
+export const DIFFICULTY_SAMPLE = 2 * DIFFICULTY_KS[DIFFICULTY_KS.length - 1];
+
+const EMBEDDING_DESCRIPTION = 'Each view becomes one grey plane (frames: BT.601 grey; luma: L*; chroma: C*ab; '
+  + 'motion: flow magnitude), shrunk to a 16 × 16 thumbnail by area averaging, its mean removed, projected to 128 '
+  + 'dimensions by a seeded Gaussian random matrix and normalised to unit length. Nothing is trained.';
+
+export interface DifficultyOptions {
+  paths: StoragePaths;
+  temperature: number;
+  /** The pairset's split seed: the same pairset always draws the same sample. */
+  seed: number;
+  /** Called between views with the share of the report done; may throw to stop (cancel, shutdown). */
+  progress(share: number): Promise<void>;
+}
+
+/**
+ * The pair-difficulty report of a build (DESIGN §2): for each view pair, a seeded sample of its pairs, each view
+ * embedded with the fixed embedding, and InfoNCE at each K the sample fills (shared/pairing/pair-difficulty.ts).
+ * Views are read from the clips' stored files at the working size, so the output size does not change the report.
+ */
+export async function difficultyReport(planned: readonly PlannedPair[], pairs: readonly ViewPair[],
+  options: DifficultyOptions): Promise<PairsetDifficulty> {
+  const embed = createFixedEmbedder(DEFAULT_FIXED_EMBEDDING);
+  const cache = new Map<string, Float32Array>();
+  const samples = pairs.map((pair) => sample(planned.filter((item) => item.pair.kind === pair.kind), options.seed));
+  const totalViews = 2 * samples.reduce((sum, items) => sum + items.length, 0);
+  let doneViews = 0;
+  const embedView = async (item: PlannedPair, view: ViewName) => {
+    const key = `${item.clipId}:${view === 'motion' ? 'motion' : view === 'luma' || view === 'chroma' ? view : 'frame'}`
+      + `:${viewFrame(view, item.moment)}`;
+    let vector = cache.get(key);
+    if (!vector) {
+      const data = await readView(viewSourceFile(options.paths, item.clipId, item.moment, view), view);
+      vector = embed(viewPlane(data), data.width, data.height);
+      cache.set(key, vector);
+    }
+    doneViews += 1;
+    await options.progress(doneViews / totalViews);
+    return vector;
+  };
+  const kinds = [];
+  for (const [k, pair] of pairs.entries()) {
+    const items = samples[k]!;
+    const a: Float32Array[] = [];
+    const b: Float32Array[] = [];
+    for (const item of items) {
+      a.push(await embedView(item, pair.a));
+      b.push(await embedView(item, pair.b));
+    }
+    const results = DIFFICULTY_KS.map((size) => pairDifficulty(a, b, size, {
+      temperature: options.temperature, seed: options.seed,
+    })).filter((result) => result !== null);
+    kinds.push({ kind: pair.kind, sampled: items.length, results });
+  }
+  return {
+    temperature: options.temperature,
+    ks: [...DIFFICULTY_KS],
+    sampleLimit: DIFFICULTY_SAMPLE,
+    embedding: { description: EMBEDDING_DESCRIPTION, ...DEFAULT_FIXED_EMBEDDING },
+    kinds,
+  };
+}
+
+/** Up to DIFFICULTY_SAMPLE pairs, drawn with the seed. */
+function sample(items: PlannedPair[], seed: number): PlannedPair[] {
+  return shuffleInPlace([...items], mulberry32(seed)).slice(0, DIFFICULTY_SAMPLE);
+}
+
+/** Decodes a stored view file into the pixels view-plane.ts takes. */
+async function readView(file: string, view: ViewName): Promise<ViewData> {
+  if (view === 'motion') {
+    const { width, height, flow } = decodeFlo(await fs.promises.readFile(file));
+    const u = new Float32Array(width * height);
+    const v = new Float32Array(width * height);
+    for (let p = 0; p < u.length; p += 1) {
+      u[p] = flow[2 * p];
+      v[p] = flow[2 * p + 1];
+    }
+    return { kind: 'motion', width, height, u, v };
+  }
+  if (view === 'luma') {
+    const { data, info } = await sharp(file).toColourspace('b-w').raw().toBuffer({ resolveWithObject: true });
+    return { kind: 'luma', width: info.width, height: info.height, l: decodeLuma(new Uint8Array(data)) };
+  }
+  if (view === 'chroma') {
+    const { data, info } = await sharp(file).toColourspace('rgb16').raw({ depth: 'ushort' })
+      .toBuffer({ resolveWithObject: true });
+    const codes = new Uint16Array(data.buffer, data.byteOffset, data.length / 2);
+    const a = new Float32Array(info.width * info.height);
+    const b = new Float32Array(info.width * info.height);
+    decodeChroma(codes, a, b);
+    return { kind: 'chroma', width: info.width, height: info.height, a, b };
+  }
+  const image = await readRgbImage(file);
+  return { kind: 'frame', width: image.width, height: image.height, rgb: image.rgb };
+}

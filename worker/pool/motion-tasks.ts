@@ -1,0 +1,100 @@
+/**
+ * The Motion stage's work in the worker-thread pool: the forward and backward fields of a run of neighbouring
+ * frames with their consistency and summaries, and the colour picture of a stored field. Each thread keeps one
+ * MotionWorkspace for its whole life, so pair after pair reuses the estimators' large buffers instead of
+ * allocating them anew (which costs much on these machines). The computations are the pure functions of
+ * worker/motion/ and shared/motion/.
+ */
+import fs from 'node:fs';
+import { rgbToGrey } from '../../shared/colour/grey';
+import { motionToColour } from '../../shared/motion/colour-wheel';
+import { readRgbImage, writeRgbPng } from '../media/frame-images';
+import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../motion/consistency';
+import { summariseField, type FieldSummary } from '../motion/field-summary';
+import { decodeFlo, encodeFlo } from '../motion/flo';
+import type { Estimator, EstimatorParams } from '../motion/index';
+import { NeighbourFieldRun, type NeighbourFields } from '../motion/neighbour-fields';
+import { MotionWorkspace } from '../motion/workspace';
+
+/** Frames k → k+1 of `frameFiles` (consecutive frames with no cut between them), both ways. */
+export interface MotionRunTask {
+  kind: 'motion-run';
+  frameFiles: string[];
+  estimator: Estimator;
+  /** The estimator's complete parameters (resolveParams), recorded with every field. */
+  params: EstimatorParams[Estimator];
+  /** Where the forward field of pair k goes (.flo), one per pair. */
+  forwardFiles: string[];
+  /** Where the backward field of pair k goes (.flo). */
+  backwardFiles: string[];
+}
+
+/** Summaries of pair k's two fields; each one's consistency is checked against the other field. */
+export interface PairMotion {
+  forward: FieldSummary;
+  backward: FieldSummary;
+}
+
+/** Colours a stored field with the colour wheel, `maxMotion` px mapping to full colour. */
+export interface MotionPictureTask {
+  kind: 'motion-picture';
+  floFile: string;
+  pictureFile: string;
+  maxMotion: number;
+}
+
+export type MotionTask = MotionRunTask | MotionPictureTask;
+
+/** This thread's buffers, kept between tasks (see the module comment). */
+const workspace = new MotionWorkspace();
+let maskBuffer = new Uint8Array(0);
+
+export async function estimateMotionRun(task: MotionRunTask): Promise<PairMotion[]> {
+  const { frameFiles, forwardFiles, backwardFiles } = task;
+  const pairs = frameFiles.length - 1;
+  if (pairs < 1 || forwardFiles.length !== pairs || backwardFiles.length !== pairs) {
+    throw new Error(`motion run: ${frameFiles.length} frames need ${Math.max(0, pairs)} forward and backward files`);
+  }
+  let run: NeighbourFieldRun | null = null;
+  let size = { width: 0, height: 0 };
+  const results: PairMotion[] = [];
+  for (const [k, file] of frameFiles.entries()) {
+    const { rgb, width, height } = await readRgbImage(file);
+    if (run === null) {
+      run = new NeighbourFieldRun(task.estimator, task.params, width, height, workspace);
+      size = { width, height };
+    } else if (width !== size.width || height !== size.height) {
+      throw new Error(`motion run: ${file} is ${width}x${height}, the run's frames are ${size.width}x${size.height}`);
+    }
+    const fields = run.add(rgbToGrey(rgb, workspace.float32('task.grey', width * height)));
+    if (fields) results.push(await storePair(fields, width, height, forwardFiles[k - 1]!, backwardFiles[k - 1]!));
+  }
+  return results;
+}
+
+async function storePair(
+  fields: NeighbourFields, width: number, height: number, forwardFile: string, backwardFile: string,
+): Promise<PairMotion> {
+  const pixels = width * height;
+  if (maskBuffer.length !== pixels) maskBuffer = new Uint8Array(pixels);
+  const scratch = workspace.float32('task.magnitudes', pixels);
+  const summary = (field: Float32Array, other: Float32Array): FieldSummary => {
+    forwardBackwardConsistency(field, other, width, height, CONSISTENCY_DEFAULTS, maskBuffer);
+    return summariseField(field, maskBuffer, scratch);
+  };
+  const forward = summary(fields.forward, fields.backward);
+  const backward = summary(fields.backward, fields.forward);
+  // Encoded before the first await: the next frame of the run overwrites the field buffers.
+  const forwardBytes = encodeFlo(fields.forward, width, height);
+  const backwardBytes = encodeFlo(fields.backward, width, height);
+  await Promise.all([
+    fs.promises.writeFile(forwardFile, forwardBytes),
+    fs.promises.writeFile(backwardFile, backwardBytes),
+  ]);
+  return { forward, backward };
+}
+
+export async function writeMotionPicture({ floFile, pictureFile, maxMotion }: MotionPictureTask): Promise<void> {
+  const { flow, width, height } = decodeFlo(await fs.promises.readFile(floFile));
+  await writeRgbPng(motionToColour(flow, maxMotion).rgb, width, height, pictureFile);
+}
