@@ -160,7 +160,11 @@ console.log(present === 0
   ? `seeded ${CLIPS} clips (${waiting} awaiting review) in ${((performance.now() - seedStart) / 1000).toFixed(1)} s`
   : `reusing ${present} clips (${waiting} awaiting review) in ${work}`);
 
-const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env, stdio: 'ignore' });
+// The server's output goes to a log beside the database, shown if a request fails.
+const serverLog = path.join(work, 'server.log');
+const logFd = fs.openSync(serverLog, 'w');
+const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'],
+  { env, stdio: ['ignore', logFd, logFd] });
 try {
   for (let i = 0; i < 150; i += 1) {
     if (await fetch(`${baseUrl}/api/health`).then((r) => r.ok, () => false)) break;
@@ -193,8 +197,13 @@ try {
       + `| ${raw.p95.toFixed(1)} ms | ${(api.p95 / raw.p95).toFixed(2)}× |`);
   }
   console.log(`\nworst API p95: ${worst.toFixed(1)} ms (goal < 50 ms) on ${os.cpus().length} cores`);
+} catch (error) {
+  console.error(`the benchmark stopped; the server's last words (${serverLog}):\n`
+    + fs.readFileSync(serverLog, 'utf8').split('\n').slice(-30).join('\n'));
+  throw error;
 } finally {
   server.kill('SIGTERM');
   await sequelize.close();
+  fs.closeSync(logFd);
   if (!values.storage) fs.rmSync(work, { recursive: true, force: true });
 }

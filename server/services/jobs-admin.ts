@@ -3,7 +3,7 @@ import type { ListPage } from '../../shared/api-types';
 import type { JobListQuery } from '../../shared/schemas/admin';
 import type { JobSummary } from '../../shared/types/admin';
 import { conflict, notFound } from '../errors';
-import { Clip, Job } from '../models';
+import { Clip, Job, Pairset } from '../models';
 import { recordAudit } from './audit';
 import { reprocessClip } from './clip-media';
 
@@ -86,6 +86,9 @@ export async function cancelJob(id: number, actorId: number): Promise<JobSummary
     if (job.kind === 'process-clip' && job.clipId) {
       await Clip.update({ state: 'failed', error: 'Processing was cancelled by an admin.' },
         { where: { id: job.clipId, state: { [Op.in]: ['queued', 'processing'] } }, transaction });
+    }
+    if (job.kind === 'build-pairset' && job.pairsetId) {
+      await Pairset.update({ state: 'cancelled' }, { where: { id: job.pairsetId, state: 'building' }, transaction });
     }
     await recordAudit({ actorId, action: 'job.cancel', targetType: 'job', targetId: id, detail: { kind: job.kind } },
       transaction);

@@ -1,5 +1,5 @@
 import { onBeforeUnmount, onMounted } from 'vue';
-import { actionFor, REASON_KEYS, type ReviewAction } from '../views/review/review-keys';
+import { actionFor, REASON_KEYS, type ReviewAction } from '../components/review/review-keys';
 
 /** True when a key press belongs to a field being typed in, not to the screen. */
 function typingIn(target: EventTarget | null): boolean {

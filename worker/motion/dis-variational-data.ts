@@ -14,11 +14,13 @@ export const ZETA = 0.1;
 export const EPSILON = 0.001;
 
 /**
- * Per pixel: Ix, Iy, Iz, 1/nc, Ixx, Ixy, Iyy, Ixz, Iyz, 1/nx, 1/ny, then the gradient-constancy products
- * (Ixx²/nx + Ixy²/ny, Ixx·Ixy/nx + Ixy·Iyy/ny, Ixy²/nx + Iyy²/ny, Ixx·Ixz/nx + Ixy·Iyz/ny,
- * Ixy·Ixz/nx + Iyy·Iyz/ny), with nc = Ix² + Iy² + ζ², nx = Ixx² + Ixy² + ζ², ny = Iyy² + Ixy² + ζ².
+ * Per pixel, each constancy equation pre-divided by the square root of its normaliser so that the penalties
+ * become plain squares: Ix, Iy, Iz over √nc; Ixx, Ixy, Ixz over √nx; Ixy, Iyy, Iyz over √ny; then the
+ * gradient-constancy products of those (the x- and y-equations summed): for (du, du), (du, dv), (dv, dv) and the
+ * right-hand sides of du and dv. nc = Ix² + Iy² + ζ², nx = Ixx² + Ixy² + ζ², ny = Iyy² + Ixy² + ζ² (OpenCV's
+ * derivNorm and derivNorm2).
  */
-export const DATA_TERMS = 16;
+export const DATA_TERMS = 14;
 
 function differenceX(src: Float32Array, w: number, h: number, dst: Float32Array): void {
   for (let y = 0; y < h; y++) {
@@ -88,25 +90,30 @@ export function dataTerms(
       const yy = iy[down + x] - iy[up + x];
       const xz = dzx[p];
       const yz = iz[down + x] - iz[up + x];
-      const inverseX = 1 / (xx * xx + xy * xy + zeta2);
-      const inverseY = 1 / (yy * yy + xy * xy + zeta2);
+      const colourScale = 1 / Math.sqrt(gx * gx + gy * gy + zeta2);
+      const xScale = 1 / Math.sqrt(xx * xx + xy * xy + zeta2);
+      const yScale = 1 / Math.sqrt(yy * yy + xy * xy + zeta2);
+      const qxx = xx * xScale;
+      const qxy = xy * xScale;
+      const qxz = xz * xScale;
+      const rxy = xy * yScale;
+      const ryy = yy * yScale;
+      const ryz = yz * yScale;
       const t = DATA_TERMS * p;
-      terms[t] = gx;
-      terms[t + 1] = gy;
-      terms[t + 2] = iz[p];
-      terms[t + 3] = 1 / (gx * gx + gy * gy + zeta2);
-      terms[t + 4] = xx;
-      terms[t + 5] = xy;
-      terms[t + 6] = yy;
-      terms[t + 7] = xz;
-      terms[t + 8] = yz;
-      terms[t + 9] = inverseX;
-      terms[t + 10] = inverseY;
-      terms[t + 11] = xx * xx * inverseX + xy * xy * inverseY;
-      terms[t + 12] = xx * xy * inverseX + xy * yy * inverseY;
-      terms[t + 13] = xy * xy * inverseX + yy * yy * inverseY;
-      terms[t + 14] = xx * xz * inverseX + xy * yz * inverseY;
-      terms[t + 15] = xy * xz * inverseX + yy * yz * inverseY;
+      terms[t] = gx * colourScale;
+      terms[t + 1] = gy * colourScale;
+      terms[t + 2] = iz[p] * colourScale;
+      terms[t + 3] = qxx;
+      terms[t + 4] = qxy;
+      terms[t + 5] = qxz;
+      terms[t + 6] = rxy;
+      terms[t + 7] = ryy;
+      terms[t + 8] = ryz;
+      terms[t + 9] = qxx * qxx + rxy * rxy;
+      terms[t + 10] = qxx * qxy + rxy * ryy;
+      terms[t + 11] = qxy * qxy + ryy * ryy;
+      terms[t + 12] = qxx * qxz + rxy * ryz;
+      terms[t + 13] = qxy * qxz + ryy * ryz;
     }
   }
 }

@@ -22,7 +22,7 @@ export interface RefinementWeights {
   iterations: number;
 }
 
-const SOR_SWEEPS = 5;
+const SOR_SWEEPS = Number(process.env.SOR ?? 5);
 const OMEGA = 1.6;
 
 // Per pixel of the ringed layout, in one interleaved array so the sweeps keep a single base pointer: the starting
@@ -102,17 +102,16 @@ function buildSystemAndSweep(
       const ix = terms[t];
       const iy = terms[t + 1];
       const iz = terms[t + 2];
-      const inverseNorm = terms[t + 3];
       const brightness = iz + ix * d + iy * e;
-      const kx = terms[t + 7] + terms[t + 4] * d + terms[t + 5] * e;
-      const ky = terms[t + 8] + terms[t + 5] * d + terms[t + 6] * e;
+      const kx = terms[t + 5] + terms[t + 3] * d + terms[t + 4] * e;
+      const ky = terms[t + 8] + terms[t + 6] * d + terms[t + 7] * e;
       // The three Charbonnier weights c/√X share one division: 1/√Xᵢ = (Πⱼ≠ᵢ √Xⱼ) / Π √X.
       const rootSmooth = Math.sqrt(gradient);
-      const rootColour = Math.sqrt(brightness * brightness * inverseNorm + eps2);
-      const rootConstancy = Math.sqrt(kx * kx * terms[t + 9] + ky * ky * terms[t + 10] + eps2);
+      const rootColour = Math.sqrt(brightness * brightness + eps2);
+      const rootConstancy = Math.sqrt(kx * kx + ky * ky + eps2);
       const inverseProduct = 1 / (rootSmooth * rootColour * rootConstancy);
       const smooth = halfAlpha * rootColour * rootConstancy * inverseProduct;
-      const colour = halfDelta * inverseNorm * rootSmooth * rootConstancy * inverseProduct;
+      const colour = halfDelta * rootSmooth * rootConstancy * inverseProduct;
       const constancy = halfGamma * rootSmooth * rootColour * inverseProduct;
       const right = x < w - 1 ? smooth : 0;
       const below = inner ? smooth : 0;
@@ -120,22 +119,22 @@ function buildSystemAndSweep(
       const aboveU0 = records[r - down + U0];
       const aboveV0 = records[r - down + V0];
       const neighbours = left + right + above + below;
-      const a11 = colour * ix * ix + zeta2 + constancy * terms[t + 11] + neighbours;
-      const a22 = colour * iy * iy + zeta2 + constancy * terms[t + 13] + neighbours;
+      const a11 = colour * ix * ix + zeta2 + constancy * terms[t + 9] + neighbours;
+      const a22 = colour * iy * iy + zeta2 + constancy * terms[t + 11] + neighbours;
       const gains = OMEGA / (a11 * a22);
       const gainU = a22 * gains;
       const gainV = a11 * gains;
-      const coupling = colour * ix * iy + constancy * terms[t + 12];
+      const coupling = colour * ix * iy + constancy * terms[t + 10];
       const b1 =
         -colour * iz * ix -
-        constancy * terms[t + 14] +
+        constancy * terms[t + 12] +
         left * (leftU0 - u0) +
         right * (rightU0 - u0) +
         above * (aboveU0 - u0) +
         below * (belowU0 - u0);
       const b2 =
         -colour * iz * iy -
-        constancy * terms[t + 15] +
+        constancy * terms[t + 13] +
         left * (leftV0 - v0) +
         right * (rightV0 - v0) +
         above * (aboveV0 - v0) +

@@ -5,6 +5,7 @@ import { requestReconcile } from '../../server/services/reconcile-requests';
 import { utcDay } from '../jobs/reconcile-usage';
 
 const CHECK_EVERY_MS = 10 * 60_000;
+const REMEASURE_AFTER_MS = 6 * 3600_000;
 
 /**
  * The worker's recurring work: once a day (UTC), when no usage snapshot exists yet for today, it queues the
@@ -14,11 +15,15 @@ const CHECK_EVERY_MS = 10 * 60_000;
 export function startDailySchedule(): () => void {
   const check = async () => {
     try {
-      if (!(await UsageSnapshot.findOne({ where: { day: utcDay() }, attributes: ['id'] }))) {
+      const today = await UsageSnapshot.findOne({ where: { day: utcDay() }, attributes: ['id', 'takenAt'] });
+      if (!today) {
         // Purges first, so the day's snapshot already counts the bytes they free.
         for (const project of await Project.findAll({ where: { retentionDays: { [Op.ne]: null } } })) {
           if ((await retentionCandidates(project.id)).clips.length > 0) await requestRetentionRun(project.id, null);
         }
+        await requestReconcile('scheduled', null);
+      } else if (Date.now() - today.takenAt.getTime() > REMEASURE_AFTER_MS) {
+        // Today's figures are refreshed a few times a day, so the dashboard by kind never lags far behind.
         await requestReconcile('scheduled', null);
       }
     } catch (error) {

@@ -1,7 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { densify, densifyBufferLength } from '../../../worker/motion/dis-densify.js';
 import { inverseSearch, type PatchVectors, type SearchFrames } from '../../../worker/motion/dis-inverse-search.js';
-import { halveArea, padReplicate, patchSource, upsampleBufferLength, upsampleFlow } from '../../../worker/motion/dis-levels.js';
+import {
+  halveArea,
+  padReplicate,
+  patchSource,
+  upsampleBufferLength,
+  upsampleFlow,
+} from '../../../worker/motion/dis-levels.js';
 import { PATCH_TERMS, patchGrid, patchTerms } from '../../../worker/motion/dis-patch-grid.js';
 import { refineField } from '../../../worker/motion/dis-variational.js';
 import { averageErrors } from '../../../worker/motion/error-measures.js';
@@ -176,5 +182,4 @@ describe('dis variational refinement', () => {
     expect(before).toBeGreaterThan(0.25);
     expect(interiorError()).toBeLessThan(0.028);
   });
-});
 });
