@@ -10,7 +10,8 @@ import { sampleStage } from '../pipeline/sample-stage';
 import { signalsStage } from '../pipeline/signals-stage';
 import type { PipelineStage } from '../pipeline/stage';
 import { viewsStage } from '../pipeline/views-stage';
-import { clipFolderBytes, openWorkDir, removeLeftoverWorkDirs, type WorkDir } from '../pipeline/work-dir';
+import { openWorkDir, removeLeftoverWorkDirs, type WorkDir } from '../pipeline/work-dir';
+import { clipFolderUsage } from '../../server/storage/disk-usage';
 import { enterJobStage, finishJob, reportJobProgress, type Lease } from './claim';
 import type { Handler, JobContext } from './handler';
 import { LeaseLostError } from './job-errors';
@@ -65,7 +66,8 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
       workDir: async () => (work ??= await openWorkDir(clipDir, stage.name)),
       async commit(write) {
         await progress.settled();
-        const storedBytes = await clipFolderBytes(clipDir);
+        // The same measure the reconcile-usage job uses, so the two never disagree.
+        const storedBytes = (await clipFolderUsage(clipDir)).total;
         await Clip.sequelize!.transaction(async (transaction) => {
           const held = next
             ? await enterJobStage(context.lease, next.name, transaction)

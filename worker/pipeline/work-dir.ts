@@ -45,23 +45,6 @@ export async function removeLeftoverWorkDirs(clipDir: string): Promise<void> {
     .map((name) => fs.promises.rm(path.join(clipDir, name), { recursive: true, force: true })));
 }
 
-/** Bytes of a clip folder as it stands, leaving out work folders (they are about to go). */
-export async function clipFolderBytes(clipDir: string): Promise<number> {
-  return folderBytes(clipDir, (name) => !name.startsWith(WORK_DIR_PREFIX));
-}
-
-async function folderBytes(dir: string, keep: (name: string) => boolean = () => true): Promise<number> {
-  const entries = await fs.promises.readdir(dir, { withFileTypes: true }).catch(() => []);
-  let total = 0;
-  for (const entry of entries) {
-    if (!keep(entry.name)) continue;
-    const full = path.join(dir, entry.name);
-    if (entry.isDirectory()) total += await folderBytes(full);
-    else if (entry.isFile()) total += (await fs.promises.stat(full)).size;
-  }
-  return total;
-}
-
 async function moveAside(from: string, to: string): Promise<void> {
   try {
     await fs.promises.rename(from, to);
