@@ -1,11 +1,12 @@
 // Densification, the second step of DIS on each pyramid level: every pixel's vector is the weighted mean of the
 // vectors of all patches that cover it, each weighted by how well it explains that pixel, 1/max(1, |d|) with d
 // the brightness difference between the second frame at the displaced pixel and the first frame.
-// Source: T. Kroeger, R. Timofte, D. Dai, L. Van Gool, "Fast Optical Flow using Dense Inverse Search", ECCV 2016
-// (§2.1, eq. 3); the weight floor of 1 grey level and the edge rule (pixels past the last patch take it) are
-// those of OpenCV's DISOpticalFlow (video/src/dis_flow.cpp).
+// Source: T. Kroeger, R. Timofte, D. Dai, L. Van Gool, "Fast Optical Flow using Dense Inverse Search", ECCV 2016;
+// the weight floor of 1 grey level and the edge rule (pixels past the last patch take it) are those of OpenCV's
+// DISOpticalFlow (video/src/dis_flow.cpp).
 // OpenCV gathers per pixel; here each patch scatters into its pixels, so a patch's bilinear weights are computed
-// once and each row of the second frame is interpolated once (the sums are the same).
+// once and each row of the second frame is interpolated once (the same sums, except for patches displaced
+// wholly out of the frame, which are clamped as a whole).
 
 import { land, type Landing, type SearchFrames } from './dis-inverse-search.js';
 import type { PatchGrid } from './dis-patch-grid.js';
@@ -65,7 +66,9 @@ export function densify(
           const above = line[c];
           line[c] = below;
           const d = Math.abs(above + fy * (below - above) - source[3 * (row + c)]);
-          const weight = d > 1 ? 1 / d : 1;
+          // 1/max(1, d) without a branch: whether d > 1 is a coin toss, and mispredicted branches cost more here
+          // than the arithmetic. max(1, d) = (d + 1 + |d − 1|)/2.
+          const weight = 2 / (d + 1 + Math.abs(d - 1));
           const o = 3 * (row + c);
           sums[o] += weight * pu;
           sums[o + 1] += weight * pv;

@@ -2,15 +2,19 @@
 // displacement that best matches it in the second frame by inverse-compositional Lucas–Kanade (Gauss–Newton
 // with the first frame's gradients, so the tensor is fixed per patch), starting from the coarser level's field.
 // Sources: T. Kroeger, R. Timofte, D. Dai, L. Van Gool, "Fast Optical Flow using Dense Inverse Search", ECCV
-// 2016 (§2.1); S. Baker, I. Matthews, "Lucas-Kanade 20 Years On: A Unifying Framework", IJCV 56(3), 2004
+// 2016; S. Baker, I. Matthews, "Lucas-Kanade 20 Years On: A Unifying Framework", IJCV 56(3), 2004
 // (the inverse-compositional update). As in OpenCV's DISOpticalFlow (video/src/dis_flow.cpp), the grid is
 // swept twice, forward then backward, each sweep with half the iterations, and before descending a patch also
 // tries the vectors of its already-visited neighbours (spatial propagation); a result more than a patch side
-// away from its start is discarded. Unlike OpenCV, a step that makes the distance grow is undone.
+// away from its start is discarded. Unlike OpenCV, the step is the full Gauss–Newton step on unit-gain gradients
+// (the authors' code scales its Sobel by 1/8 too), a step that makes the distance grow is undone, descent stops
+// at steps under MIN_STEP, and the second sweep leaves a patch that settled alone unless a neighbour's vector fits
+// it better. Without the undo the full steps overshoot (measured: AEE 1.64 instead of 0.69 px on the large-motion
+// pair of dis.test.ts); the other two only save patch evaluations.
 
 import { PATCH_TERMS, type PatchGrid } from './dis-patch-grid.js';
 
-// Descent stops once a step is shorter than this (pixels): further steps would change the result by less.
+// Descent stops once a step is shorter than this (pixels of the level): further steps change little.
 const MIN_STEP = 0.01;
 // Neighbours' vectors closer than this to a patch's start (pixels) are not tried.
 const MIN_CANDIDATE_DISTANCE = 0.05;

@@ -39,9 +39,9 @@ export function padReplicate(src: Float32Array, w: number, h: number, border: nu
 
 /**
  * The first frame as the patch search reads it: per pixel I, ∂I/∂x, ∂I/∂y, interleaved. The derivatives are the
- * Sobel operator scaled to unit gain ([1, 2, 1]/4 across, [−1, 0, 1]/2 along), so a ramp of slope 1 gives 1 and
- * a Gauss–Newton step on them is in pixels; the smoothing across the derivative direction is OpenCV's
- * (spatialGradient, the 3×3 Sobel).
+ * 3×3 Sobel operator scaled to unit gain ([1, 2, 1]/4 across, [−1, 0, 1]/2 along), so a ramp of slope 1 gives 1
+ * and a Gauss–Newton step on them is in pixels, as in the DIS authors' code (tikroeger/OF_DIS, run_dense.cpp:
+ * Sobel with scale 1/8).
  */
 export function patchSource(image: Float32Array, w: number, h: number, out: Float32Array): void {
   for (let y = 0; y < h; y++) {
@@ -96,15 +96,38 @@ export function warpPlanar(
   }
 }
 
-/** Floats upsampleFlow needs in its `rows` buffer. */
-export function upsampleBufferLength(srcHeight: number, dstWidth: number): number {
-  return 2 * srcHeight * dstWidth;
+/** Floats upsampleFlow needs in its `lines` buffer. */
+export function upsampleBufferLength(dstWidth: number): number {
+  return 4 * dstWidth;
+}
+
+/** Source row y widened to the destination width, u and v interleaved and multiplied by the factor. */
+function widenRow(
+  u: Float32Array,
+  v: Float32Array,
+  sw: number,
+  y: number,
+  columns: Int32Array,
+  weights: Float64Array,
+  factor: number,
+  line: Float32Array,
+): void {
+  const row = y * sw;
+  const last = row + sw - 1;
+  for (let x = 0, o = 0; x < columns.length; x++, o += 2) {
+    const a = row + columns[x];
+    const b = a < last ? a + 1 : a;
+    const f = weights[x];
+    line[o] = (u[a] + f * (u[b] - u[a])) * factor;
+    line[o + 1] = (v[a] + f * (v[b] - v[a])) * factor;
+  }
 }
 
 /**
  * Bilinear upsampling of a planar field by `factor` (a power of two, the ratio between pyramid levels):
  * destination pixel x reads the source at (x + ½)/factor − ½, clamped to the source, and the vectors are
- * multiplied by `factor`. Separable: source rows are widened into `rows`, then blended down the columns.
+ * multiplied by `factor`. Separable: each source row is widened once into one of two lines (`lines` holds
+ * upsampleBufferLength floats), and destination rows blend the two lines around them.
  * u goes to dstU[i·step] and v to dstV[i·step]; pass `out` and `out.subarray(1)` with step 2 for an interleaved
  * result.
  */
@@ -114,7 +137,7 @@ export function upsampleFlow(
   sw: number,
   sh: number,
   factor: number,
-  rows: Float32Array,
+  lines: Float32Array,
   dstU: Float32Array,
   dstV: Float32Array,
   dw: number,
@@ -124,34 +147,39 @@ export function upsampleFlow(
   const inverse = 1 / factor;
   const lastX = sw - 1;
   const lastY = sh - 1;
-  // Widened rows, u and v interleaved, already multiplied by the factor.
+  // Per destination column: the left source column and the right one's weight (small, so made per call).
+  const columns = new Int32Array(dw);
+  const weights = new Float64Array(dw);
   for (let x = 0; x < dw; x++) {
     let sx = (x + 0.5) * inverse - 0.5;
     sx = sx < 0 ? 0 : sx > lastX ? lastX : sx;
-    const x0 = Math.floor(sx);
-    const x1 = x0 < lastX ? x0 + 1 : x0;
-    const f = sx - x0;
-    for (let y = 0; y < sh; y++) {
-      const a = y * sw + x0;
-      const b = y * sw + x1;
-      const o = 2 * (y * dw + x);
-      rows[o] = (u[a] + f * (u[b] - u[a])) * factor;
-      rows[o + 1] = (v[a] + f * (v[b] - v[a])) * factor;
-    }
+    columns[x] = Math.floor(sx);
+    weights[x] = sx - columns[x];
   }
+  const slots = [lines.subarray(0, 2 * dw), lines.subarray(2 * dw, 4 * dw)];
+  const held = [-1, -1];
+  const line = (y: number): Float32Array => {
+    const slot = held[0] === y ? 0 : held[1] === y ? 1 : -1;
+    if (slot >= 0) return slots[slot];
+    // Replace the slot holding the lower row: rows only move down.
+    const free = held[0] < held[1] ? 0 : 1;
+    widenRow(u, v, sw, y, columns, weights, factor, slots[free]);
+    held[free] = y;
+    return slots[free];
+  };
   for (let y = 0; y < dh; y++) {
     let sy = (y + 0.5) * inverse - 0.5;
     sy = sy < 0 ? 0 : sy > lastY ? lastY : sy;
     const y0 = Math.floor(sy);
-    const top = 2 * y0 * dw;
-    const bottom = y0 < lastY ? top + 2 * dw : top;
     const f = sy - y0;
+    const top = line(y0);
+    const bottom = y0 < lastY ? line(y0 + 1) : top;
     let o = y * dw * step;
     for (let x = 0; x < 2 * dw; x += 2, o += step) {
-      const uTop = rows[top + x];
-      const vTop = rows[top + x + 1];
-      dstU[o] = uTop + f * (rows[bottom + x] - uTop);
-      dstV[o] = vTop + f * (rows[bottom + x + 1] - vTop);
+      const uTop = top[x];
+      const vTop = top[x + 1];
+      dstU[o] = uTop + f * (bottom[x] - uTop);
+      dstV[o] = vTop + f * (bottom[x + 1] - vTop);
     }
   }
 }

@@ -7,8 +7,8 @@
 
 /** Per patch: (H⁻¹)₁₁, (H⁻¹)₁₂, (H⁻¹)₂₂, mean ∂I/∂x, mean ∂I/∂y. */
 export const PATCH_TERMS = 5;
-// Determinants below this (grey levels⁴ per pixel²) are raised to it, as OpenCV does with its EPS, so a patch
-// without texture takes a bounded step that the distance check then rejects.
+// Determinants below this (grey levels⁴ per pixel⁴) are raised to it, as OpenCV does with its EPS, so a patch
+// without texture gets a finite step, which its own distance check or the patch-side limit then refuses.
 const MIN_DETERMINANT = 1e-3;
 
 export interface PatchGrid {
@@ -28,9 +28,9 @@ export function patchGrid(width: number, height: number, size: number, stride: n
 
 /**
  * Writes PATCH_TERMS values per patch into `terms` from the first frame's gradients (`source`: I, ∂I/∂x, ∂I/∂y
- * per pixel, as dis-levels.ts patchSource writes them). `rowSums` holds
- * 5 · height · grid.cols floats. With `centred`, the tensor is Σ(∇I − mean)(∇I − mean)ᵀ, the Gauss–Newton
- * matrix of the mean-normalised patch distance; otherwise Σ∇I∇Iᵀ.
+ * per pixel, as dis-levels.ts patchSource writes them). `rowSums` holds 5 · height · grid.cols floats. With
+ * `centred`, the tensor is Σ(∇I − mean)(∇I − mean)ᵀ, the Gauss–Newton matrix of the mean-normalised patch
+ * distance; otherwise Σ∇I∇Iᵀ.
  */
 export function patchTerms(
   source: Float32Array,

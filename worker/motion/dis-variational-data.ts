@@ -2,7 +2,7 @@
 // robust (Charbonnier) penalty and normalised by the local gradient strength, linearised around the field the
 // level starts with. Sources: T. Brox, A. Bruhn, N. Papenberg, J. Weickert, "High Accuracy Optical Flow
 // Estimation Based on a Theory for Warping", ECCV 2004 (the energy); T. Kroeger et al., "Fast Optical Flow
-// using Dense Inverse Search", ECCV 2016 (§2.2, used as the last step of every level); the normalisation,
+// using Dense Inverse Search", ECCV 2016, where it is the last step of every level; the normalisation,
 // constants and derivative filters of OpenCV's VariationalRefinement (video/src/variational_refinement.cpp):
 // derivatives are plain differences I(x+1) − I(x−1) (its Sobel with ksize 1), which its weights are tuned for.
 
@@ -15,12 +15,10 @@ export const EPSILON = 0.001;
 
 /**
  * Per pixel, each constancy equation pre-divided by the square root of its normaliser so that the penalties
- * become plain squares: Ix, Iy, Iz over √nc; Ixx, Ixy, Ixz over √nx; Ixy, Iyy, Iyz over √ny; then the
- * gradient-constancy products of those (the x- and y-equations summed): for (du, du), (du, dv), (dv, dv) and the
- * right-hand sides of du and dv. nc = Ix² + Iy² + ζ², nx = Ixx² + Ixy² + ζ², ny = Iyy² + Ixy² + ζ² (OpenCV's
- * derivNorm and derivNorm2).
+ * become plain squares: Ix, Iy, Iz over √nc; Ixx, Ixy, Ixz over √nx; Ixy, Iyy, Iyz over √ny, with
+ * nc = Ix² + Iy² + ζ², nx = Ixx² + Ixy² + ζ², ny = Iyy² + Ixy² + ζ² (OpenCV's derivNorm and derivNorm2).
  */
-export const DATA_TERMS = 14;
+export const DATA_TERMS = 9;
 
 function differenceX(src: Float32Array, w: number, h: number, dst: Float32Array): void {
   for (let y = 0; y < h; y++) {
@@ -109,11 +107,6 @@ export function dataTerms(
       terms[t + 6] = rxy;
       terms[t + 7] = ryy;
       terms[t + 8] = ryz;
-      terms[t + 9] = qxx * qxx + rxy * rxy;
-      terms[t + 10] = qxx * qxy + rxy * ryy;
-      terms[t + 11] = qxy * qxy + ryy * ryy;
-      terms[t + 12] = qxx * qxz + rxy * ryz;
-      terms[t + 13] = qxy * qxz + ryy * ryz;
     }
   }
 }

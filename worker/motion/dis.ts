@@ -55,7 +55,7 @@ export const DIS_PRESETS: Readonly<Record<DisPreset, Readonly<DisParams>>> = Obj
   medium: Object.freeze({ ...COMMON, finestScale: 1, patchStride: 3, descentIterations: 25 }),
 });
 
-/** The medium preset: accuracy close to OpenCV's DIS medium at a fraction of Farnebäck's time. */
+/** The medium preset. The refinement's inner SOR sweeps (3) are fixed in dis-variational.ts. */
 export const DIS_DEFAULTS: Readonly<DisParams> = DIS_PRESETS.medium;
 
 const MAX_SCALE = 10;
@@ -192,17 +192,17 @@ export function estimateDis(
       u.fill(0);
       v.fill(0);
     } else {
-      const rows = workspace.float32('dis.upsample', upsampleBufferLength(coarser.height, level.width));
+      const lines = workspace.float32('dis.upsample', upsampleBufferLength(level.width));
       const { width: cw, height: ch } = coarser;
-      upsampleFlow(coarser.u, coarser.v, cw, ch, 2, rows, u, v, level.width, level.height, 1);
+      upsampleFlow(coarser.u, coarser.v, cw, ch, 2, lines, u, v, level.width, level.height, 1);
     }
     searchLevel(level, u, v, params, workspace);
     refineField(level.prev, level.next, level.width, level.height, u, v, refinement, workspace);
     coarser = { u, v, width: level.width, height: level.height };
   }
   const last = coarser as NonNullable<typeof coarser>;
-  const rows = workspace.float32('dis.upsample', upsampleBufferLength(last.height, width));
+  const lines = workspace.float32('dis.upsample', upsampleBufferLength(width));
   const factor = 2 ** finest;
-  upsampleFlow(last.u, last.v, last.width, last.height, factor, rows, result, result.subarray(1), width, height, 2);
+  upsampleFlow(last.u, last.v, last.width, last.height, factor, lines, result, result.subarray(1), width, height, 2);
   return result;
 }

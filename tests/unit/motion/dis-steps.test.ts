@@ -72,7 +72,7 @@ describe('dis levels', () => {
     const u = Float32Array.from([0, 1, 2, 3, 0, 1, 2, 3]);
     const v = new Float32Array(8).fill(-1);
     const out = new Float32Array(2 * 8 * 4);
-    upsampleFlow(u, v, 4, 2, 2, new Float32Array(upsampleBufferLength(2, 8)), out, out.subarray(1), 8, 4, 2);
+    upsampleFlow(u, v, 4, 2, 2, new Float32Array(upsampleBufferLength(8)), out, out.subarray(1), 8, 4, 2);
     const firstRowU = Array.from({ length: 8 }, (_, x) => out[2 * x]);
     expect(firstRowU).toEqual([0, 0.5, 1.5, 2.5, 3.5, 4.5, 5.5, 6]);
     expect(out.filter((_, i) => i % 2 === 1).every((value) => value === -2)).toBe(true);
@@ -178,8 +178,8 @@ describe('dis variational refinement', () => {
     };
     const before = interiorError();
     refineField(prev, next, width, height, u, v, weights, new MotionWorkspace());
-    // Measured: interior AEE 0.288 px before, 0.0188 px after.
+    // Measured: interior AEE 0.288 px before, 0.0232 px after.
     expect(before).toBeGreaterThan(0.25);
-    expect(interiorError()).toBeLessThan(0.028);
+    expect(interiorError()).toBeLessThan(0.035);
   });
 });

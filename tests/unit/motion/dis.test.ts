@@ -12,11 +12,11 @@ import { BORDER, MOTION_CASES, SEED } from './motion-cases.js';
 // each preset (measured values in the comments); the medium preset on these pairs is also in estimators.test.ts.
 
 const FAST_LIMITS: Record<string, number> = {
-  'shift (0.5, 0.25)': 0.01, // measured 0.0066
-  'shift (2.5, −1.5)': 0.123, // measured 0.0819
-  'rotation 2°': 0.2, // measured 0.1334
-  'zoom 1.03': 0.167, // measured 0.1113
-  'shift (5.5, −3.25)': 0.126, // measured 0.0840
+  'shift (0.5, 0.25)': 0.0145, // measured 0.0096
+  'shift (2.5, −1.5)': 0.137, // measured 0.0911
+  'rotation 2°': 0.2, // measured 0.1364
+  'zoom 1.03': 0.17, // measured 0.1149
+  'shift (5.5, −3.25)': 0.157, // measured 0.1047
 };
 
 // A motion of tens of pixels, far beyond the reach of one linearisation: 27.5 px right and 18.25 px up at
@@ -77,10 +77,10 @@ describe('dis on a large motion (27.5, −18.25) px at 320×240', () => {
   const { width, height, dx, dy } = LARGE;
   const pair = makeMotionPair(width, height, { kind: 'shift', dx, dy }, SEED);
   const workspace = new MotionWorkspace();
-  // Measured: medium AEE 0.694 over all pixels (those whose content leaves the frame included), 0.0208 inside;
-  // fast 1.012 and 0.0892. OpenCV's own DIS on these frames rounded to 8 bits, over all pixels: medium 0.497,
+  // Measured: medium AEE 0.701 over all pixels (those whose content leaves the frame included), 0.0219 inside;
+  // fast 1.046 and 0.1006. OpenCV's own DIS on these frames rounded to 8 bits, over all pixels: medium 0.497,
   // fast 0.439 (shared/tools/opencv-reference.py).
-  const limits = { medium: { all: 3, interior: 0.031 }, fast: { all: 3, interior: 0.134 } };
+  const limits = { medium: { all: 3, interior: 0.033 }, fast: { all: 3, interior: 0.15 } };
   for (const preset of ['medium', 'fast'] as const) {
     it(`${preset}: AEE ≤ 3 px over the frame and < ${limits[preset].interior} px inside`, () => {
       const flow = estimateDis(pair.prev, pair.next, width, height, DIS_PRESETS[preset], workspace);
