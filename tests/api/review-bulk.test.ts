@@ -1,7 +1,8 @@
 import { Op } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, Project, Verdict, type User } from '../../server/models';
+import { AuditEvent, Clip, Job, Verdict, type User } from '../../server/models';
 import type { BulkResult } from '../../shared/types/review';
+import { castForReview } from '../helpers/review-cast';
 import { insertReviewClip, reviewClipRow } from '../helpers/review-clips';
 import { addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 
@@ -23,22 +24,9 @@ const outcomes = (results: BulkResult[]) => Object.fromEntries(results.map((r) =
 
 beforeAll(async () => {
   server = await startTestServer();
-  uploader = await addUser(server, 'operator');
+  ({ uploader: uploader, curatorUser, operator, engineer, curator, secondCurator, admin, projectId } =
+    await castForReview(server, 'Bulk'));
   otherUploader = await addUser(server, 'operator', 'second-operator@example.test');
-  await addUser(server, 'engineer');
-  curatorUser = await addUser(server, 'curator');
-  const second = await addUser(server, 'curator', 'second-curator@example.test');
-  await second.update({ name: 'Second curator' });
-  await addUser(server, 'admin');
-  operator = await signedInAgent(server, 'operator@example.test');
-  engineer = await signedInAgent(server, 'engineer@example.test');
-  curator = await signedInAgent(server, 'curator@example.test');
-  secondCurator = await signedInAgent(server, 'second-curator@example.test');
-  admin = await signedInAgent(server, 'admin@example.test');
-  projectId = (await Project.create({
-    name: 'Bulk', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1],
-    flagThresholds: {},
-  })).id;
 });
 afterAll(async () => {
   await server.close();

@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, Project, Verdict, type User } from '../../server/models';
+import { AuditEvent, Clip, Job, Verdict, type User } from '../../server/models';
+import { castForReview } from '../helpers/review-cast';
 import { insertReviewClip } from '../helpers/review-clips';
-import { addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+import { agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 
 type SignedIn = Awaited<ReturnType<typeof signedInAgent>>;
 let server: TestServer;
@@ -27,21 +28,8 @@ async function ageVerdicts(clipId: number, hours: number): Promise<void> {
 
 beforeAll(async () => {
   server = await startTestServer();
-  uploader = await addUser(server, 'operator');
-  await addUser(server, 'engineer');
-  curatorUser = await addUser(server, 'curator');
-  const second = await addUser(server, 'curator', 'second-curator@example.test');
-  await second.update({ name: 'Second curator' });
-  await addUser(server, 'admin');
-  operator = await signedInAgent(server, 'operator@example.test');
-  engineer = await signedInAgent(server, 'engineer@example.test');
-  curator = await signedInAgent(server, 'curator@example.test');
-  secondCurator = await signedInAgent(server, 'second-curator@example.test');
-  admin = await signedInAgent(server, 'admin@example.test');
-  projectId = (await Project.create({
-    name: 'Verdicts', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1],
-    flagThresholds: {},
-  })).id;
+  ({ uploader: uploader, curatorUser, operator, engineer, curator, secondCurator, admin, projectId } =
+    await castForReview(server, 'Verdicts'));
 });
 afterAll(async () => {
   await server.close();
