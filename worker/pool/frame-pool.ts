@@ -33,6 +33,9 @@ export function createFramePool(threads = os.availableParallelism()): FramePool 
     // cost a thread start and the thread's motion buffers.
     idleTimeout: IDLE_THREAD_MS,
   });
+  // A task aborted (its clip was removed) while its answer was already on the way back comes home to no one; piscina
+  // reports that as an 'error' event, which without a listener would end the whole worker process.
+  pool.on('error', (error: Error) => console.warn(`Kinefold worker: frame pool: ${error.message.split('\n')[0]}`));
   return {
     measureFrame: (task, signal) => pool.run({ kind: 'measure', ...task }, { signal }),
     writeFrameViews: (task, signal) => pool.run({ kind: 'views', ...task }, { signal }),
