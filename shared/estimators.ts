@@ -2,4 +2,4 @@
 export const ESTIMATORS = ['farneback', 'horn-schunck', 'lucas-kanade', 'dis'] as const;
 export type EstimatorName = (typeof ESTIMATORS)[number];
 
-export const DEFAULT_ESTIMATOR: EstimatorName = 'farneback';
+export const DEFAULT_ESTIMATOR: EstimatorName = 'dis';

@@ -32,7 +32,7 @@ describe('projects', () => {
       .send({ name: 'Terrace rows', description: 'Spring pass', quotaBytes: 5_000_000 }).expect(201);
     expect(response.body).toMatchObject({
       name: 'Terrace rows', quotaBytes: 5_000_000, archived: false, usedBytes: 0, clipCount: 0,
-      settings: { sampleFps: 5, workingSize: 320, deltas: [1, 2, 4], estimator: 'farneback' },
+      settings: { sampleFps: 5, workingSize: 320, deltas: [1, 2, 4], estimator: 'dis' },
     });
     expect(response.body.settings.flagThresholds.blurryLaplacianVariance).toBe(100);
     expect(await AuditEvent.count({ where: { action: 'project.create' } })).toBe(1);

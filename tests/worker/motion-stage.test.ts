@@ -25,7 +25,7 @@ const PAN_PER_SOURCE_FRAME = 2;
 // Known motion [C]: 25/5 = 5 source frames per sampled step, 2 px each, scaled by 320/640: the content moves
 // 5 px to the left per step, u = −5, v = 0 (the window moves right, so the picture moves left).
 const PAN_U = -PAN_PER_SOURCE_FRAME * (SOURCE_FPS / SAMPLE_FPS) * (WORKING_SIZE / CROP.width);
-const SETTINGS = { sampleFps: SAMPLE_FPS, workingSize: WORKING_SIZE };
+const SETTINGS = { sampleFps: SAMPLE_FPS, workingSize: WORKING_SIZE, estimator: 'farneback' as const };
 
 let server: TestServer;
 let worker: TestRuntime;
