@@ -4,7 +4,7 @@ import { fileURLToPath } from 'node:url';
 import { createApp } from './app';
 import { loadConfig } from './config';
 import { openKinefoldDatabase } from './db/open';
-import { demoSeeded, seedDemoCampaign } from './demo/seed';
+import { runDemoCampaign } from './demo/campaign';
 import { startMail } from './mail';
 import { cleanStaleUploads } from './services/storage-hygiene';
 import { storagePaths } from './storage/paths';
@@ -24,11 +24,12 @@ console.log(mail.fakeSmtp
     + 'every message for the mail log.'
   : 'Kinefold mail: sending through SMTP_URL.');
 
+const demoStop = new AbortController();
 const server = kinefold.app.listen(config.port, () => {
   console.log(`Kinefold server listening on http://localhost:${config.port} (storage: ${config.storageDir})`);
   // The demo footage is rendered by ffmpeg child processes, so the server answers requests meanwhile.
   if (config.demo === 'full') {
-    void demoSeeded().then((seeded) => (seeded ? undefined : seedDemoCampaign(config)))
+    runDemoCampaign(config, demoStop.signal)
       .catch((error: unknown) => console.error('Kinefold demo: seeding stopped', error));
   }
 });
@@ -38,6 +39,7 @@ function stop(signal: string): void {
   if (stopping) return;
   stopping = true;
   console.log(`Kinefold server: ${signal} received, closing.`);
+  demoStop.abort();
   kinefold.close();
   server.close(() => {
     // A message in flight finishes before the database closes; anything not yet sent waits in the outbox.

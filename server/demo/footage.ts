@@ -13,13 +13,13 @@ const FRAME = { width: 640, height: 360, rate: 25 };
  * A large foliage-like texture: layered sines in green and brown with fixed grain, different per seed. The camera
  * of a demo clip is a 640×360 window moving over it, so the true motion of every clip is known by construction.
  */
-async function renderTexture(dir: string, seed: number): Promise<string> {
-  const file = path.join(dir, `texture-${seed}.png`);
+export async function renderTexture(dir: string, seed: number, size = TEXTURE_SIZE): Promise<string> {
+  const file = path.join(dir, `texture-${seed}-${size}.png`);
   if (fs.existsSync(file)) return file;
   const a = 17 + (seed % 7) * 4;
   const b = 29 + (seed % 5) * 6;
   await run(ffmpegInstaller.path, ['-v', 'error', '-y', '-f', 'lavfi', '-i',
-    `nullsrc=s=${TEXTURE_SIZE},format=rgb24,geq=`
+    `nullsrc=s=${size},format=rgb24,geq=`
     + `r='50+25*sin(X/${b}+2*sin(Y/37))+20*sin((X+Y)/5+${seed})':`
     + `g='105+40*sin(X/${a}+3*sin(Y/41)+${seed})+30*sin(Y/4+2*cos(X/53))':`
     + `b='45+18*sin(Y/19+X/31+${seed})',noise=alls=45:allf=0:all_seed=${seed}`,

@@ -97,3 +97,26 @@ export const DEMO_DUPLICATE = { of: 'creek-bank-01.mp4', file: 'creek-bank-01-ex
 
 /** A file an operator might drop by mistake; ingest refuses it. */
 export const DEMO_NOT_A_VIDEO = { file: 'creek-field-notes.txt', text: 'Creek block: water level high, skip row 9.\n' };
+
+/** What the demo curator decides once the worker has processed these clips; the rest wait in the review queue. */
+export const DEMO_VERDICTS: { file: string; decision: 'accept' | 'reject'; reason?: string; comment?: string }[] = [
+  { file: 'orchard-row-03-north.mp4', decision: 'accept' },
+  { file: 'orchard-row-04-north.mp4', decision: 'accept' },
+  { file: 'orchard-row-05-crate.mp4', decision: 'accept', comment: 'Good crossing object for the motion view.' },
+  { file: 'orchard-terrace-turn.mp4', decision: 'accept' },
+  { file: 'orchard-handheld-walk.mp4', decision: 'accept' },
+  { file: 'glasshouse-bench-01.mp4', decision: 'accept' },
+  { file: 'orchard-dusk-row-02.mp4', decision: 'reject', reason: 'too-dark', comment: 'Nothing visible in the rows.' },
+  { file: 'orchard-fogged-lens.mp4', decision: 'reject', reason: 'blurry' },
+];
+
+/** The pairset the demo engineer builds from the accepted orchard clips: frame with its neighbour and motion. */
+export const DEMO_PAIRSET = {
+  name: 'Orchard rows, frame and motion',
+  views: ['frame', 'neighbour', 'motion', 'luma', 'chroma'] as const,
+  deltas: [1, 2],
+  graph: 'core' as const,
+  coreView: 'frame',
+  split: { val: 0.2, seed: 2026 },
+  shardMB: 8,
+};

@@ -1,0 +1,65 @@
+import { PAIRSET_DEFAULTS } from '../../shared/schemas/pairsets';
+import { Clip, Pairset, Project, User } from '../models';
+import { createPairset, startBuild } from '../services/pairsets';
+import { claimClip } from '../services/review-claims';
+import { decideClip } from '../services/review-verdicts';
+import { DEMO_PAIRSET, DEMO_PROJECTS, DEMO_VERDICTS } from './scenario';
+
+const log = (message: string) => console.log(`Kinefold demo: ${message}`);
+
+const POLL_MS = 5000;
+const WAITING_STATES = ['queued', 'processing'];
+
+/** Resolves after `ms`, or at once when the server stops (the signal aborts). */
+function pause(ms: number, signal: AbortSignal): Promise<void> {
+  return new Promise((done) => {
+    const timer = setTimeout(done, ms);
+    signal.addEventListener('abort', () => { clearTimeout(timer); done(); }, { once: true });
+  });
+}
+
+/** Waits until the worker has processed every clip the demo curator decides; false when the server stopped first. */
+async function waitForProcessing(files: string[], signal: AbortSignal): Promise<boolean> {
+  let reported = -1;
+  while (!signal.aborted) {
+    const waiting = await Clip.count({ where: { originalName: files, state: WAITING_STATES } });
+    if (waiting === 0) return true;
+    if (waiting !== reported) log(`waiting for the worker: ${waiting} of the clips to review still processing…`);
+    reported = waiting;
+    await pause(POLL_MS, signal);
+  }
+  return false;
+}
+
+/**
+ * After the footage is in: the demo curator gives the scenario's verdicts (claiming each clip as the review screen
+ * does), then the demo engineer defines the demo pairset from the accepted orchard clips and queues its build for
+ * the worker. Each step is skipped when done already, so an interrupted first start finishes on the next.
+ */
+export async function curateDemoCampaign(signal: AbortSignal): Promise<void> {
+  const curator = await User.findByEmail('curator@kinefold.test');
+  const engineer = await User.findByEmail('engineer@kinefold.test');
+  if (!curator || !engineer) return;
+  const files = DEMO_VERDICTS.map((verdict) => verdict.file);
+  if (!(await waitForProcessing(files, signal))) return;
+
+  const clips = await Clip.findAll({ where: { originalName: files } });
+  for (const verdict of DEMO_VERDICTS) {
+    const clip = clips.find((candidate) => candidate.originalName === verdict.file);
+    if (!clip || clip.state !== 'awaiting_review') continue;
+    await claimClip(clip.id, curator);
+    await decideClip(clip.id, { decision: verdict.decision, reason: verdict.reason, comment: verdict.comment },
+      curator);
+    log(`${curator.name} ${verdict.decision === 'accept' ? 'accepted' : 'rejected'} ${verdict.file}`);
+  }
+
+  if (await Pairset.findOne({ where: { name: DEMO_PAIRSET.name } })) return;
+  const orchard = await Project.findOne({ where: { name: DEMO_PROJECTS[0].name } });
+  if (!orchard) return;
+  const pairset = await createPairset({
+    ...DEMO_PAIRSET, views: [...DEMO_PAIRSET.views], projectIds: [orchard.id],
+    motionFormat: PAIRSET_DEFAULTS.motionFormat, temperature: PAIRSET_DEFAULTS.temperature,
+  }, engineer.id);
+  await startBuild(pairset.id, engineer);
+  log(`${engineer.name} queued the build of pairset "${DEMO_PAIRSET.name}" v1 (${pairset.id}); the worker builds it.`);
+}
