@@ -14,7 +14,7 @@ import { parseArgs, promisify } from 'node:util';
 import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
 import { renderTexture } from '../server/demo/footage';
 import type { ClipDetail } from '../shared/types/clips';
-import { startRunningApp, type RunningApp, type Session } from './running-app';
+import { startRunningApp, type RunningApp, type Session } from '../tests/helpers/app-processes';
 
 const { values } = parseArgs({ options: { seconds: { type: 'string', default: '60' } } });
 const SECONDS = Math.max(5, Number(values.seconds));

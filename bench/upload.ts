@@ -10,7 +10,7 @@ import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import { parseArgs, promisify } from 'node:util';
 import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import { startRunningApp } from './running-app';
+import { startRunningApp } from '../tests/helpers/app-processes';
 
 const { values } = parseArgs({ options: { mb: { type: 'string', default: '1024' } } });
 const sizeBytes = Number(values.mb) * 1024 * 1024;

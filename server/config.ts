@@ -28,7 +28,12 @@ export interface Config {
   jobLeaseS: number;
   /** Jobs one worker process runs at once. */
   jobConcurrency: number;
+  /** CPU niceness of the worker process (0–19): above 0 the server keeps answering quickly while clips process. */
+  workerNice: number;
 }
+
+/** The lowest CPU priority Linux gives. */
+const MAX_NICE = 19;
 
 function parseDemo(value: string | undefined): DemoMode {
   const mode = value ?? 'full';
@@ -67,6 +72,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     uploadLimitBytes: parseInteger('KINEFOLD_UPLOAD_LIMIT_BYTES', env.KINEFOLD_UPLOAD_LIMIT_BYTES, 4 * 1024 ** 3),
     jobLeaseS: Math.max(1, parseInteger('KINEFOLD_JOB_LEASE_S', env.KINEFOLD_JOB_LEASE_S, 60)),
     jobConcurrency: Math.max(1, parseInteger('KINEFOLD_JOB_CONCURRENCY', env.KINEFOLD_JOB_CONCURRENCY, 2)),
+    workerNice: Math.min(MAX_NICE, parseInteger('KINEFOLD_WORKER_NICE', env.KINEFOLD_WORKER_NICE, 10)),
   };
 }
 

@@ -13,12 +13,15 @@ import { startDailySchedule } from './runtime/daily-schedule';
 import { createJobRuntime } from './runtime/job-runtime';
 
 const config = loadConfig();
+// Set before the thread pool, ffmpeg and libuv's threads start, so they inherit it: the worker's CPU-heavy work
+// yields to the server, which must keep answering people while clips process.
+os.setPriority(config.workerNice);
 const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
 const sequelize = await openKinefoldDatabase(config, { migrate: false });
 const pool = createFramePool();
 const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir), pool, owner });
 console.log(`Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, `
-  + `${config.jobConcurrency} jobs at once).`);
+  + `${config.jobConcurrency} jobs at once, nice ${config.workerNice}).`);
 
 const stopSchedule = startDailySchedule();
 

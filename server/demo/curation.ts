@@ -1,6 +1,8 @@
 import { PAIRSET_DEFAULTS } from '../../shared/schemas/pairsets';
-import { Clip, Pairset, Project, User } from '../models';
+import { Op } from 'sequelize';
+import { Clip, Job, Pairset, Project, User } from '../models';
 import { createPairset, startBuild } from '../services/pairsets';
+import { requestReconcile } from '../services/reconcile-requests';
 import { claimClip } from '../services/review-claims';
 import { decideClip } from '../services/review-verdicts';
 import { DEMO_PAIRSET, DEMO_PROJECTS, DEMO_VERDICTS } from './scenario';
@@ -53,7 +55,20 @@ export async function curateDemoCampaign(signal: AbortSignal): Promise<void> {
     log(`${curator.name} ${verdict.decision === 'accept' ? 'accepted' : 'rejected'} ${verdict.file}`);
   }
 
-  if (await Pairset.findOne({ where: { name: DEMO_PAIRSET.name } })) return;
+  if (!(await Pairset.findOne({ where: { name: DEMO_PAIRSET.name } }))) await buildDemoPairset(engineer);
+  const built = await waitForPairset(signal);
+  if (!built?.builtAt) return;
+  // Measures every byte by kind for the storage screen now, as an admin's "Reconcile now" would, rather than at
+  // the worker's next scheduled measure.
+  const measured = await Job.count({ where: { kind: 'reconcile-usage', createdAt: { [Op.gte]: built.builtAt } } });
+  if (measured === 0) {
+    const admin = await User.findByEmail('admin@kinefold.test');
+    await requestReconcile('on-demand', admin?.id ?? null);
+    log('the pairset is built and a storage measure is queued; the demo campaign is complete.');
+  }
+}
+
+async function buildDemoPairset(engineer: User): Promise<void> {
   const orchard = await Project.findOne({ where: { name: DEMO_PROJECTS[0].name } });
   if (!orchard) return;
   const pairset = await createPairset({
@@ -62,4 +77,14 @@ export async function curateDemoCampaign(signal: AbortSignal): Promise<void> {
   }, engineer.id);
   await startBuild(pairset.id, engineer);
   log(`${engineer.name} queued the build of pairset "${DEMO_PAIRSET.name}" v1 (${pairset.id}); the worker builds it.`);
+}
+
+/** Waits for the demo pairset's build to end; null when the server stopped first. */
+async function waitForPairset(signal: AbortSignal): Promise<Pairset | null> {
+  while (!signal.aborted) {
+    const pairset = await Pairset.findOne({ where: { name: DEMO_PAIRSET.name }, order: [['version', 'DESC']] });
+    if (!pairset || pairset.state !== 'building') return pairset;
+    await pause(POLL_MS, signal);
+  }
+  return null;
 }

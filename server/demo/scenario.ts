@@ -110,13 +110,17 @@ export const DEMO_VERDICTS: { file: string; decision: 'accept' | 'reject'; reaso
   { file: 'orchard-fogged-lens.mp4', decision: 'reject', reason: 'blurry' },
 ];
 
-/** The pairset the demo engineer builds from the accepted orchard clips: frame with its neighbour and motion. */
+/**
+ * The pairset the demo engineer builds from the accepted orchard clips: each frame with its next frame and with its
+ * motion field, at 160 px so the demo stays small on disk.
+ */
 export const DEMO_PAIRSET = {
   name: 'Orchard rows, frame and motion',
-  views: ['frame', 'neighbour', 'motion', 'luma', 'chroma'] as const,
-  deltas: [1, 2],
+  views: ['frame', 'neighbour', 'motion'] as const,
+  deltas: [1],
   graph: 'core' as const,
   coreView: 'frame',
+  outputSize: 160,
   split: { val: 0.2, seed: 2026 },
   shardMB: 8,
 };

@@ -2,14 +2,14 @@ import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { formatBytes } from '../../shared/format-bytes';
 import type { PairsetManifest } from '../../shared/types/pairsets';
 import { Clip, Pairset, User, Verdict } from '../../server/models';
 import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
 import { createProject } from '../../server/services/projects';
-import { launchBrowser, screenshot, signInThroughForm } from '../helpers/browser';
+import { launchBrowser, screenshot, signedInAsDemo } from '../helpers/browser';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { startRunningServer, type RunningServer } from '../helpers/running-server';
@@ -21,14 +21,6 @@ const media = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-e2e-journey-'));
 const PROJECT = 'Lower terrace, first pass';
 const CLIP = 'lower-terrace-row-7.mp4';
 const account = (role: string) => DEMO_ACCOUNTS.find((candidate) => candidate.role === role)!;
-
-async function signedIn(role: string): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1440, height: 1000 } });
-  const page = await context.newPage();
-  await signInThroughForm(page, server.baseUrl, account(role).email, account(role).password);
-  await page.waitForSelector(`[data-test="home-${role}"]`);
-  return page;
-}
 
 /** A project at a new project's defaults (the dis estimator among them); the clip is ffmpeg's moving test pattern. */
 beforeAll(async () => {
@@ -49,7 +41,7 @@ afterAll(async () => {
 describe('one clip through all four roles', () => {
   it('is uploaded, processed, accepted by keyboard, built into a pairset, fetched by token and counted', async () => {
     // Operator: upload with capture metadata.
-    const operator = await signedIn('operator');
+    const operator = await signedInAsDemo(browser, server.baseUrl, 'operator');
     await operator.click('[data-test="nav-upload"]');
     await operator.click('[data-test="upload-project"]');
     await operator.click(`li[role="option"]:has-text("${PROJECT}")`);
@@ -70,7 +62,7 @@ describe('one clip through all four roles', () => {
     await operator.context().close();
 
     // Curator: open it from the queue and accept it with the A key.
-    const curator = await signedIn('curator');
+    const curator = await signedInAsDemo(browser, server.baseUrl, 'curator');
     await curator.click('[data-test="nav-review-queue"]');
     await curator.click(`[data-test="queue-open-${clip.id}"]`);
     await curator.waitForSelector(`[data-test="review-clip"][data-clip-id="${clip.id}"]`);
@@ -84,7 +76,7 @@ describe('one clip through all four roles', () => {
 
     // Engineer: define and build a pairset over the project with the form's views (frame, neighbour at Δ 1 and 2,
     // motion; core graph). 15 frames give frame~neighbour+1 14 pairs, frame~neighbour+2 13 and frame~motion 14.
-    const engineer = await signedIn('engineer');
+    const engineer = await signedInAsDemo(browser, server.baseUrl, 'engineer');
     await engineer.click('[data-test="nav-pairsets"]');
     await engineer.click('[data-test="pairset-new"]');
     await engineer.fill('[data-test="pairset-name"]', 'Lower terrace neighbours');
@@ -122,7 +114,7 @@ describe('one clip through all four roles', () => {
     const pairset = (await Pairset.findByPk(pairsetId))!;
     expect(pairset.bytes).toBeGreaterThan(0);
     await clip.reload();
-    const admin = await signedIn('admin');
+    const admin = await signedInAsDemo(browser, server.baseUrl, 'admin');
     await admin.click('[data-test="nav-admin-usage"]');
     await admin.waitForSelector('[data-test="usage"]');
     const row = (name: string) => admin.locator('tr', { hasText: name }).first().textContent();

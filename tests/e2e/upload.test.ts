@@ -54,7 +54,7 @@ describe('an operator uploading a batch', () => {
     }
     await page.waitForSelector('[data-test="upload-state-field-notes.txt"]:has-text("refused")');
     expect(await page.textContent('[data-test="upload-message-field-notes.txt"]')).toMatch(/is not a video file/);
-    await screenshot(page, 'operator-upload');
+    await screenshot(page, 'upload-batch-result');
 
     await page.click('[data-test="nav-clips"]');
     await page.waitForSelector('[data-test="clips-table"] tbody tr:nth-child(2)');
@@ -63,7 +63,7 @@ describe('an operator uploading a batch', () => {
     expect(table).toContain('bench-row-b.mp4');
     expect(table?.match(/queued/g)?.length).toBe(2);
     expect(table).toContain('Glasshouse, bench 4');
-    await screenshot(page, 'operator-clips');
+    await screenshot(page, 'upload-clips-queued');
     await page.close();
   });
 });

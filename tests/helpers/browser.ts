@@ -1,8 +1,11 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
+import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
+import type { Role } from '../../shared/roles';
 
-export const ARTIFACTS_DIR = path.resolve('tests/e2e/artifacts');
+/** Where screenshots go: the test artifacts, or the README's folder when `npm run docs:screenshots` sets it. */
+export const ARTIFACTS_DIR = path.resolve(process.env.KINEFOLD_SCREENSHOTS_DIR ?? 'tests/e2e/artifacts');
 
 /** Debian's Chromium, headless, with the flags that keep it off the (closed) network. */
 export function launchBrowser(): Promise<Browser> {
@@ -24,4 +27,15 @@ export async function signInThroughForm(page: Page, baseUrl: string, email: stri
   await page.fill('#sign-in-email', email);
   await page.fill('#sign-in-password', password);
   await page.click('button[type="submit"]');
+}
+
+/** A new browser context signed in as the demo account of `role`, on its home page. */
+export async function signedInAsDemo(
+  browser: Browser, baseUrl: string, role: Role, viewport = { width: 1440, height: 1000 },
+): Promise<Page> {
+  const account = DEMO_ACCOUNTS.find((candidate) => candidate.role === role)!;
+  const page = await (await browser.newContext({ viewport })).newPage();
+  await signInThroughForm(page, baseUrl, account.email, account.password);
+  await page.waitForSelector(`[data-test="home-${role}"]`);
+  return page;
 }

@@ -1,14 +1,14 @@
 /**
- * A real Kinefold server (and, when asked, a real worker) as child processes on a fresh storage folder, with a
- * signed-in session, for the benchmarks that measure the product from the outside.
+ * A real Kinefold server (and, when asked, a real worker) as child processes on a storage folder, as `npm start`
+ * runs them, with signed-in sessions: for the benchmarks and tests that see the product from the outside.
  */
 import { execFile, spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import { promisify } from 'node:util';
-import { DEMO_ACCOUNTS } from '../server/services/demo-accounts';
-import type { Role } from '../shared/roles';
+import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
+import type { Role } from '../../shared/roles';
 
 export interface Session {
   cookie: string;
@@ -18,7 +18,7 @@ export interface Session {
 export interface RunningApp {
   baseUrl: string;
   server: ChildProcess;
-  /** Signs a demo account in (the server runs with KINEFOLD_DEMO=accounts). */
+  /** Signs a demo account in. */
   signIn(role: Role): Promise<Session>;
   /** JSON request with the session's cookie and CSRF token. */
   api(session: Session, method: string, url: string, body?: unknown): Promise<Response>;
@@ -49,12 +49,28 @@ function stopped(child: ChildProcess): Promise<void> {
   });
 }
 
-export async function startRunningApp(storageDir: string, options: { worker?: boolean } = {}): Promise<RunningApp> {
+export interface AppOptions {
+  /** Start a worker process beside the server. */
+  worker?: boolean;
+  /** KINEFOLD_DEMO; `accounts` (the default here) gives the demo accounts without the demo campaign. */
+  demo?: 'full' | 'accounts';
+  /** Where the server's console goes (ignored unless given). */
+  onServerOutput?: (line: string) => void;
+}
+
+export async function startRunningApp(storageDir: string, options: AppOptions = {}): Promise<RunningApp> {
   const port = 3400 + Math.floor(Math.random() * 500);
   const baseUrl = `http://127.0.0.1:${port}`;
-  const env = { ...process.env, PORT: String(port), KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DEMO: 'accounts' };
+  const env = {
+    ...process.env, PORT: String(port), KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DEMO: options.demo ?? 'accounts',
+  };
   await promisify(execFile)(process.execPath, ['--import', 'tsx', 'server/cli/prepare.ts'], { env });
-  const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env, stdio: 'ignore' });
+  const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env, stdio: 'pipe' });
+  server.stdout!.setEncoding('utf8');
+  server.stdout!.on('data', (text: string) => {
+    for (const line of text.split('\n').filter(Boolean)) options.onServerOutput?.(line);
+  });
+  server.stderr!.pipe(process.stderr);
   const worker = options.worker
     ? spawn(process.execPath, ['--import', 'tsx', 'worker/index.ts'], { env, stdio: ['ignore', 'ignore', 'inherit'] })
     : null;
