@@ -1,7 +1,4 @@
-/**
- * The stages of processing a clip, in order (DESIGN §5). `motion` runs between signals and views once the Motion
- * stage is plugged into the worker; until then a clip goes from signals straight to views.
- */
+/** The stages of processing a clip, in order (DESIGN §5). */
 export const CLIP_STAGES = ['sample', 'signals', 'motion', 'views', 'flags'] as const;
 export type ClipStage = (typeof CLIP_STAGES)[number];
 

@@ -6,6 +6,7 @@ import {
 } from '../../shared/schemas/profile';
 import type { Config } from '../config';
 import { currentUser, requireSignIn } from '../middlewares/auth';
+import { createPasswordChangeLimit } from '../middlewares/password-change-limit';
 import { validate } from '../middlewares/validate';
 import { changePassword, storageUse, updateProfile } from '../services/profile';
 
@@ -14,7 +15,8 @@ export function createProfileRouter(config: Config): Router {
   const router = Router();
   router.get('/storage', requireSignIn, getStorage);
   router.patch('/', requireSignIn, validate({ body: updateProfileSchema }), patchProfile);
-  router.post('/password', requireSignIn, validate({ body: changePasswordSchema }), postPassword(config));
+  router.post('/password', requireSignIn, createPasswordChangeLimit(config), validate({ body: changePasswordSchema }),
+    postPassword(config));
   return router;
 }
 

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, Session, User } from '../../server/models';
 import {
-  TEST_PASSWORD, addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer,
+  TEST_PASSWORD, addUser, agentWithCsrf, appWith, signedInAgent, startTestServer, type TestServer,
 } from '../helpers/test-server';
 
 let server: TestServer;
@@ -103,6 +103,31 @@ describe('POST /api/me/password', () => {
     expect(await signInStatus('engineer@example.test', 'shards-and-manifests-07')).toBe(200);
     const event = await AuditEvent.findOne({ where: { action: 'password.change', targetId: String(engineer.id) } });
     expect(event!.detail).toEqual({ sessionsEnded: sessionsBefore - 1 });
+  });
+});
+
+describe('POST /api/me/password limits', () => {
+  it('answers 429 after the account limit of refused changes, even with the right password, per person', async () => {
+    const limited = appWith(server, { signInLimitPerAccount: 2 });
+    try {
+      const signedIn = async (email: string) => {
+        const { agent, csrf } = await signedInAgent(limited, email);
+        return (currentPassword: string) => agent.post('/api/me/password').set('x-csrf-token', csrf)
+          .send({ currentPassword, password: 'rows-of-pear-trees-09' });
+      };
+      const operator = await signedIn('operator@example.test');
+      expect((await operator('guess-number-one')).status).toBe(400);
+      expect((await operator('guess-number-two')).status).toBe(400);
+      const blocked = await operator(TEST_PASSWORD);
+      expect(blocked.status).toBe(429);
+      expect(blocked.body.error.code).toBe('too_many_password_attempts');
+      expect(await signInStatus('operator@example.test', TEST_PASSWORD)).toBe(200);
+      // Someone else's attempts are their own.
+      const admin = await signedIn('admin@example.test');
+      expect((await admin('guess-number-one')).status).toBe(400);
+    } finally {
+      limited.close();
+    }
   });
 });
 
