@@ -12,7 +12,7 @@ interface Scope {
   label: string;
   quotaBytes: number | null;
   usedBytes: number;
-  /** Operators to tell besides the admins. */
+  /** Who is told besides the admins: the project's operators, or the person whose quota it is. */
   operators: User[];
 }
 
@@ -25,21 +25,32 @@ export async function checkQuotaThresholds(
   projectId: number, userId: number, publicUrl: string, transaction: Transaction,
 ): Promise<void> {
   const project = await Project.findByPk(projectId, { transaction });
-  const user = await User.findByPk(userId, { transaction });
-  if (!project || !user) return;
+  if (!project) return;
   const projectOperators = await User.findAll({
     where: { id: { [Op.in]: Clip.sequelize!.literal(`(SELECT DISTINCT uploaderId FROM clips WHERE projectId = ${Number(projectId)})`) },
       role: 'operator', disabled: false },
     transaction,
   });
-  const scopes: Scope[] = [
-    { scope: 'project', scopeId: project.id, label: `Project "${project.name}"`, quotaBytes: project.quotaBytes,
-      usedBytes: (await projectUsage(project.id, transaction)).stored, operators: projectOperators },
-    { scope: 'user', scopeId: user.id, label: `The account of ${user.name}`, quotaBytes: user.quotaBytes,
-      usedBytes: (await userUsage(user.id, transaction)).stored, operators: user.role === 'operator' ? [user] : [] },
-  ];
-  const admins = await User.findAll({ where: { role: 'admin', disabled: false }, transaction });
-  for (const scope of scopes) await checkScope(scope, admins, publicUrl, transaction);
+  const admins = await adminsOf(transaction);
+  await checkScope({ scope: 'project', scopeId: project.id, label: `Project "${project.name}"`,
+    quotaBytes: project.quotaBytes, usedBytes: (await projectUsage(project.id, transaction)).stored,
+    operators: projectOperators }, admins, publicUrl, transaction);
+  await checkUserQuotaThresholds(userId, publicUrl, transaction, admins);
+}
+
+/** The same for one person's quota alone: after a pairset of theirs is built, its bytes count against them. */
+export async function checkUserQuotaThresholds(
+  userId: number, publicUrl: string, transaction: Transaction, admins?: User[],
+): Promise<void> {
+  const user = await User.findByPk(userId, { transaction });
+  if (!user) return;
+  await checkScope({ scope: 'user', scopeId: user.id, label: `The account of ${user.name}`,
+    quotaBytes: user.quotaBytes, usedBytes: (await userUsage(user.id, transaction)).stored,
+    operators: [user] }, admins ?? await adminsOf(transaction), publicUrl, transaction);
+}
+
+function adminsOf(transaction: Transaction): Promise<User[]> {
+  return User.findAll({ where: { role: 'admin', disabled: false }, transaction });
 }
 
 async function checkScope(scope: Scope, admins: User[], publicUrl: string, transaction: Transaction): Promise<void> {

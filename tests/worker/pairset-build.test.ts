@@ -4,7 +4,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Job, Pairset, Shard, type User } from '../../server/models';
+import { Job, MailOutbox, Pairset, QuotaWarning, Shard, type User } from '../../server/models';
 import {
   cancelBuild, createPairset, getPairsetDetail, newPairsetVersion, startBuild,
 } from '../../server/services/pairsets';
@@ -307,5 +307,23 @@ describe('failing and cancelling', () => {
     expect(detail.error).toMatch(/gives no pairs/);
     expect(fs.existsSync(paths().pairsetDir(detail.id))).toBe(false);
     expect(fs.readdirSync(paths().pairsetsDir).filter((name) => name.startsWith('work-'))).toEqual([]);
+  });
+});
+
+describe('a build that takes its owner past a quota threshold', () => {
+  it('tells the owner and the admins once, for 80 % and not yet 100 %', async () => {
+    const definition = { projectIds: [projectId], views: ['frame', 'neighbour'] as const, deltas: [1] };
+    const first = await buildPairsetNow(runtime, engineer, { ...definition, views: [...definition.views] });
+    // The same definition gives the same shard bytes; only the manifest's name differs by a few bytes.
+    const owner = await addUser(server, 'engineer', 'quota-engineer@example.test');
+    await owner.update({ quotaBytes: Math.round(first.bytes / 0.9) });
+    const before = await MailOutbox.count({ where: { template: 'quota-threshold' } });
+    const second = await buildPairsetNow(runtime, owner, { ...definition, views: [...definition.views] });
+    expect(second.state).toBe('built');
+    const warnings = await QuotaWarning.findAll({ where: { scope: 'user', scopeId: owner.id } });
+    expect(warnings.map((warning) => warning.percent)).toEqual([80]);
+    const mails = await MailOutbox.findAll({ where: { template: 'quota-threshold' }, order: [['id', 'ASC']] });
+    expect(mails.slice(before).map((mail) => mail.to).sort()).toEqual(['admin@example.test',
+      'quota-engineer@example.test']);
   });
 });

@@ -7,6 +7,7 @@ import type { PairsetManifest, ShardSummary } from '../../shared/types/pairsets'
 import { Pairset, Shard } from '../../server/models';
 import { loadPairsetSources } from '../../server/services/pairset-sources';
 import { pairsetStatistics } from '../../server/services/pairset-statistics';
+import { checkUserQuotaThresholds } from '../../server/services/quota-warnings';
 import { PAIRSET_MANIFEST, pairsetWorkPrefix, type StoragePaths } from '../../server/storage/paths';
 import { BUILD_STAGE, BuildStoppedError, watchBuild } from '../pairsets/build-watch';
 import { difficultyReport } from '../pairsets/difficulty-report';
@@ -120,6 +121,7 @@ async function commit(pairsetId: number, shards: ShardSummary[],
     await current.update({
       ...result, state: 'built', progress: 1, error: null, builtAt: new Date(),
     }, { transaction });
+    await checkUserQuotaThresholds(current.ownerId, context.config.publicUrl, transaction);
     return true;
   });
 }
