@@ -1,5 +1,6 @@
-import { PAIRSET_DEFAULTS } from '../../shared/schemas/pairsets';
+import { setTimeout as sleep } from 'node:timers/promises';
 import { Op } from 'sequelize';
+import { PAIRSET_DEFAULTS } from '../../shared/schemas/pairsets';
 import { Clip, Job, Pairset, Project, User } from '../models';
 import { createPairset, startBuild } from '../services/pairsets';
 import { requestReconcile } from '../services/reconcile-requests';
@@ -14,10 +15,7 @@ const WAITING_STATES = ['queued', 'processing'];
 
 /** Resolves after `ms`, or at once when the server stops (the signal aborts). */
 function pause(ms: number, signal: AbortSignal): Promise<void> {
-  return new Promise((done) => {
-    const timer = setTimeout(done, ms);
-    signal.addEventListener('abort', () => { clearTimeout(timer); done(); }, { once: true });
-  });
+  return sleep(ms, undefined, { signal }).catch(() => undefined);
 }
 
 /** Waits until the worker has processed every clip the demo curator decides; false when the server stopped first. */

@@ -50,6 +50,21 @@ async function rows(page: Page, table: string, atLeast = 1): Promise<number> {
   return page.locator(selector).count();
 }
 
+/**
+ * A screenshot once the page's pictures have arrived: every thumbnail, and the lazily loaded frames and motion
+ * pictures that are inside the window.
+ */
+async function shot(page: Page, name: string): Promise<void> {
+  await page.waitForFunction(() => [...document.querySelectorAll('img')]
+    .filter((image) => {
+      const box = image.getBoundingClientRect();
+      const inWindow = box.bottom > 0 && box.top < window.innerHeight && box.left < window.innerWidth;
+      return box.width > 0 && (image.loading !== 'lazy' || inWindow);
+    })
+    .every((image) => image.complete && image.naturalWidth > 0));
+  await screenshot(page, name);
+}
+
 beforeAll(async () => {
   const started = Date.now();
   app = await startRunningApp(storage, { worker: true, demo: 'full' });
@@ -87,18 +102,18 @@ afterAll(async () => {
 describe('the demo campaign on first start', () => {
   it('gives the operator their clips, with every demo file in and the refused one out', async () => {
     const page = await signedInAsDemo(browser, app.baseUrl, 'operator');
-    await screenshot(page, 'operator-home');
+    await shot(page, 'operator-home');
     await page.click('[data-test="nav-clips"]');
     expect(await rows(page, 'clips-table', DEMO_FILE_COUNT)).toBe(DEMO_FILE_COUNT);
     const table = await page.textContent('[data-test="clips-table"]');
     for (const state of ['awaiting review', 'accepted', 'rejected']) expect(table).toContain(state);
     expect(table).not.toContain('creek-field-notes.txt');
-    await screenshot(page, 'operator-clips');
+    await shot(page, 'operator-clips');
     await page.click('[data-test="nav-upload"]');
     await page.waitForSelector('[data-test="privacy-notice"]');
     await page.click('[data-test="upload-project"]');
     await page.click(`li[role="option"]:has-text("${DEMO_PROJECTS[0].name}")`);
-    await screenshot(page, 'operator-upload');
+    await shot(page, 'operator-upload');
     await page.context().close();
   });
 
@@ -109,11 +124,11 @@ describe('the demo campaign on first start', () => {
     expect(await rows(page, 'queue-table', waiting)).toBe(waiting);
     const queue = await page.textContent('[data-test="queue-table"]');
     for (const flag of ['static', 'shaky', 'overexposed', 'short']) expect(queue).toContain(flag);
-    await screenshot(page, 'curator-queue');
-    await page.click('[data-test="queue-table"] tbody tr [data-test^="queue-open-"]');
+    await shot(page, 'curator-queue');
+    await page.click('[data-test="queue-table"] tbody tr:has-text("creek-bank-02.mp4") [data-test^="queue-open-"]');
     await page.waitForSelector('[data-test="frame-strip"] img');
     await page.waitForSelector('[data-test="claim-mine"]');
-    await screenshot(page, 'curator-review');
+    await shot(page, 'curator-review');
     await page.context().close();
   });
 
@@ -121,11 +136,11 @@ describe('the demo campaign on first start', () => {
     const page = await signedInAsDemo(browser, app.baseUrl, 'engineer');
     await page.click('[data-test="nav-pairsets"]');
     expect(await rows(page, 'pairsets-table')).toBe(1);
-    await screenshot(page, 'engineer-pairsets');
+    await shot(page, 'engineer-pairsets');
     await page.click(`[data-test="pairsets-table"] tbody tr :text("${DEMO_PAIRSET.name}")`);
     await page.waitForSelector('[data-test="pairset-stats-charts"] canvas');
     expect(await rows(page, 'difficulty-table')).toBeGreaterThan(0);
-    await screenshot(page, 'engineer-pairset');
+    await shot(page, 'engineer-pairset');
     await page.context().close();
   });
 
@@ -135,18 +150,18 @@ describe('the demo campaign on first start', () => {
     await page.waitForSelector('[data-test="usage-by-kind"] canvas');
     const usage = await page.textContent('[data-test="usage"]');
     for (const project of DEMO_PROJECTS) expect(usage).toContain(project.name);
-    await screenshot(page, 'admin-usage');
+    await shot(page, 'admin-usage');
     await page.click('[data-test="nav-admin-jobs"]');
     expect(await rows(page, 'jobs-table')).toBeGreaterThan(0);
-    await screenshot(page, 'admin-jobs');
+    await shot(page, 'admin-jobs');
     await page.click('[data-test="nav-admin-audit"]');
     expect(await rows(page, 'audit-table', DEMO_VERDICTS.length + 1)).toBeGreaterThan(DEMO_VERDICTS.length);
-    await screenshot(page, 'admin-audit');
+    await shot(page, 'admin-audit');
     await page.click('[data-test="nav-people"]');
     expect(await rows(page, 'people-table', DEMO_ACCOUNTS.length)).toBe(DEMO_ACCOUNTS.length);
     await page.click('[data-test="nav-projects"]');
     expect(await rows(page, 'projects-table', DEMO_PROJECTS.length)).toBe(DEMO_PROJECTS.length);
-    await screenshot(page, 'admin-projects');
+    await shot(page, 'admin-projects');
     await page.context().close();
   });
 });
