@@ -113,6 +113,8 @@ describe('the demo campaign on first start', () => {
     await page.waitForSelector('[data-test="privacy-notice"]');
     await page.click('[data-test="upload-project"]');
     await page.click(`li[role="option"]:has-text("${DEMO_PROJECTS[0].name}")`);
+    await page.waitForSelector('[data-test="upload-quota"] [role="progressbar"]');
+    await page.waitForSelector('li[role="option"]', { state: 'detached' });
     await shot(page, 'operator-upload');
     await page.context().close();
   });
