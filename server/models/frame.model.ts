@@ -5,6 +5,9 @@ import {
 import type { ClipFrame, FrameMotion } from '../../shared/types/frames';
 
 /** A sampled still of a clip and its signals (DESIGN §2); written by the worker's sample and signals stages. */
+/** Clips per batch of hashes read for the duplicate flag (well under SQLite's 999 bound parameters). */
+const HASH_BATCH_CLIPS = 500;
+
 export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes<Frame>> {
   declare id: CreationOptional<number>;
   declare clipId: number;
@@ -36,21 +39,31 @@ export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes
     };
   }
 
-  /** The stored frame hashes of the project's other clips, by clip, for the duplicate flag. */
-  static async hashesOfOtherClips(projectId: number, clipId: number): Promise<{ clipId: number; hashes: string[] }[]> {
-    const rows = await Frame.sequelize!.query<{ clipId: number; dhash: string }>(
-      `SELECT frames.clipId, frames.dhash FROM frames JOIN clips ON clips.id = frames.clipId
-       WHERE clips.projectId = :projectId AND frames.clipId <> :clipId AND frames.dhash IS NOT NULL
-       ORDER BY frames.clipId, frames.\`index\``,
-      { replacements: { projectId, clipId }, type: QueryTypes.SELECT },
-    );
-    const byClip = new Map<number, string[]>();
-    for (const row of rows) {
-      const hashes = byClip.get(row.clipId) ?? [];
-      hashes.push(row.dhash);
-      byClip.set(row.clipId, hashes);
+  /**
+   * The stored frame hashes of the project's other clips, by clip in id order, for the duplicate flag: a batch of
+   * clips at a time, so a project of many thousand clips never sits in memory whole.
+   */
+  static async *hashBatchesOfOtherClips(projectId: number, clipId: number, clipsPerBatch = HASH_BATCH_CLIPS):
+    AsyncGenerator<{ clipId: number; hashes: string[] }[]> {
+    for (let after = 0; ;) {
+      const ids = (await Frame.sequelize!.query<{ id: number }>(
+        `SELECT id FROM clips WHERE projectId = :projectId AND id <> :clipId AND id > :after ORDER BY id LIMIT :limit`,
+        { replacements: { projectId, clipId, after, limit: clipsPerBatch }, type: QueryTypes.SELECT },
+      )).map((row) => row.id);
+      if (ids.length === 0) return;
+      const rows = await Frame.sequelize!.query<{ clipId: number; dhash: string }>(
+        `SELECT clipId, dhash FROM frames WHERE clipId IN (:ids) AND dhash IS NOT NULL ORDER BY clipId, \`index\``,
+        { replacements: { ids }, type: QueryTypes.SELECT },
+      );
+      const byClip = new Map<number, string[]>();
+      for (const row of rows) {
+        const hashes = byClip.get(row.clipId) ?? [];
+        hashes.push(row.dhash);
+        byClip.set(row.clipId, hashes);
+      }
+      yield [...byClip].map(([id, hashes]) => ({ clipId: id, hashes }));
+      after = ids.at(-1)!;
     }
-    return [...byClip].map(([id, hashes]) => ({ clipId: id, hashes }));
   }
 
   static initModel(sequelize: Sequelize): void {

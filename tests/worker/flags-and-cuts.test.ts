@@ -10,6 +10,7 @@ import {
   addProject, insertClip, makeClip, makePatternClip, reencode, TEST_PATTERN, workFolders,
 } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
+import { insertReviewClip } from '../helpers/review-clips';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
 
 /**
@@ -129,6 +130,28 @@ describe('flags', () => {
     expect(raised).toMatchObject({ matchClipId: clips.clean!.id, threshold: DEFAULT_FLAG_THRESHOLDS.duplicateShare });
     expect(raised!.value).toBeGreaterThan(DEFAULT_FLAG_THRESHOLDS.duplicateShare);
   });
+
+  it('compares against the other clips a batch of clips at a time, in id order, leaving the clip itself out',
+    async () => {
+      const { projectId, uploaderId } = clips.clean!;
+      for (const name of ['row-copy-a.mp4', 'row-copy-b.mp4']) {
+        const extra = await insertReviewClip({ projectId, uploaderId, originalName: name });
+        await Frame.bulkCreate([0, 1].map((index) => ({
+          clipId: extra.id, index, timeS: index / 5, dhash: `00000000000000${extra.id}${index}`.slice(-16),
+        })));
+      }
+      const others = (await Clip.findAll({ where: { projectId }, order: [['id', 'ASC']] }))
+        .filter((clip) => clip.id !== clips.clean!.id);
+      expect(others).toHaveLength(3);
+      const batches = [];
+      for await (const batch of Frame.hashBatchesOfOtherClips(projectId, clips.clean!.id, 2)) batches.push(batch);
+      expect(batches.map((batch) => batch.map((entry) => entry.clipId)))
+        .toEqual([[others[0]!.id, others[1]!.id], [others[2]!.id]]);
+      for (const entry of batches.flat()) {
+        const stored = await Frame.findAll({ where: { clipId: entry.clipId }, order: [['index', 'ASC']] });
+        expect(entry.hashes).toEqual(stored.map((frame) => frame.dhash));
+      }
+    });
 });
 
 describe('cuts', () => {

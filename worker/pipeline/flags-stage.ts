@@ -5,7 +5,7 @@ import { recordAudit } from '../../server/services/audit';
 import { listFrames } from '../../server/services/clip-media';
 import { clipReviewSignals } from '../../shared/review/clip-signals';
 import { clipFlags, type FlagFieldMotion, type FlagFrameSignals } from '../signals/flags';
-import { bestNearDuplicate, hexToHash } from '../signals/perceptual-hash';
+import { bestNearDuplicate, hexToHash, type NearDuplicateMatch } from '../signals/perceptual-hash';
 import type { PipelineStage } from './stage';
 
 /**
@@ -19,10 +19,8 @@ export const flagsStage: PipelineStage = {
     const { clip, settings } = context;
     const frames = await Frame.findAll({ where: { clipId: clip.id }, order: [['index', 'ASC']] });
     const hashes = frames.map((frame) => hexToHash(measured(frame.dhash, frame.index)));
-    const others = await Frame.hashesOfOtherClips(clip.projectId, clip.id);
-    const duplicate = bestNearDuplicate(hashes, others.map((other) => ({
-      clipId: other.clipId, hashes: other.hashes.map(hexToHash),
-    })), settings.flagThresholds.duplicateHashDistance);
+    const duplicate = await nearestDuplicate(clip.projectId, clip.id, hashes,
+      settings.flagThresholds.duplicateHashDistance);
     const raised = clipFlags({
       durationS: clip.durationS,
       frames: frames.map(flagSignals),
@@ -46,6 +44,18 @@ export const flagsStage: PipelineStage = {
     });
   },
 };
+
+/** The project's other clip sharing the most near-duplicate frames with this one, read a batch of clips at a time. */
+async function nearestDuplicate(projectId: number, clipId: number, hashes: bigint[], maxDistance: number) {
+  let best: NearDuplicateMatch<number> | null = null;
+  for await (const batch of Frame.hashBatchesOfOtherClips(projectId, clipId)) {
+    const others = batch.map((other) => ({ clipId: other.clipId, hashes: other.hashes.map(hexToHash) }));
+    const found = bestNearDuplicate(hashes, others, maxDistance);
+    // Strictly better only, so among equal shares the earliest clip wins, as within one batch.
+    if (found && (best === null || found.share > best.share)) best = found;
+  }
+  return best;
+}
 
 /** A verdict outlives reprocessing: only clips not yet reviewed go (back) to the review queue. */
 export function stateAfterProcessing(state: ClipState): ClipState {
