@@ -9,5 +9,5 @@ import { demoSeeded, seedDemoCampaign } from './seed';
  */
 export async function runDemoCampaign(config: Config, signal: AbortSignal): Promise<void> {
   if (!(await demoSeeded())) await seedDemoCampaign(config);
-  if (!signal.aborted) await curateDemoCampaign(signal);
+  if (!signal.aborted) await curateDemoCampaign(config, signal);
 }

@@ -1,12 +1,15 @@
 import { setTimeout as sleep } from 'node:timers/promises';
 import { Op } from 'sequelize';
 import { PAIRSET_DEFAULTS } from '../../shared/schemas/pairsets';
-import { Clip, Job, Pairset, Project, User } from '../models';
+import type { Config } from '../config';
+import { ApiToken, Clip, Invitation, Job, Pairset, Project, User } from '../models';
+import { createApiToken } from '../services/api-tokens';
+import { createInvitation } from '../services/invitations';
 import { createPairset, startBuild } from '../services/pairsets';
 import { requestReconcile } from '../services/reconcile-requests';
 import { claimClip } from '../services/review-claims';
 import { decideClip } from '../services/review-verdicts';
-import { DEMO_PAIRSET, DEMO_PROJECTS, DEMO_VERDICTS } from './scenario';
+import { DEMO_INVITATION, DEMO_PAIRSET, DEMO_PROJECTS, DEMO_TOKEN_NAME, DEMO_VERDICTS } from './scenario';
 
 const log = (message: string) => console.log(`Kinefold demo: ${message}`);
 
@@ -36,10 +39,12 @@ async function waitForProcessing(files: string[], signal: AbortSignal): Promise<
  * does), then the demo engineer defines the demo pairset from the accepted orchard clips and queues its build for
  * the worker. Each step is skipped when done already, so an interrupted first start finishes on the next.
  */
-export async function curateDemoCampaign(signal: AbortSignal): Promise<void> {
+export async function curateDemoCampaign(config: Config, signal: AbortSignal): Promise<void> {
   const curator = await User.findByEmail('curator@kinefold.test');
   const engineer = await User.findByEmail('engineer@kinefold.test');
-  if (!curator || !engineer) return;
+  const admin = await User.findByEmail('admin@kinefold.test');
+  if (!curator || !engineer || !admin) return;
+  await addPaperwork(config, engineer, admin);
   const files = DEMO_VERDICTS.map((verdict) => verdict.file);
   if (!(await waitForProcessing(files, signal))) return;
 
@@ -60,9 +65,22 @@ export async function curateDemoCampaign(signal: AbortSignal): Promise<void> {
   // the worker's next scheduled measure.
   const measured = await Job.count({ where: { kind: 'reconcile-usage', createdAt: { [Op.gte]: built.builtAt } } });
   if (measured === 0) {
-    const admin = await User.findByEmail('admin@kinefold.test');
-    await requestReconcile('on-demand', admin?.id ?? null);
+    await requestReconcile('on-demand', admin.id);
     log('the pairset is built and a storage measure is queued; the demo campaign is complete.');
+  }
+}
+
+/**
+ * What a team has around its footage: an API token the engineer made for a training machine (its secret was
+ * shown once and is gone, as for any token) and an invitation the admin sent to a field hand who has not joined.
+ */
+async function addPaperwork(config: Config, engineer: User, admin: User): Promise<void> {
+  if (!(await ApiToken.findOne({ where: { userId: engineer.id, name: DEMO_TOKEN_NAME } }))) {
+    await createApiToken(engineer.id, DEMO_TOKEN_NAME);
+  }
+  if (!(await Invitation.findOne({ where: { email: DEMO_INVITATION.email } }))) {
+    await createInvitation(DEMO_INVITATION, admin, config);
+    log(`${admin.name} invited ${DEMO_INVITATION.email}; the invitation is in the mail log.`);
   }
 }
 

@@ -124,3 +124,7 @@ export const DEMO_PAIRSET = {
   split: { val: 0.2, seed: 2026 },
   shardMB: 8,
 };
+
+/** A field hand the admin has invited but who has not joined yet, and the engineer's token for a training machine. */
+export const DEMO_INVITATION = { email: 'row-scout@kinefold.test', role: 'operator' as const };
+export const DEMO_TOKEN_NAME = 'training-rig-1';

@@ -3,7 +3,9 @@ import os from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_CLIPS, DEMO_PAIRSET, DEMO_PROJECTS, DEMO_VERDICTS } from '../../server/demo/scenario';
+import {
+  DEMO_CLIPS, DEMO_INVITATION, DEMO_PAIRSET, DEMO_PROJECTS, DEMO_TOKEN_NAME, DEMO_VERDICTS,
+} from '../../server/demo/scenario';
 import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
 import type { ListPage } from '../../shared/api-types';
 import type { PairsetSummary } from '../../shared/types/pairsets';
@@ -114,7 +116,7 @@ describe('the demo campaign on first start', () => {
     await page.click('[data-test="upload-project"]');
     await page.click(`li[role="option"]:has-text("${DEMO_PROJECTS[0].name}")`);
     await page.waitForSelector('[data-test="upload-quota"] [role="progressbar"]');
-    await page.waitForSelector('li[role="option"]', { state: 'detached' });
+    await page.waitForSelector('.p-select-overlay', { state: 'hidden' });
     await shot(page, 'operator-upload');
     await page.context().close();
   });
@@ -143,6 +145,9 @@ describe('the demo campaign on first start', () => {
     await page.waitForSelector('[data-test="pairset-stats-charts"] canvas');
     expect(await rows(page, 'difficulty-table')).toBeGreaterThan(0);
     await shot(page, 'engineer-pairset');
+    await page.click('[data-test="nav-api-tokens"]');
+    expect(await rows(page, 'tokens-table')).toBe(1);
+    expect(await page.textContent('[data-test="tokens-table"]')).toContain(DEMO_TOKEN_NAME);
     await page.context().close();
   });
 
@@ -161,6 +166,11 @@ describe('the demo campaign on first start', () => {
     await shot(page, 'admin-audit');
     await page.click('[data-test="nav-people"]');
     expect(await rows(page, 'people-table', DEMO_ACCOUNTS.length)).toBe(DEMO_ACCOUNTS.length);
+    expect(await rows(page, 'invitations-table')).toBe(1);
+    expect(await page.textContent('[data-test="invitations-table"]')).toContain(DEMO_INVITATION.email);
+    await page.click('[data-test="nav-mail-log"]');
+    expect(await rows(page, 'mail-table')).toBeGreaterThan(0);
+    expect(await page.textContent('[data-test="mail-table"]')).toContain(DEMO_INVITATION.email);
     await page.click('[data-test="nav-projects"]');
     expect(await rows(page, 'projects-table', DEMO_PROJECTS.length)).toBe(DEMO_PROJECTS.length);
     await shot(page, 'admin-projects');
