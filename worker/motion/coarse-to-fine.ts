@@ -5,7 +5,7 @@
 // Theory for Warping", ECCV 2004). Levels and smoothing are those of pyramid.ts.
 
 import { buildLevel, pyramidLevels } from './pyramid.js';
-import { resizeFlow } from './resample.js';
+import { resampleBufferLength, resizeFlow } from './resample.js';
 import type { MotionWorkspace } from './workspace.js';
 
 export interface LevelFrames {
@@ -39,7 +39,9 @@ export function coarseToFine(
       flow.fill(0);
     } else {
       // Scale by the actual size ratio per axis: rounding makes it differ slightly from 1/pyrScale.
-      resizeFlow(coarser.flow, coarser.width, coarser.height, flow, w, h, w / coarser.width, h / coarser.height);
+      const { flow: from, width: cw, height: ch } = coarser;
+      const lines = workspace.float32('c2f.resizeLines', resampleBufferLength(w));
+      resizeFlow(from, cw, ch, flow, w, h, w / cw, h / ch, lines);
     }
     const frames: LevelFrames = {
       width: w,

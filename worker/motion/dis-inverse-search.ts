@@ -61,23 +61,45 @@ export function land(
   out.fy = sy - iy;
 }
 
+/** Small buffers for the search: `line` holds at least `size` doubles, `step` 2. */
+export interface SearchScratch {
+  line: Float64Array;
+  step: Float64Array;
+}
+
+/** The sparse field a search fills, one entry per patch in row order, with what is known of each vector. */
+export interface PatchVectors {
+  u: Float32Array;
+  v: Float32Array;
+  /** The patch distance at the vector, or NaN when it was not evaluated there. */
+  distance: Float32Array;
+  /** 1 when the descent stopped at a minimum (a step too short or one that made the match worse), else 0. */
+  settled: Float32Array;
+}
+
+interface Search {
+  frames: SearchFrames;
+  size: number;
+  meanNormalised: boolean;
+  terms: Float32Array;
+  perSweep: number;
+  /** Where matchPatch compares: set by land. */
+  landing: Landing;
+  line: Float64Array;
+  /** matchPatch's results: the right-hand side of the Gauss–Newton step, and the distance. */
+  step: Float64Array;
+  distance: number;
+}
+
 /**
- * Sum of squared differences between the patch at (x0, y0) in the first frame and the second frame at the
- * patch moved by (u, v), bilinear; with `meanNormalised`, after removing the mean difference. `line` holds
- * `size` doubles.
+ * Compares patch s, top-left (x0, y0), of the first frame with the second frame at search.landing, bilinear.
+ * Writes the sum of squared differences (with mean normalisation, after removing the mean difference) into
+ * search.distance and Σ d·∇I (mean-normalised: Σ (d − mean d)·∇I) into search.step: the right-hand side of the
+ * Gauss–Newton step. The results go through the search object rather than arguments and a return value: this
+ * function is too large to be inlined, and passing doubles to it would allocate a number object each time.
  */
-function patchDistance(
-  frames: SearchFrames,
-  size: number,
-  x0: number,
-  y0: number,
-  u: number,
-  v: number,
-  meanNormalised: boolean,
-  landing: Landing,
-  line: Float64Array,
-): number {
-  land(frames, size, x0, y0, u, v, landing);
+function matchPatch(search: Search, s: number, x0: number, y0: number): void {
+  const { frames, size, landing, line, step } = search;
   const { source, paddedNext: next, width } = frames;
   const stride = width + 2 * frames.border;
   const { fx, fy } = landing;
@@ -90,75 +112,6 @@ function patchDistance(
     left = right;
   }
   // Even and odd columns keep separate sums so that two chains of additions run side by side.
-  let sum = 0;
-  let squares = 0;
-  let sumOdd = 0;
-  let squaresOdd = 0;
-  for (let r = 0; r < size; r++) {
-    at += stride;
-    let k = 3 * ((y0 + r) * width + x0);
-    left = next[at];
-    let c = 0;
-    for (; c + 1 < size; c += 2, k += 6) {
-      const middle = next[at + c + 1];
-      const right = next[at + c + 2];
-      const below = left + fx * (middle - left);
-      const belowOdd = middle + fx * (right - middle);
-      left = right;
-      const above = line[c];
-      const aboveOdd = line[c + 1];
-      line[c] = below;
-      line[c + 1] = belowOdd;
-      const d = above + fy * (below - above) - source[k];
-      const dOdd = aboveOdd + fy * (belowOdd - aboveOdd) - source[k + 3];
-      sum += d;
-      squares += d * d;
-      sumOdd += dOdd;
-      squaresOdd += dOdd * dOdd;
-    }
-    if (c < size) {
-      const below = left + fx * (next[at + c + 1] - left);
-      const above = line[c];
-      line[c] = below;
-      const d = above + fy * (below - above) - source[k];
-      sum += d;
-      squares += d * d;
-    }
-  }
-  sum += sumOdd;
-  squares += squaresOdd;
-  return meanNormalised ? squares - (sum * sum) / (size * size) : squares;
-}
-
-/**
- * As patchDistance, and also writes Σ d·∇I (mean-normalised: Σ (d − mean d)·∇I) into step[0], step[1]: the
- * right-hand side of the Gauss–Newton step.
- */
-function patchDistanceAndSlope(
-  frames: SearchFrames,
-  size: number,
-  x0: number,
-  y0: number,
-  u: number,
-  v: number,
-  meanNormalised: boolean,
-  meanGx: number,
-  meanGy: number,
-  landing: Landing,
-  line: Float64Array,
-  step: Float64Array,
-): number {
-  land(frames, size, x0, y0, u, v, landing);
-  const { source, paddedNext: next, width } = frames;
-  const stride = width + 2 * frames.border;
-  const { fx, fy } = landing;
-  let at = landing.at;
-  let left = next[at];
-  for (let c = 0; c < size; c++) {
-    const right = next[at + c + 1];
-    line[c] = left + fx * (right - left);
-    left = right;
-  }
   let sum = 0;
   let squares = 0;
   let ex = 0;
@@ -208,65 +161,32 @@ function patchDistanceAndSlope(
   squares += squaresOdd;
   ex += exOdd;
   ey += eyOdd;
-  if (!meanNormalised) {
+  if (!search.meanNormalised) {
     step[0] = ex;
     step[1] = ey;
-    return squares;
+    search.distance = squares;
+    return;
   }
-  step[0] = ex - sum * meanGx;
-  step[1] = ey - sum * meanGy;
-  return squares - (sum * sum) / (size * size);
-}
-
-/** Small buffers for the search: `line` holds at least `size` doubles, `step` 2. */
-export interface SearchScratch {
-  line: Float64Array;
-  step: Float64Array;
-}
-
-/** The sparse field a search fills, one entry per patch in row order, with what is known of each vector. */
-export interface PatchVectors {
-  u: Float32Array;
-  v: Float32Array;
-  /** The patch distance at the vector, or NaN when it was not evaluated there. */
-  distance: Float32Array;
-  /** 1 when the descent stopped at a minimum (a step too short or one that made the match worse), else 0. */
-  settled: Float32Array;
-}
-
-interface Search {
-  frames: SearchFrames;
-  size: number;
-  meanNormalised: boolean;
-  terms: Float32Array;
-  perSweep: number;
-  landing: Landing;
-  line: Float64Array;
-  step: Float64Array;
+  const t = PATCH_TERMS * s;
+  step[0] = ex - sum * search.terms[t + 3];
+  step[1] = ey - sum * search.terms[t + 4];
+  search.distance = squares - (sum * sum) / (size * size);
 }
 
 /**
- * Gauss–Newton descent of patch s from (u, v), whose distance is `start` (its slope already in search.step when
- * `haveSlope`). Writes the result into `out` unless it moved more than a patch side.
+ * Gauss–Newton descent of patch s from its vector in `out`, whose distance is in search.distance (its slope
+ * already in search.step when `haveSlope`); the start comes that way rather than as arguments for the reason given
+ * at matchPatch. Writes the result into `out` unless it moved more than a patch side.
  */
-function descend(
-  search: Search,
-  s: number,
-  x0: number,
-  y0: number,
-  u: number,
-  v: number,
-  start: number,
-  haveSlope: boolean,
-  out: PatchVectors,
-): void {
-  const { frames, size, meanNormalised, terms, landing, line, step } = search;
+function descend(search: Search, s: number, x0: number, y0: number, haveSlope: boolean, out: PatchVectors): void {
+  const { frames, size, terms, landing, step } = search;
+  const u = out.u[s];
+  const v = out.v[s];
+  const start = search.distance;
   const t = PATCH_TERMS * s;
   const h11 = terms[t];
   const h12 = terms[t + 1];
   const h22 = terms[t + 2];
-  const meanGx = terms[t + 3];
-  const meanGy = terms[t + 4];
   let cu = u;
   let cv = v;
   let last = start;
@@ -276,9 +196,9 @@ function descend(
   let slopeKnown = haveSlope;
   for (let it = 0; it < search.perSweep; it++) {
     if (!slopeKnown) {
-      const distance = patchDistanceAndSlope(
-        frames, size, x0, y0, cu, cv, meanNormalised, meanGx, meanGy, landing, line, step,
-      );
+      land(frames, size, x0, y0, cu, cv, landing);
+      matchPatch(search, s, x0, y0);
+      const distance = search.distance;
       if (it > 0 && distance >= last) {
         // The last step made the match worse: take it back and stop.
         cu += stepU;
@@ -342,8 +262,9 @@ export function inverseSearch(
     landing: { at: 0, fx: 0, fy: 0 },
     line: scratch.line,
     step: scratch.step,
+    distance: Number.NaN,
   };
-  const { landing, line } = search;
+  const { landing, step } = search;
   const { u: su, v: sv, distance: sd, settled } = out;
   for (let sweep = 0; sweep < 2; sweep++) {
     const forward = sweep === 0;
@@ -363,18 +284,21 @@ export function inverseSearch(
         let startU = su[s];
         let startV = sv[s];
         let best = forward ? Number.NaN : sd[s];
+        // The slope at the best start so far, which the first descent step then uses.
         let haveSlope = false;
+        let slopeX = 0;
+        let slopeY = 0;
         if (Number.isNaN(best)) {
-          // The start's distance comes with its slope, which the first descent step then uses.
-          const t = PATCH_TERMS * s;
-          best = patchDistanceAndSlope(
-            frames, size, x0, y0, startU, startV, meanNormalised, terms[t + 3], terms[t + 4], landing, line,
-            search.step,
-          );
+          land(frames, size, x0, y0, startU, startV, landing);
+          matchPatch(search, s, x0, y0);
+          best = search.distance;
+          slopeX = step[0];
+          slopeY = step[1];
           haveSlope = true;
         }
         // Spatial propagation: the neighbours visited just before, along the row and in the previous row.
         // A candidate within MIN_CANDIDATE_DISTANCE of the start would descend to the same point: skipped.
+        // Its slope comes with its distance, so a candidate that wins needs no second evaluation to descend.
         let moved = false;
         for (let k = 0; k < 2; k++) {
           if (k === 0 ? jj === 0 : ii === 0) continue;
@@ -384,17 +308,25 @@ export function inverseSearch(
           const du = cu - startU;
           const dv = cv - startV;
           if (du * du + dv * dv < MIN_CANDIDATE_DISTANCE * MIN_CANDIDATE_DISTANCE) continue;
-          const distance = patchDistance(frames, size, x0, y0, cu, cv, meanNormalised, landing, line);
-          if (distance < best) {
-            best = distance;
+          land(frames, size, x0, y0, cu, cv, landing);
+          matchPatch(search, s, x0, y0);
+          if (search.distance < best) {
+            best = search.distance;
             startU = cu;
             startV = cv;
-            haveSlope = false;
+            slopeX = step[0];
+            slopeY = step[1];
+            haveSlope = true;
             moved = true;
           }
         }
         if (!forward && !moved && settled[s] === 1) continue;
-        descend(search, s, x0, y0, startU, startV, best, haveSlope, out);
+        su[s] = startU;
+        sv[s] = startV;
+        search.distance = best;
+        step[0] = slopeX;
+        step[1] = slopeY;
+        descend(search, s, x0, y0, haveSlope, out);
       }
     }
   }

@@ -3,6 +3,8 @@
 // patch reads need no bounds checks, first derivatives for the patch search, backward warping and upsampling of
 // planar (u, v) fields. All edges repeat the edge pixel.
 
+import { resampleBufferLength, resampleField, resizeAxis } from './resample.js';
+
 /** Side of a pyramid level: each level halves the one below, rounding down. */
 export function levelSide(side: number, scale: number): number {
   return Math.floor(side / 2 ** scale);
@@ -98,36 +100,14 @@ export function warpPlanar(
 
 /** Floats upsampleFlow needs in its `lines` buffer. */
 export function upsampleBufferLength(dstWidth: number): number {
-  return 4 * dstWidth;
-}
-
-/** Source row y widened to the destination width, u and v interleaved and multiplied by the factor. */
-function widenRow(
-  u: Float32Array,
-  v: Float32Array,
-  sw: number,
-  y: number,
-  columns: Int32Array,
-  weights: Float64Array,
-  factor: number,
-  line: Float32Array,
-): void {
-  const row = y * sw;
-  const last = row + sw - 1;
-  for (let x = 0, o = 0; x < columns.length; x++, o += 2) {
-    const a = row + columns[x];
-    const b = a < last ? a + 1 : a;
-    const f = weights[x];
-    line[o] = (u[a] + f * (u[b] - u[a])) * factor;
-    line[o + 1] = (v[a] + f * (v[b] - v[a])) * factor;
-  }
+  return resampleBufferLength(dstWidth);
 }
 
 /**
  * Bilinear upsampling of a planar field by `factor` (a power of two, the ratio between pyramid levels):
  * destination pixel x reads the source at (x + ½)/factor − ½, clamped to the source, and the vectors are
- * multiplied by `factor`. Separable: each source row is widened once into one of two lines (`lines` holds
- * upsampleBufferLength floats), and destination rows blend the two lines around them.
+ * multiplied by `factor` (resample.ts resampleField; `lines` holds upsampleBufferLength floats). The ratio is
+ * exactly 1/factor even where a level's side was rounded down.
  * u goes to dstU[i·step] and v to dstV[i·step]; pass `out` and `out.subarray(1)` with step 2 for an interleaved
  * result.
  */
@@ -144,42 +124,8 @@ export function upsampleFlow(
   dh: number,
   step: number,
 ): void {
-  const inverse = 1 / factor;
-  const lastX = sw - 1;
-  const lastY = sh - 1;
-  // Per destination column: the left source column and the right one's weight (small, so made per call).
-  const columns = new Int32Array(dw);
-  const weights = new Float64Array(dw);
-  for (let x = 0; x < dw; x++) {
-    let sx = (x + 0.5) * inverse - 0.5;
-    sx = sx < 0 ? 0 : sx > lastX ? lastX : sx;
-    columns[x] = Math.floor(sx);
-    weights[x] = sx - columns[x];
-  }
-  const slots = [lines.subarray(0, 2 * dw), lines.subarray(2 * dw, 4 * dw)];
-  const held = [-1, -1];
-  const line = (y: number): Float32Array => {
-    const slot = held[0] === y ? 0 : held[1] === y ? 1 : -1;
-    if (slot >= 0) return slots[slot];
-    // Replace the slot holding the lower row: rows only move down.
-    const free = held[0] < held[1] ? 0 : 1;
-    widenRow(u, v, sw, y, columns, weights, factor, slots[free]);
-    held[free] = y;
-    return slots[free];
-  };
-  for (let y = 0; y < dh; y++) {
-    let sy = (y + 0.5) * inverse - 0.5;
-    sy = sy < 0 ? 0 : sy > lastY ? lastY : sy;
-    const y0 = Math.floor(sy);
-    const f = sy - y0;
-    const top = line(y0);
-    const bottom = y0 < lastY ? line(y0 + 1) : top;
-    let o = y * dw * step;
-    for (let x = 0; x < 2 * dw; x += 2, o += step) {
-      const uTop = top[x];
-      const vTop = top[x + 1];
-      dstU[o] = uTop + f * (bottom[x] - uTop);
-      dstV[o] = vTop + f * (bottom[x + 1] - vTop);
-    }
-  }
+  const ratio = 1 / factor;
+  const xs = resizeAxis(sw, dw, ratio);
+  const ys = resizeAxis(sh, dh, ratio);
+  resampleField({ u, v, step: 1 }, sw, sh, { u: dstU, v: dstV, step }, dw, dh, xs, ys, factor, factor, lines);
 }

@@ -19,10 +19,14 @@ export interface PatchGrid {
   rows: number;
 }
 
+/** Patches along one side of the level. */
+function patchesAlong(side: number, size: number, stride: number): number {
+  return side < size ? 0 : 1 + Math.floor((side - size) / stride);
+}
+
 export function patchGrid(width: number, height: number, size: number, stride: number): PatchGrid {
-  const along = (side: number): number => (side < size ? 0 : 1 + Math.floor((side - size) / stride));
-  const cols = along(width);
-  const rows = along(height);
+  const cols = patchesAlong(width, size, stride);
+  const rows = patchesAlong(height, size, stride);
   return { size, stride, cols: rows === 0 ? 0 : cols, rows: cols === 0 ? 0 : rows };
 }
 

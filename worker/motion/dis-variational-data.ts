@@ -61,7 +61,6 @@ export function dataTerms(
   const mean = workspace.float32('dis.data.mean', pixels);
   const ix = workspace.float32('dis.data.ix', pixels);
   const iy = workspace.float32('dis.data.iy', pixels);
-  const dzx = workspace.float32('dis.data.dzx', pixels);
   warpPlanar(next, w, h, u, v, warped);
   for (let p = 0; p < pixels; p++) {
     mean[p] = 0.5 * (prev[p] + warped[p]);
@@ -70,23 +69,23 @@ export function dataTerms(
   const iz = warped;
   differenceX(mean, w, h, ix);
   differenceY(mean, w, h, iy);
-  // The mean is no longer needed: its buffer takes ∂Ix/∂x.
-  const ixx = mean;
-  differenceX(ix, w, h, ixx);
-  differenceX(iz, w, h, dzx);
   const zeta2 = ZETA * ZETA;
+  // The second derivatives are differences of the first ones taken here, with the rule of differenceX and
+  // differenceY at the edges (one-sided), rather than in passes of their own.
   for (let y = 0; y < h; y++) {
     const up = (y > 0 ? y - 1 : 0) * w;
     const down = (y < h - 1 ? y + 1 : y) * w;
     const row = y * w;
     for (let x = 0; x < w; x++) {
       const p = row + x;
+      const before = x > 0 ? p - 1 : p;
+      const after = x < w - 1 ? p + 1 : p;
       const gx = ix[p];
       const gy = iy[p];
-      const xx = ixx[p];
+      const xx = ix[after] - ix[before];
       const xy = ix[down + x] - ix[up + x];
       const yy = iy[down + x] - iy[up + x];
-      const xz = dzx[p];
+      const xz = iz[after] - iz[before];
       const yz = iz[down + x] - iz[up + x];
       const colourScale = 1 / Math.sqrt(gx * gx + gy * gy + zeta2);
       const xScale = 1 / Math.sqrt(xx * xx + xy * xy + zeta2);

@@ -142,7 +142,7 @@ export function solveFlowBox(
   for (let y = 0; y < height; y++) {
     const leaving = Math.max(y - m - 1, 0) * rowLength;
     const entering = Math.min(y + m, height - 1) * rowLength;
-    for (let x = 0; x < rowLength; x++) vsum[pad + x] += matrices[entering + x] - matrices[leaving + x];
+    slideColumnSums(vsum, pad, matrices, entering, leaving, rowLength);
     for (let x = 0; x < pad; x++) {
       vsum[pad - 1 - x] = vsum[pad + C - 1 - (x % C)];
       vsum[pad + rowLength + x] = vsum[pad + rowLength - C + (x % C)];
@@ -175,6 +175,27 @@ export function solveFlowBox(
   }
   // The last m + 1 rows are read as entering rows until the end.
   if (refresh !== undefined) refresh(Math.max(height - m - 1, 0), height);
+}
+
+/**
+ * Moves `length` column sums from `from` down one row: sums[from + i] += M[entering + i] − M[leaving + i]. One
+ * pixel (5 values) per iteration, written out: measured under half the time of the plain loop over values.
+ */
+function slideColumnSums(
+  sums: Float64Array,
+  from: number,
+  matrices: Float32Array,
+  entering: number,
+  leaving: number,
+  length: number,
+): void {
+  for (let i = from, e = entering, l = leaving, end = from + length; i < end; i += C, e += C, l += C) {
+    sums[i] += matrices[e] - matrices[l];
+    sums[i + 1] += matrices[e + 1] - matrices[l + 1];
+    sums[i + 2] += matrices[e + 2] - matrices[l + 2];
+    sums[i + 3] += matrices[e + 3] - matrices[l + 3];
+    sums[i + 4] += matrices[e + 4] - matrices[l + 4];
+  }
 }
 
 /** The normalised one-sided Gaussian window of OpenCV's FarnebackUpdateFlow_GaussianBlur (index 0 = centre). */

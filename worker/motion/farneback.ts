@@ -8,7 +8,7 @@ import { POLY_CHANNELS, polyExpand, polyExpansionConstants, polyRowBufferLength 
 import { gaussianWindow, solveFlowBox, solveFlowGaussian, updateMatrices } from './farneback-update.js';
 import { assertFramePair, assertInteger, assertRange, outputField } from './estimator-input.js';
 import { buildLevel, pyramidLevels, type PyramidLevel } from './pyramid.js';
-import { resizeFlow } from './resample.js';
+import { resampleBufferLength, resizeFlow } from './resample.js';
 import { MotionWorkspace } from './workspace.js';
 
 export interface FarnebackParams {
@@ -91,7 +91,7 @@ export function expandFrame(
   const coefficients = levels.map((level, k) => {
     const pixels = level.width * level.height;
     const image = workspace.float32('fb.image', pixels);
-    const rowBuffer = workspace.float32('fb.polyRow', polyRowBufferLength(level.width, params.polyN));
+    const rowBuffer = workspace.float64('fb.polyRow', polyRowBufferLength(level.width, params.polyN));
     const coefficientsAtLevel = store(k, pixels * POLY_CHANNELS);
     buildLevel(frame, width, height, level, image, workspace);
     polyExpand(image, level.width, level.height, constants, coefficientsAtLevel, rowBuffer);
@@ -144,7 +144,8 @@ export function estimateFromExpansions(
     } else {
       // OpenCV scales by 1/pyrScale even where rounding makes the size ratio differ slightly.
       const factor = 1 / params.pyrScale;
-      resizeFlow(coarser.flow, coarser.width, coarser.height, flow, w, h, factor, factor);
+      const lines = workspace.float32('fb.resizeLines', resampleBufferLength(w));
+      resizeFlow(coarser.flow, coarser.width, coarser.height, flow, w, h, factor, factor, lines);
     }
     const r0 = prev.coefficients[k];
     const r1 = next.coefficients[k];

@@ -62,9 +62,11 @@ export interface ResizeAxis {
   weight: Float32Array;
 }
 
-/** Per destination coordinate: the left/top source index and the weight of the next one. */
-export function resizeAxis(srcSize: number, dstSize: number): ResizeAxis {
-  const ratio = srcSize / dstSize;
+/**
+ * Per destination coordinate: the left/top source index and the weight of the next one, for source position
+ * (d + ½)·ratio − ½ clamped to the source; `ratio` is srcSize/dstSize unless given.
+ */
+export function resizeAxis(srcSize: number, dstSize: number, ratio = srcSize / dstSize): ResizeAxis {
   const index = new Int32Array(dstSize);
   const weight = new Float32Array(dstSize);
   for (let d = 0; d < dstSize; d++) {
@@ -116,7 +118,94 @@ export function resizeBilinear(
   }
 }
 
-/** Resizes an interleaved (u, v) field and multiplies u by `scaleU` and v by `scaleV` (pixel units change). */
+/**
+ * A field's two components: u of pixel i at u[i·step] and v at v[i·step]. Planar planes have step 1; an
+ * interleaved (u, v) array is { u: flow, v: flow.subarray(1), step: 2 }.
+ */
+export interface FieldPlanes {
+  u: Float32Array;
+  v: Float32Array;
+  step: number;
+}
+
+/** Floats resampleField needs in its `lines` buffer. */
+export function resampleBufferLength(dstWidth: number): number {
+  return 4 * dstWidth;
+}
+
+/**
+ * Bilinear resampling of a field to dw × dh at the source positions the axes give (see resizeAxis), u multiplied
+ * by `scaleU` and v by `scaleV` (pixel units change with the size). Separable, as OpenCV's resize: each source
+ * row is interpolated along x once, into one of two single-precision lines (`lines` holds resampleBufferLength
+ * floats), and each destination row blends the two lines around it, so upsampling reads every source row once.
+ */
+export function resampleField(
+  src: FieldPlanes,
+  sw: number,
+  sh: number,
+  dst: FieldPlanes,
+  dw: number,
+  dh: number,
+  xs: ResizeAxis,
+  ys: ResizeAxis,
+  scaleU: number,
+  scaleV: number,
+  lines: Float32Array,
+): void {
+  let upper = lines.subarray(0, 2 * dw);
+  let lower = lines.subarray(2 * dw, 4 * dw);
+  let upperRow = -1;
+  let lowerRow = -1;
+  const { u, v, step } = dst;
+  for (let dy = 0; dy < dh; dy++) {
+    const y0 = ys.index[dy];
+    const y1 = y0 + 1 < sh ? y0 + 1 : y0;
+    // Source rows only move down: a row already widened as the lower line becomes the upper one.
+    if (y0 !== upperRow) {
+      if (y0 === lowerRow) {
+        const line = upper;
+        upper = lower;
+        lower = line;
+        lowerRow = -1;
+      } else {
+        widenRow(src, sw, y0, xs, dw, upper);
+      }
+      upperRow = y0;
+    }
+    if (y1 !== y0 && y1 !== lowerRow) {
+      widenRow(src, sw, y1, xs, dw, lower);
+      lowerRow = y1;
+    }
+    const below = y1 === y0 ? upper : lower;
+    const fy = ys.weight[dy];
+    const gy = 1 - fy;
+    for (let i = 0, o = dy * dw * step, end = 2 * dw; i < end; i += 2, o += step) {
+      u[o] = (upper[i] * gy + below[i] * fy) * scaleU;
+      v[o] = (upper[i + 1] * gy + below[i + 1] * fy) * scaleV;
+    }
+  }
+}
+
+/** Source row y of a field interpolated along x at the axis positions, u and v interleaved into `line`. */
+function widenRow(src: FieldPlanes, sw: number, y: number, xs: ResizeAxis, dw: number, line: Float32Array): void {
+  const { u, v, step } = src;
+  const row = y * sw;
+  const { index, weight } = xs;
+  for (let x = 0, o = 0; x < dw; x++, o += 2) {
+    const left = index[x];
+    const a = (row + left) * step;
+    const b = left + 1 < sw ? a + step : a;
+    const f = weight[x];
+    const g = 1 - f;
+    line[o] = u[a] * g + u[b] * f;
+    line[o + 1] = v[a] * g + v[b] * f;
+  }
+}
+
+/**
+ * Resizes an interleaved (u, v) field as OpenCV's resize does and multiplies u by `scaleU` and v by `scaleV`.
+ * `lines` holds resampleBufferLength(dstWidth) floats.
+ */
 export function resizeFlow(
   src: Float32Array,
   srcWidth: number,
@@ -126,10 +215,19 @@ export function resizeFlow(
   dstHeight: number,
   scaleU: number,
   scaleV: number,
+  lines: Float32Array,
 ): void {
-  resizeBilinear(src, srcWidth, srcHeight, dst, dstWidth, dstHeight, 2);
-  for (let i = 0; i < dst.length; i += 2) {
-    dst[i] *= scaleU;
-    dst[i + 1] *= scaleV;
-  }
+  resampleField(
+    { u: src, v: src.subarray(1), step: 2 },
+    srcWidth,
+    srcHeight,
+    { u: dst, v: dst.subarray(1), step: 2 },
+    dstWidth,
+    dstHeight,
+    resizeAxis(srcWidth, dstWidth),
+    resizeAxis(srcHeight, dstHeight),
+    scaleU,
+    scaleV,
+    lines,
+  );
 }
