@@ -1,6 +1,7 @@
 /**
  * Motion benchmark (not a test): pairs per second and average endpoint error (AEE) of every Kinefold estimator on
- * pairs with known motion, on one thread and across a worker-thread pool (one thread per core), side by side with
+ * pairs with known motion, on one thread (in a process of its own, as native OpenCV's) and across a worker-thread
+ * pool (one thread per core), side by side with
  * native OpenCV (Debian's python3-opencv, one thread: Farnebäck with the same parameters and the DIS presets, through
  * /work/shared/tools/opencv-reference.py) on the same 8-bit frames in the same run. Ratios are ours / native.
  *   npm run bench:motion [-- --runs 10 --rounds 3]
@@ -13,17 +14,17 @@ import { execFile } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { parseArgs, promisify } from 'node:util';
 import { Piscina } from 'piscina';
 import sharp from 'sharp';
 import { isUnknownFlow } from '../shared/motion/unknown-flow';
 import { grove3Available, GROVE3_FETCH_COMMAND, loadGrove3 } from '../tests/helpers/grove3';
 import { makeMotionPair, type Warp } from '../tests/helpers/motion-pairs';
-import { averageErrors } from '../worker/motion/error-measures';
 import { encodeFlo } from '../worker/motion/flo';
-import { ESTIMATOR_NAMES, estimateMotion, resolveParams, type Estimator } from '../worker/motion/index';
+import { ESTIMATOR_NAMES, resolveParams, type Estimator } from '../worker/motion/index';
 import { warpBackward } from '../worker/motion/resample';
-import { MotionWorkspace } from '../worker/motion/workspace';
+import type { OneThreadFigures } from './motion-one-thread';
 import type { BenchPairTask } from './motion-thread';
 
 const { values } = parseArgs({
@@ -35,6 +36,7 @@ const ROUNDS = Math.max(1, Number(values.rounds));
 const THREADS = os.availableParallelism();
 const PYTHON = '/usr/bin/python3';
 const REFERENCE = '/work/shared/tools/opencv-reference.py';
+const ONE_THREAD = fileURLToPath(new URL('./motion-one-thread.ts', import.meta.url));
 const NATIVE = ['farneback', 'dis-fast', 'dis-medium'] as const;
 const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-motion-'));
 
@@ -76,24 +78,11 @@ async function grove3(): Promise<Pair> {
     truth: grove.truth };
 }
 
-function median(values: number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
-}
-
-function oneThread(pair: Pair, estimator: Estimator, workspace: MotionWorkspace): { ms: number; aee: number } {
-  const params = resolveParams(estimator);
-  const { prev, next, width, height } = pair;
-  const out = new Float32Array(2 * width * height);
-  estimateMotion(estimator, prev, next, width, height, params, workspace, out);
-  const times: number[] = [];
-  for (let r = 0; r < RUNS; r++) {
-    const start = performance.now();
-    estimateMotion(estimator, prev, next, width, height, params, workspace, out);
-    times.push(performance.now() - start);
-  }
-  return { ms: median(times), aee: averageErrors(out, pair.truth, width, height).aee };
+/** Our estimators on one thread, in a process of their own (see motion-one-thread.ts), on the pair's raw files. */
+async function oneThread(pair: Pair, base: string): Promise<OneThreadFigures> {
+  const { stdout } = await promisify(execFile)(process.execPath, ['--import', 'tsx', ONE_THREAD, base,
+    String(pair.width), String(pair.height), String(RUNS)], { maxBuffer: 1 << 20 });
+  return JSON.parse(stdout) as OneThreadFigures;
 }
 
 function shared(frame: Float32Array): SharedArrayBuffer {
@@ -120,13 +109,19 @@ async function writeGreyPng(frame: Float32Array, width: number, height: number, 
   return file;
 }
 
-/** The pair as OpenCV reads it: two 8-bit grey PNGs and the truth as .flo; answers the three paths. */
-async function writePair(pair: Pair, index: number): Promise<string[]> {
+/**
+ * The pair as OpenCV reads it (two 8-bit grey PNGs and the truth as .flo) and as our one-thread process reads it
+ * (raw float32 files beside them); answers OpenCV's three paths and the base of the raw files.
+ */
+async function writePair(pair: Pair, index: number): Promise<{ files: string[]; base: string }> {
   const base = path.join(work, `pair-${index}`);
   const a = await writeGreyPng(pair.prev, pair.width, pair.height, `${base}-a.png`);
   const b = await writeGreyPng(pair.next, pair.width, pair.height, `${base}-b.png`);
   fs.writeFileSync(`${base}-truth.flo`, encodeFlo(pair.truth, pair.width, pair.height));
-  return [a, b, `${base}-truth.flo`];
+  for (const [suffix, data] of [['a', pair.prev], ['b', pair.next], ['truth', pair.truth]] as const) {
+    fs.writeFileSync(`${base}-${suffix}.f32`, Buffer.from(data.buffer, data.byteOffset, data.byteLength));
+  }
+  return { files: [a, b, `${base}-truth.flo`], base };
 }
 
 /** Native OpenCV on the same frames, one thread; null when Debian's python3-opencv is missing. */
@@ -192,16 +187,16 @@ async function main(): Promise<void> {
   console.log('| pair | method | ms/pair | pairs/s | pool pairs/s | AEE px | ×FB 1 thread | ×FB pool '
     + '| ×DIS-m 1 thread | ×DIS-m pool | AEE ÷ FB |');
   console.log('|---|---|---|---|---|---|---|---|---|---|---|');
-  const workspace = new MotionWorkspace();
   try {
     for (const [index, pair] of pairs.entries()) {
-      const files = await writePair(pair, index);
+      const { files, base } = await writePair(pair, index);
       const ours = new Map<Estimator, Figures>();
       let reference: NativeFigures | null = null;
       for (let round = 0; round < ROUNDS; round++) {
         reference = best(reference, await native(files));
+        const singles = await oneThread(pair, base);
         for (const estimator of ESTIMATOR_NAMES) {
-          const single = oneThread(pair, estimator, workspace);
+          const single = singles[estimator];
           const poolPairsPerS = await withPool(pool, pair, estimator);
           const previous = ours.get(estimator);
           ours.set(estimator, {
