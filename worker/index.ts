@@ -14,14 +14,15 @@ import { createJobRuntime } from './runtime/job-runtime';
 
 const config = loadConfig();
 // Set before the thread pool, ffmpeg and libuv's threads start, so they inherit it: the worker's CPU-heavy work
-// yields to the server, which must keep answering people while clips process.
-os.setPriority(config.workerNice);
+// yields to the server, which must keep answering people while clips process. Only ever lowered: a process may not
+// raise its own priority, and one started nicer than this stays so.
+if (os.getPriority() < config.workerNice) os.setPriority(config.workerNice);
 const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
 const sequelize = await openKinefoldDatabase(config, { migrate: false });
 const pool = createFramePool();
 const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir), pool, owner });
 console.log(`Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, `
-  + `${config.jobConcurrency} jobs at once, nice ${config.workerNice}).`);
+  + `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`);
 
 const stopSchedule = startDailySchedule();
 

@@ -1,5 +1,6 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { Op } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -66,6 +67,12 @@ async function until<T>(find: () => Promise<T | null | undefined | false>, timeo
   }
 }
 
+/** The CPU niceness of a process's main thread, field 19 of /proc/<pid>/stat (proc(5)). */
+function niceOf(pid: number): number {
+  const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
+  return Number(stat.slice(stat.lastIndexOf(')') + 2).split(' ')[16]);
+}
+
 /** Each clip is a copy of the source with other bytes, so the project takes it as a new upload. */
 async function addClip(n: number): Promise<Clip> {
   const copy = path.join(path.dirname(source), `clip-${n}.mp4`);
@@ -97,6 +104,8 @@ describe('a worker killed at random moments', () => {
     const last = startWorker();
     await until(async () => (await Clip.count({ where: { projectId, state: 'awaiting_review' } })) === clips.length,
       60_000);
+    // KINEFOLD_WORKER_NICE's default (or the test's own niceness, if higher): the heavy work yields to the server.
+    expect(niceOf(last.pid!)).toBe(Math.max(10, os.getPriority()));
     last.kill('SIGTERM');
     expect(await exited(last)).toBe(0);
 
