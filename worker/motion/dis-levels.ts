@@ -65,39 +65,6 @@ export function patchSource(image: Float32Array, w: number, h: number, out: Floa
   }
 }
 
-/** out(x) = image(x + (u, v)(x)), bilinear, edges repeated; the field is planar. `out` must not be `image`. */
-export function warpPlanar(
-  image: Float32Array,
-  w: number,
-  h: number,
-  u: Float32Array,
-  v: Float32Array,
-  out: Float32Array,
-): void {
-  const maxX = w - 1;
-  const maxY = h - 1;
-  for (let y = 0; y < h; y++) {
-    const row = y * w;
-    for (let x = 0; x < w; x++) {
-      const p = row + x;
-      let sx = x + u[p];
-      let sy = y + v[p];
-      sx = sx < 0 ? 0 : sx > maxX ? maxX : sx;
-      sy = sy < 0 ? 0 : sy > maxY ? maxY : sy;
-      const x0 = Math.floor(sx);
-      const y0 = Math.floor(sy);
-      const fx = sx - x0;
-      const fy = sy - y0;
-      const i = y0 * w + x0;
-      const dx = x0 < maxX ? 1 : 0;
-      const dy = y0 < maxY ? w : 0;
-      const top = image[i] + fx * (image[i + dx] - image[i]);
-      const bottom = image[i + dy] + fx * (image[i + dy + dx] - image[i + dy]);
-      out[p] = top + fy * (bottom - top);
-    }
-  }
-}
-
 /** Floats upsampleFlow needs in its `lines` buffer. */
 export function upsampleBufferLength(dstWidth: number): number {
   return resampleBufferLength(dstWidth);

@@ -6,7 +6,7 @@
 // constants and derivative filters of OpenCV's VariationalRefinement (video/src/variational_refinement.cpp):
 // derivatives are plain differences I(x+1) − I(x−1) (its Sobel with ksize 1), which its weights are tuned for.
 
-import { warpPlanar } from './dis-levels.js';
+import { warpPlanar } from './resample.js';
 import type { MotionWorkspace } from './workspace.js';
 
 /** OpenCV's ζ (normalisation floor, grey levels per pixel) and ε (Charbonnier smoothing). */

@@ -33,13 +33,39 @@ export function warpBackward(
   flow: Float32Array,
   out: Float32Array,
 ): void {
+  warpBy(image, width, height, flow, flow, 2, 1, out);
+}
+
+/** warpBackward for a field stored as two planes, u and v. */
+export function warpPlanar(
+  image: Float32Array,
+  width: number,
+  height: number,
+  u: Float32Array,
+  v: Float32Array,
+  out: Float32Array,
+): void {
+  warpBy(image, width, height, u, v, 1, 0, out);
+}
+
+/** The warp of both layouts: pixel p moves by (u[stride·p], v[stride·p + vOffset]). */
+function warpBy(
+  image: Float32Array,
+  width: number,
+  height: number,
+  u: Float32Array,
+  v: Float32Array,
+  stride: number,
+  vOffset: number,
+  out: Float32Array,
+): void {
   const maxX = width - 1;
   const maxY = height - 1;
   for (let y = 0; y < height; y++) {
     for (let x = 0; x < width; x++) {
       const p = y * width + x;
-      let sx = x + flow[2 * p];
-      let sy = y + flow[2 * p + 1];
+      let sx = x + u[stride * p];
+      let sy = y + v[stride * p + vOffset];
       sx = sx < 0 ? 0 : sx > maxX ? maxX : sx;
       sy = sy < 0 ? 0 : sy > maxY ? maxY : sy;
       const x0 = Math.floor(sx);
