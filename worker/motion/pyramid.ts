@@ -5,7 +5,7 @@
 // The blur is computed only at the rows and columns the resize reads, which gives the same values as blurring
 // the whole frame first at a fraction of the cost on coarse levels.
 
-import { filterColumnsAt, gaussianBlur, gaussianKernel, reflect101 } from './gaussian-blur.js';
+import { filterAtEdge, filterColumnsAt, gaussianBlur, gaussianKernel } from './gaussian-blur.js';
 import { resizeAxis } from './resample.js';
 import type { MotionWorkspace } from './workspace.js';
 
@@ -63,17 +63,6 @@ export function levelKernel(scale: number): Float32Array {
   const sigma = (1 / scale - 1) * SIGMA_PER_SCALE_STEP;
   const taps = Math.max(roundHalfEven(sigma * TAPS_PER_SIGMA) | 1, MIN_TAPS);
   return gaussianKernel(taps, sigma);
-}
-
-/** Horizontal filter (symmetric kernel) of one source row at column x, the row's ends reflected. */
-function filterAtEdge(src: Float32Array, rowStart: number, width: number, kernel: Float32Array, x: number): number {
-  const radius = kernel.length >> 1;
-  let sum = kernel[radius] * src[rowStart + x];
-  for (let i = 1; i <= radius; i++) {
-    const left = src[rowStart + reflect101(x - i, width)];
-    sum += kernel[radius + i] * (left + src[rowStart + reflect101(x + i, width)]);
-  }
-  return sum;
 }
 
 /**
