@@ -1,6 +1,7 @@
 /**
  * `npm run demo:reset`: removes the database and every stored file under KINEFOLD_STORAGE_DIR, so the next
- * `npm start` creates the demo campaign afresh. Stop Kinefold first.
+ * `npm start` creates the demo campaign afresh. Refuses while a Kinefold server answers on PORT: deleting the
+ * database under a running server would leave it writing into files that are gone.
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -8,6 +9,23 @@ import { loadConfig } from '../config';
 
 const config = loadConfig();
 const KINEFOLD_FOLDERS = ['db', 'incoming', 'clips', 'pairsets'];
+const HEALTH_TIMEOUT_MS = 2000;
+
+async function kinefoldAnswers(port: number): Promise<boolean> {
+  try {
+    const response = await fetch(`http://127.0.0.1:${port}/api/health`,
+      { signal: AbortSignal.timeout(HEALTH_TIMEOUT_MS) });
+    return response.ok && ((await response.json()) as { status?: string }).status === 'ok';
+  } catch {
+    return false;
+  }
+}
+
+if (await kinefoldAnswers(config.port)) {
+  console.error(`demo:reset: Kinefold is running on port ${config.port}; stop it (Ctrl-C where npm start runs) `
+    + 'and run demo:reset again. Nothing was removed.');
+  process.exit(1);
+}
 for (const folder of KINEFOLD_FOLDERS) {
   fs.rmSync(path.join(config.storageDir, folder), { recursive: true, force: true });
 }
