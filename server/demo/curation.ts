@@ -35,9 +35,11 @@ async function waitForProcessing(files: string[], signal: AbortSignal): Promise<
 }
 
 /**
- * After the footage is in: the demo curator gives the scenario's verdicts (claiming each clip as the review screen
- * does), then the demo engineer defines the demo pairset from the accepted orchard clips and queues its build for
- * the worker. Each step is skipped when done already, so an interrupted first start finishes on the next.
+ * After the footage is in: the engineer's token and the admin's invitation; once the worker has processed the
+ * clips, the demo curator gives the scenario's verdicts (claiming each clip as the review screen does); then the
+ * demo engineer defines the demo pairset from the accepted orchard clips and queues its build, and once it is
+ * built a storage measure is queued. Each step is skipped when done already, so an interrupted first start
+ * finishes on the next.
  */
 export async function curateDemoCampaign(config: Config, signal: AbortSignal): Promise<void> {
   const curator = await User.findByEmail('curator@kinefold.test');
@@ -58,7 +60,10 @@ export async function curateDemoCampaign(config: Config, signal: AbortSignal): P
     log(`${curator.name} ${verdict.decision === 'accept' ? 'accepted' : 'rejected'} ${verdict.file}`);
   }
 
-  if (!(await Pairset.findOne({ where: { name: DEMO_PAIRSET.name } }))) await buildDemoPairset(engineer);
+  const defined = await Pairset.findOne({ where: { name: DEMO_PAIRSET.name } });
+  if (!defined) await buildDemoPairset(engineer);
+  // A start stopped between defining the pairset and queuing its build.
+  else if (defined.state === 'draft') await startBuild(defined.id, engineer);
   const built = await waitForPairset(signal);
   if (!built?.builtAt) return;
   // Measures every byte by kind for the storage screen now, as an admin's "Reconcile now" would, rather than at
