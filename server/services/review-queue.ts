@@ -111,44 +111,26 @@ export function queueSql(query: ReviewQueueQuery, now: Date): QueueSql {
   return { page, count, replacements };
 }
 
-interface QueueRow {
-  id: number;
-  originalName: string;
-  projectId: number;
-  projectName: string;
-  site: string;
-  uploaderId: number;
-  uploaderName: string;
-  durationS: number;
-  capturedAt: string | null;
-  createdAt: string;
+/** A queue row as SQLite answers it: the item's fields, with the stored forms of those the API reshapes. */
+type QueueRow = Omit<ReviewQueueItem, 'hasThumbnail' | 'flags' | 'claim'> & {
   hasThumbnail: number;
+  /** JSON array of flag names. */
   flags: string;
-  frameCount: number | null;
-  medianSharpness: number | null;
-  meanLuma: number | null;
-  meanMotion: number | null;
-  consistentShare: number | null;
-  cutCount: number | null;
-  usablePairs: number | null;
   claimHolderId: number | null;
   claimHolderName: string | null;
   claimExpiresAt: string | null;
-}
+};
 
 const iso = (stored: string) => new Date(stored).toISOString();
 
 function toItem(row: QueueRow): ReviewQueueItem {
+  const { claimHolderId, claimHolderName, claimExpiresAt, ...fields } = row;
   return {
-    id: row.id, originalName: row.originalName, projectId: row.projectId, projectName: row.projectName,
-    site: row.site, uploaderId: row.uploaderId, uploaderName: row.uploaderName, durationS: row.durationS,
+    ...fields,
     capturedAt: row.capturedAt ? iso(row.capturedAt) : null, createdAt: iso(row.createdAt),
-    hasThumbnail: Boolean(row.hasThumbnail), flags: JSON.parse(row.flags) as FlagName[], frameCount: row.frameCount,
-    medianSharpness: row.medianSharpness, meanLuma: row.meanLuma, meanMotion: row.meanMotion,
-    consistentShare: row.consistentShare, cutCount: row.cutCount, usablePairs: row.usablePairs,
-    claim: row.claimHolderId === null ? null : {
-      holderId: row.claimHolderId, holderName: row.claimHolderName ?? 'a former user',
-      expiresAt: iso(row.claimExpiresAt!),
+    hasThumbnail: Boolean(row.hasThumbnail), flags: JSON.parse(row.flags) as FlagName[],
+    claim: claimHolderId === null ? null : {
+      holderId: claimHolderId, holderName: claimHolderName ?? 'a former user', expiresAt: iso(claimExpiresAt!),
     },
   };
 }
