@@ -2,6 +2,7 @@ import {
   DataTypes, Model, QueryTypes, type CreationOptional, type InferAttributes, type InferCreationAttributes,
   type Sequelize,
 } from 'sequelize';
+import type { CutEvidence } from '../../shared/types/cuts';
 import type { ClipFrame, FrameMotion } from '../../shared/types/frames';
 
 /** A sampled still of a clip and its signals (DESIGN §2); written by the worker's sample and signals stages. */
@@ -22,6 +23,8 @@ export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes
   declare cutBefore: CreationOptional<boolean>;
   /** 1 − correlation of this frame's grey histogram with the previous frame's; null for the first frame. */
   declare cutScore: CreationOptional<number | null>;
+  /** What the cut detector measured against the previous frame and decided (shared/types/cuts.ts). */
+  declare cutEvidence: CreationOptional<CutEvidence | null>;
   /** 64-bit difference hash as 16 hex digits, compared across the project's clips for the duplicate flag. */
   declare dhash: CreationOptional<string | null>;
 
@@ -80,6 +83,7 @@ export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes
       cutBefore: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       cutScore: { type: DataTypes.FLOAT, allowNull: true },
       dhash: { type: DataTypes.STRING(16), allowNull: true },
+      cutEvidence: { type: DataTypes.JSON, allowNull: true },
     }, { sequelize, tableName: 'frames', timestamps: false });
   }
 }

@@ -2,6 +2,7 @@ import type { Sequelize } from 'sequelize';
 import { ApiToken } from './api-token.model';
 import { AuditEvent } from './audit-event.model';
 import { Clip } from './clip.model';
+import { CutMark } from './cut-mark.model';
 import { Frame } from './frame.model';
 import { Invitation } from './invitation.model';
 import { Job } from './job.model';
@@ -44,6 +45,7 @@ export function initModels(sequelize: Sequelize): void {
   Pairset.initModel(sequelize);
   Shard.initModel(sequelize);
   ApiToken.initModel(sequelize);
+  CutMark.initModel(sequelize);
 
   AuditEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId', constraints: false });
   Clip.belongsTo(Project, { as: 'project', foreignKey: 'projectId' });
@@ -52,6 +54,7 @@ export function initModels(sequelize: Sequelize): void {
   Job.belongsTo(Clip, { as: 'clip', foreignKey: 'clipId', constraints: false });
   Clip.hasMany(Frame, { as: 'frames', foreignKey: 'clipId', constraints: false });
   Clip.hasMany(MotionField, { as: 'motionFields', foreignKey: 'clipId', constraints: false });
+  CutMark.belongsTo(User, { as: 'markedBy', foreignKey: 'userId', constraints: false });
   Invitation.belongsTo(User, { as: 'invitedBy', foreignKey: 'invitedById', constraints: false });
   Clip.belongsTo(User, { as: 'claimHolder', foreignKey: 'claimedBy', constraints: false });
   // The verdict in force; the whole history is Verdict rows of the clip, superseded ones included.
@@ -64,6 +67,7 @@ export function initModels(sequelize: Sequelize): void {
 }
 
 export {
-  ApiToken, AuditEvent, Clip, Frame, Invitation, Job, MailMessage, MailOutbox, MotionField, Pairset, PasswordReset,
-  Project, QuotaWarning, RejectionDigest, Session, Setting, Shard, UploadReservation, UsageSnapshot, User, Verdict,
+  ApiToken, AuditEvent, Clip, CutMark, Frame, Invitation, Job, MailMessage, MailOutbox, MotionField, Pairset,
+  PasswordReset, Project, QuotaWarning, RejectionDigest, Session, Setting, Shard, UploadReservation, UsageSnapshot,
+  User, Verdict,
 };

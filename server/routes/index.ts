@@ -6,6 +6,7 @@ import { createAdminRouter } from './admin';
 import { createSettingsRouter } from './settings';
 import { auditRouter } from './audit';
 import { createAuthRouter, type AuthRouterDeps } from './auth';
+import { createClipCutsRouter } from './clip-cuts';
 import { createClipMediaRouter } from './clip-media';
 import { createClipsRouter } from './clips';
 import { healthRouter } from './health';
@@ -45,6 +46,7 @@ export function createApiRouter(deps: ApiDeps): Router {
   api.use('/projects', projectsRouter);
   api.use('/clips', createClipsRouter(deps.paths, deps.uploadLimitBytes, deps.config.publicUrl));
   api.use('/clips', createClipMediaRouter(deps.paths));
+  api.use('/clips', createClipCutsRouter());
   api.use('/clips', createClipReviewRouter());
   api.use('/review', createReviewRouter());
   api.use('/settings', createReviewSettingsRouter());

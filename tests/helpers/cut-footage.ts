@@ -102,7 +102,8 @@ export const CUT_SCENARIOS: readonly CutScenario[] = [
       + "[a][b]blend=all_expr='A*(1-clip(T-2.4,0,1))+B*clip(T-2.4,0,1)'[v]",
   },
   {
-    name: 'flash', about: 'one shot with a bright flash at 3 s (five source frames, one sampled frame): no cut', textures: [71],
+    name: 'flash', about: 'one shot with a bright flash at 3 s (five source frames, one sampled frame): no cut',
+    textures: [71],
     seconds: 6, transitions: [],
     graph: ({ shot }) => `${shot(0, 6, slowPan(100), '200', "eq=brightness=0.6:enable='between(t,2.91,3.09)'")}[v]`,
   },
@@ -112,7 +113,8 @@ export const CUT_SCENARIOS: readonly CutScenario[] = [
     graph: ({ shot }) => `${shot(0, 5, '20+n*n*0.18', '150+40*sin(n/9)')}[v]`,
   },
   {
-    name: 'fast-zoom', about: 'one shot zooming in fourfold in 2 s, 15 % a sampled frame: no cut', textures: [91], seconds: 4,
+    name: 'fast-zoom', about: 'one shot zooming in fourfold in 2 s, 15 % a sampled frame: no cut', textures: [91],
+    seconds: 4,
     transitions: [],
     graph: () => `${zoomShot(0, 4, 4, 2)}[v]`,
   },

@@ -56,7 +56,7 @@ describe('cut detection on the generated set', () => {
       .reduce((sum, s) => ({
         matched: sum.matched + s.matched, detected: sum.detected + s.detected, reference: sum.reference + s.reference,
       }));
-    expect(total.reference).toBe(9);
+    expect(total.reference).toBe(8);
     expect(total.matched / total.detected).toBeGreaterThanOrEqual(0.9);
     expect(total.matched / total.reference).toBeGreaterThanOrEqual(0.9);
   });

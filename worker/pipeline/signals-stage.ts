@@ -1,12 +1,13 @@
 import { Clip, Frame } from '../../server/models';
-import { detectCuts } from '../signals/cuts';
+import { detectClipCuts } from './cut-detection';
 import { forEachFrame } from './each-frame';
 import type { PipelineStage } from './stage';
 
 /**
  * signals: per-frame mean luma, RMS contrast, variance of the Laplacian and clipped shares (frame-signals.ts), the
- * frame's dHash (perceptual-hash.ts), and cuts from the correlation of grey histograms of neighbouring frames
- * (cuts.ts, after PySceneDetect's HistogramDetector) at the project's threshold.
+ * frame's dHash (perceptual-hash.ts), and cuts (cut-detection.ts): histogram distance (cuts.ts), edge change and
+ * a coarse motion verdict (cut-evidence.ts), decided against the clip's own local level (cut-decision.ts), with
+ * curators' cut marks overriding the detector.
  */
 export const signalsStage: PipelineStage = {
   name: 'signals',
@@ -16,7 +17,7 @@ export const signalsStage: PipelineStage = {
     const layout = paths.clipDerived(clip.id);
     const measured = await forEachFrame(frames.length, context, (index, signal) =>
       pool.measureFrame({ frameFile: layout.frame(index), cutBins: settings.cutBins }, signal));
-    const cuts = detectCuts(measured.map((m) => m.histogram), settings.cutThreshold);
+    const cuts = await detectClipCuts(clip.id, measured, settings.cutThreshold, context);
     const rows = frames.map((frame, index) => {
       const { signals, dhash } = measured[index]!;
       return {
@@ -29,7 +30,8 @@ export const signalsStage: PipelineStage = {
         clippedShare: signals.clippedShare,
         clippedHighShare: signals.clippedHighShare,
         cutBefore: cuts.cutBefore[index]!,
-        cutScore: index > 0 ? cuts.scores[index - 1]! : null,
+        cutScore: cuts.histogramDistances[index]!,
+        cutEvidence: cuts.evidence[index]!,
         dhash,
       };
     });
@@ -37,13 +39,18 @@ export const signalsStage: PipelineStage = {
       await Frame.destroy({ where: { clipId: clip.id }, transaction });
       await Frame.bulkCreate(rows, { transaction });
       await Clip.update({
-        cutCount: cuts.cutBefore.filter(Boolean).length,
+        cutCount: countTransitions(cuts.cutBefore),
         medianSharpness: median(rows.map((row) => row.sharpness)),
         meanLuma: rows.reduce((sum, row) => sum + row.meanLuma, 0) / Math.max(1, rows.length),
       }, { where: { id: clip.id }, transaction });
     });
   },
 };
+
+/** Runs of consecutive frames with a cut before them: a fade or dissolve is one transition, however long. */
+function countTransitions(cutBefore: readonly boolean[]): number {
+  return cutBefore.filter((cut, k) => cut && !cutBefore[k - 1]).length;
+}
 
 function median(values: number[]): number | null {
   if (values.length === 0) return null;

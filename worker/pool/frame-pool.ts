@@ -1,6 +1,8 @@
 import os from 'node:os';
 import { Piscina } from 'piscina';
 import type { FrameMeasurement, FrameViewsTask, MeasureFrameTask } from './frame-tasks';
+import type { PairEvidence } from '../signals/cut-evidence';
+import type { CutPairsTask } from './cut-tasks';
 import type { MotionPictureTask, MotionRunTask, PairMotion } from './motion-tasks';
 
 /**
@@ -15,6 +17,8 @@ export interface FramePool {
   /** Fields of a run of neighbouring frames; the thread keeps its motion buffers from one run to the next. */
   estimateMotionRun(task: Omit<MotionRunTask, 'kind'>, signal?: AbortSignal): Promise<PairMotion[]>;
   writeMotionPicture(task: Omit<MotionPictureTask, 'kind'>, signal?: AbortSignal): Promise<void>;
+  /** The cut detector's motion and edge evidence of consecutive thumbs, pair by pair. */
+  measureCutPairs(task: Omit<CutPairsTask, 'kind'>, signal?: AbortSignal): Promise<PairEvidence[]>;
   /** Threads at most, so a stage can split its work into enough pieces to keep each one busy. */
   threads: number;
   destroy(): Promise<void>;
@@ -41,6 +45,7 @@ export function createFramePool(threads = os.availableParallelism()): FramePool 
     writeFrameViews: (task, signal) => pool.run({ kind: 'views', ...task }, { signal }),
     estimateMotionRun: (task, signal) => pool.run({ kind: 'motion-run', ...task }, { signal }),
     writeMotionPicture: (task, signal) => pool.run({ kind: 'motion-picture', ...task }, { signal }),
+    measureCutPairs: (task, signal) => pool.run({ kind: 'cut-pairs', ...task }, { signal }),
     threads: maxThreads,
     destroy: () => pool.destroy(),
   };

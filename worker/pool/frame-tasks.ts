@@ -6,6 +6,7 @@ import { rgbToGrey } from '../../shared/colour/grey';
 import { rgbImageToLab } from '../../shared/colour/srgb-lab';
 import { encodeChroma, encodeLuma } from '../../shared/colour/view-encoding';
 import { readRgbImage, writeGreyPng, writeRgb16Png } from '../media/frame-images';
+import { cutThumb, type CutThumb } from '../signals/cut-evidence';
 import { greyHistogram } from '../signals/cuts';
 import { frameSignals, type FrameSignals } from '../signals/frame-signals';
 import { dHash, hashToHex } from '../signals/perceptual-hash';
@@ -22,6 +23,8 @@ export interface FrameMeasurement {
   histogram: Float64Array;
   /** dHash as 16 hex digits. */
   dhash: string;
+  /** Small copies for the cut detector's motion and edge evidence. */
+  cutThumb: CutThumb;
 }
 
 export interface FrameViewsTask {
@@ -40,6 +43,7 @@ export async function measureFrame({ frameFile, cutBins }: MeasureFrameTask): Pr
     signals: frameSignals(grey, width, height),
     histogram: greyHistogram(grey, cutBins),
     dhash: hashToHex(dHash(grey, width, height)),
+    cutThumb: cutThumb(grey, width, height),
   };
 }
 

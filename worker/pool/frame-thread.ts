@@ -4,12 +4,15 @@
  * thread.
  */
 import sharp from 'sharp';
+import type { PairEvidence } from '../signals/cut-evidence';
 import { measureFrame, writeFrameViews, type FrameMeasurement, type FrameTask } from './frame-tasks';
+import { measureCutPairs, type CutPairsTask } from './cut-tasks';
 import { estimateMotionRun, writeMotionPicture, type MotionTask, type PairMotion } from './motion-tasks';
 
 sharp.concurrency(1);
 
-export default function runFrameTask(task: FrameTask | MotionTask): Promise<FrameMeasurement | PairMotion[] | void> {
+export default function runFrameTask(task: FrameTask | MotionTask | CutPairsTask):
+  Promise<FrameMeasurement | PairMotion[] | PairEvidence[] | void> {
   switch (task.kind) {
     case 'measure':
       return measureFrame(task);
@@ -19,5 +22,7 @@ export default function runFrameTask(task: FrameTask | MotionTask): Promise<Fram
       return estimateMotionRun(task);
     case 'motion-picture':
       return writeMotionPicture(task);
+    case 'cut-pairs':
+      return Promise.resolve(measureCutPairs(task));
   }
 }

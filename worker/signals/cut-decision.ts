@@ -77,7 +77,9 @@ function firedMeasures(pair: PairMeasures, level: Omit<PairMeasures, 'motionCons
   if (pair.histogramDistance >= histogramAt) fired.histogram = histogramAt;
   const edgesAt = Math.max(EDGE_FLOOR, EDGE_STAND_OUT * level.edgeChange);
   if (pair.edgeChange >= edgesAt) fired.edges = edgesAt;
-  if (pair.motionConsistency !== null && pair.motionConsistency <= CONSISTENCY_COLLAPSE) fired.consistency = CONSISTENCY_COLLAPSE;
+  if (pair.motionConsistency !== null && pair.motionConsistency <= CONSISTENCY_COLLAPSE) {
+    fired.consistency = CONSISTENCY_COLLAPSE;
+  }
   return fired;
 }
 

@@ -82,7 +82,9 @@ export function cutThumb(grey: Float32Array, width: number, height: number): Cut
   const forEdges = resizeArea(grey, width, height, edgeSize.width, edgeSize.height);
   return {
     ...small, grey: coarse, spread: meanDeviation(coarse),
-    edgeWidth: edgeSize.width, edgeHeight: edgeSize.height, edges: sobelEdges(forEdges, edgeSize.width, edgeSize.height),
+    edgeWidth: edgeSize.width,
+    edgeHeight: edgeSize.height,
+    edges: sobelEdges(forEdges, edgeSize.width, edgeSize.height),
   };
 }
 

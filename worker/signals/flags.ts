@@ -8,7 +8,7 @@
  *   overexposedMeanLuma. Only highlights count: crushed shadows belong to dark footage.
  * - blurry: median variance of the Laplacian < blurryLaplacianVariance.
  * - short: duration < shortDurationS, else sampled frames < shortFrames.
- * - cut-heavy: detected cuts per minute > cutHeavyPerMinute.
+ * - cut-heavy: cuts per minute > cutHeavyPerMinute (a run of frames with cuts before them, a fade, counts once).
  * - duplicate: best near-duplicate share with one other clip > duplicateShare.
  * - static: median over motion fields of the field's mean magnitude < staticMeanMagnitude.
  * - shaky: camera shake shows as a global motion that keeps changing between steps, while a pan keeps it
@@ -121,7 +121,8 @@ function presentFields(input: ClipFlagInput): FlagFieldMotion[] {
 
 function cutsPerMinute(input: ClipFlagInput): number {
   if (!(input.durationS > 0)) return Number.NaN;
-  const cuts = input.frames.filter((f) => f.cutBefore).length;
+  // A fade or dissolve puts a cut before each of its frames; it is one transition.
+  const cuts = input.frames.filter((f, k) => f.cutBefore && !input.frames[k - 1]?.cutBefore).length;
   return (cuts * SECONDS_PER_MINUTE) / input.durationS;
 }
 

@@ -13,7 +13,9 @@ beforeAll(async () => {
 /** The value-noise texture of the motion tests, seen through a window at (x0, y0). */
 function window(width: number, height: number, x0: number, y0: number, seed = 3): Float32Array {
   const grey = new Float32Array(width * height);
-  for (let y = 0; y < height; y += 1) for (let x = 0; x < width; x += 1) grey[y * width + x] = texture(x + x0, y + y0, seed);
+  for (let y = 0; y < height; y += 1) {
+    for (let x = 0; x < width; x += 1) grey[y * width + x] = texture(x + x0, y + y0, seed);
+  }
   return grey;
 }
 
