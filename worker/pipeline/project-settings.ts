@@ -8,7 +8,8 @@ export interface PipelineSettings {
   sampleFps: number;
   workingSize: number;
   cutBins: number;
-  /** Cut before a frame when 1 − correlation of grey histograms ≥ this (cuts.ts); the `cutThreshold` setting. */
+  /** The histogram evidence of a cut fires when 1 − correlation of grey histograms ≥ this (cuts.ts,
+   * cut-decision.ts); the `cutThreshold` setting. */
   cutThreshold: number;
   flagThresholds: FlagThresholds;
 }

@@ -7,6 +7,8 @@
  * - a cut before frame i when the correlation with frame i−1 is ≤ 1 − threshold, i.e. when our score
  *   1 − correlation is ≥ threshold. Defaults: 128 bins and threshold 0.20, the defaults since PySceneDetect
  *   v0.7.2 (release notes: threshold 0.05 → 0.20, bins 256 → 128, "calibrated from the benchmarks").
+ * Kinefold uses this distance as one piece of evidence among several (cut-decision.ts): it fires at the project's
+ * threshold, or lower where it stands out from the clip around it.
  * Differences: PySceneDetect also enforces a minimum scene length (15 frames by default); we do not, because our
  * frames are sampled sparsely (e.g. 5 a second) and a cut must be marked wherever it is, so that no pair spans it.
  * Their calibration was on full frame rate video; at our sample rate fast motion changes histograms more
@@ -22,13 +24,6 @@ const MAX_GREY_CODE = 255;
 /** OpenCV's compareHist returns 1 when either histogram has no variance across bins; we keep that rule. */
 const FLAT_HISTOGRAM_CORRELATION = 1;
 const FLAT_EPSILON = Number.EPSILON;
-
-export interface CutDetection {
-  /** One entry per frame; the first frame never has a cut before it. */
-  cutBefore: boolean[];
-  /** One entry per neighbour pair (i, i+1): 1 − correlation, 0 for identical histograms, up to 2. */
-  scores: number[];
-}
 
 /** Histogram of the rounded 8-bit grey codes of a frame (grey on 0..255). */
 export function greyHistogram(grey: Float32Array, bins: number = DEFAULT_CUT_BINS): Float64Array {
@@ -69,22 +64,4 @@ export function histogramCorrelation(h1: Float64Array, h2: Float64Array): number
   }
   const denominator = var1 * var2;
   return Math.abs(denominator) > FLAT_EPSILON ? cross / Math.sqrt(denominator) : FLAT_HISTOGRAM_CORRELATION;
-}
-
-/** Marks a cut before each frame whose histogram moved at least `threshold` (1 − correlation) from the last. */
-export function detectCuts(
-  histograms: readonly Float64Array[],
-  threshold: number = DEFAULT_CUT_THRESHOLD,
-): CutDetection {
-  if (!(threshold > 0 && threshold <= 2)) {
-    throw new RangeError(`cut threshold must be in (0, 2], got ${threshold}`);
-  }
-  const cutBefore = histograms.map(() => false);
-  const scores: number[] = [];
-  for (let i = 1; i < histograms.length; i += 1) {
-    const score = 1 - histogramCorrelation(histograms[i - 1], histograms[i]);
-    scores.push(score);
-    cutBefore[i] = score >= threshold;
-  }
-  return { cutBefore, scores };
 }

@@ -3,10 +3,11 @@ import { mulberry32 } from '../../../shared/pairing/seeded-random';
 import {
   DEFAULT_CUT_BINS,
   DEFAULT_CUT_THRESHOLD,
-  detectCuts,
   greyHistogram,
   histogramCorrelation,
 } from '../../../worker/signals/cuts';
+import { cutThumb, pairEvidence } from '../../../worker/signals/cut-evidence';
+import { decideCuts, type PairMeasures } from '../../../worker/signals/cut-decision';
 import { loadOpenCv, type OpenCv } from './opencv';
 import { texturedGrey, withNoise } from './synthetic-frames';
 
@@ -56,6 +57,18 @@ describe('histogram correlation', () => {
   });
 });
 
+/** The detector on grey frames, as the signals stage runs it (worker/pipeline/cut-detection.ts). */
+function decide(frames: Float32Array[]) {
+  const thumbs = frames.map((grey) => cutThumb(grey, WIDTH, HEIGHT));
+  const histograms = frames.map((grey) => greyHistogram(grey));
+  const compare = (a: number, b: number): PairMeasures => ({
+    ...pairEvidence(thumbs[a]!, thumbs[b]!),
+    histogramDistance: 1 - histogramCorrelation(histograms[a]!, histograms[b]!),
+  });
+  const pairs = frames.slice(1).map((_, p) => compare(p, p + 1));
+  return decideCuts(pairs, compare, { histogramThreshold: DEFAULT_CUT_THRESHOLD });
+}
+
 describe('cut detection', () => {
   it('defaults to PySceneDetect v0.7.2: 128 bins, threshold 0.20', () => {
     // PySceneDetect v0.7.2 release notes: threshold 0.05 → 0.20, bins 256 → 128 (CHECK-VALUES §9 [V]).
@@ -72,28 +85,36 @@ describe('cut detection', () => {
         : texturedGrey(WIDTH, HEIGHT, 2, { mean: 170, amplitude: 50 });
       return withNoise(scene, 3, 100 + i);
     });
-    const { cutBefore, scores } = detectCuts(frames.map((f) => greyHistogram(f)));
-    expect(scores).toHaveLength(23);
+    const { cutBefore, evidence } = decide(frames);
     expect(cutBefore.map((c, i) => (c ? i : -1)).filter((i) => i >= 0)).toEqual([switchAt]);
-    expect(scores[switchAt - 1]).toBeGreaterThan(DEFAULT_CUT_THRESHOLD);
+    expect(evidence[switchAt]!.histogramDistance).toBeGreaterThan(DEFAULT_CUT_THRESHOLD);
+    expect(evidence[switchAt]!.fired.histogram).toBeDefined();
   });
 
   it('finds no cut in a slow brightness ramp', () => {
     // Generated clip: the same scene brightening by 0.5 grey levels a frame over 60 frames (30 levels in all).
     const scene = texturedGrey(WIDTH, HEIGHT, 5, { mean: 100, amplitude: 60 });
     const frames = Array.from({ length: 60 }, (_, i) => withNoise(scene.map((v) => v + i * 0.5), 2, 200 + i));
-    const { cutBefore, scores } = detectCuts(frames.map((f) => greyHistogram(f)));
+    const { cutBefore, evidence } = decide(frames);
     expect(cutBefore.some(Boolean)).toBe(false);
-    expect(Math.max(...scores)).toBeLessThan(DEFAULT_CUT_THRESHOLD);
+    expect(Math.max(...evidence.slice(1).map((e) => e!.histogramDistance))).toBeLessThan(DEFAULT_CUT_THRESHOLD);
     // The ramp as a whole does move the histogram: first against last frame would read as a cut.
     expect(1 - histogramCorrelation(greyHistogram(frames[0]), greyHistogram(frames[59]))).toBeGreaterThan(0.2);
   });
 
-  it('uses ≥ threshold on 1 − correlation, the same rule as PySceneDetect correlation ≤ 1 − threshold', () => {
+  it('lets the histogram fire at ≥ the project threshold on 1 − correlation, as PySceneDetect compares', () => {
+    // PySceneDetect cuts where correlation ≤ 1 − threshold, i.e. 1 − correlation ≥ threshold.
     const h1 = Float64Array.from([10, 0, 0, 10]);
     const h2 = Float64Array.from([10, 0, 10, 0]);
     const score = 1 - histogramCorrelation(h1, h2);
-    expect(detectCuts([h1, h2], score).cutBefore).toEqual([false, true]);
-    expect(detectCuts([h1, h2], score + 1e-9).cutBefore).toEqual([false, false]);
+    const pairs = (distance: number): PairMeasures[] => Array.from({ length: 9 }, (_, p) => ({
+      histogramDistance: distance, edgeChange: 0, motionConsistency: 1, warpError: 0.1 + p * 1e-3,
+    }));
+    const compare = (): PairMeasures => ({ histogramDistance: 0, edgeChange: 0, motionConsistency: 1, warpError: 0 });
+    // Every pair has the same distance, so only the project threshold, not the local level, can make it fire.
+    expect(decideCuts(pairs(score), compare, { histogramThreshold: score }).evidence[5]!.fired.histogram)
+      .toBe(score);
+    expect(decideCuts(pairs(score), compare, { histogramThreshold: score + 1e-9 }).evidence[5]!.fired.histogram)
+      .toBeUndefined();
   });
 });

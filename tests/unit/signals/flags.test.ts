@@ -100,6 +100,12 @@ describe('clip flags', () => {
     expect(clipFlags(input)).toEqual([]);
   });
 
+  it('counts a fade or dissolve (cuts before several frames in a row) as one cut', () => {
+    const input = normalClip(); // 20 s: three fades of 5 frames each are 9 transitions a minute [C], not 45
+    input.frames = input.frames.map((f, i) => ({ ...f, cutBefore: i % 30 >= 15 && i % 30 < 20 }));
+    expect(clipFlags(input).map((f) => [f.flag, f.value])).toEqual([['cut-heavy', 9]]);
+  });
+
   it('raises duplicate above a 0.5 near-duplicate share, and never without another clip', () => {
     expect(raisedNames({ ...normalClip(), duplicateShare: 0.9 })).toEqual(['duplicate']);
     expect(raisedNames({ ...normalClip(), duplicateShare: null })).toEqual([]);
