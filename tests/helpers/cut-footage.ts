@@ -123,6 +123,18 @@ export const CUT_SCENARIOS: readonly CutScenario[] = [
     seconds: 6, transitions: [],
     graph: ({ shot }) => `${shot(0, 6, '450+160*sin(n/8)+25*sin(n/2.3)', '250+70*sin(n/6.5)+15*cos(n/1.9)')}[v]`,
   },
+  {
+    name: 'handheld-cut', about: 'two handheld close-ups of one kind of foliage, cut at 3 s', textures: [111, 211],
+    seconds: 6, transitions: [{ fromS: 3, toS: 3 }],
+    graph: ({ shot }) => concat([
+      shot(0, 3, '450+160*sin(n/8)+25*sin(n/2.3)', '250+70*sin(n/6.5)+15*cos(n/1.9)'),
+      shot(1, 3, '500+150*sin(n/7+1)+25*sin(n/2.1)', '300+60*sin(n/6)+15*cos(n/1.7)')]),
+  },
+  {
+    name: 'pan-cut', about: 'a fast pan cut to another fast pan the other way at 2.4 s', textures: [121, 122],
+    seconds: 5, transitions: [{ fromS: 2.4, toS: 2.4 }],
+    graph: ({ shot }) => concat([shot(0, 2.4, '50+n*12', '200'), shot(1, 2.6, '900-n*12', '250', LOOK_WARM)]),
+  },
 ];
 
 export interface SampledClip {

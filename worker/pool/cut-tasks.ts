@@ -13,6 +13,11 @@ export interface CutPairsTask {
 
 const workspace = new MotionWorkspace();
 
+/** Pair by pair, each pair's camera shift is the hint for the next one. */
 export function measureCutPairs({ thumbs }: CutPairsTask): PairEvidence[] {
-  return thumbs.slice(1).map((next, k) => pairEvidence(thumbs[k]!, next, workspace));
+  const measured: PairEvidence[] = [];
+  for (let k = 1; k < thumbs.length; k += 1) {
+    measured.push(pairEvidence(thumbs[k - 1]!, thumbs[k]!, workspace, measured.at(-1)?.shift ?? null));
+  }
+  return measured;
 }

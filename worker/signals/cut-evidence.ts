@@ -5,7 +5,8 @@
  *   of a frame, X_in the edge pixels of the next frame farther than r from any edge of the previous one, X_out the
  *   reverse. Edges here are Sobel magnitudes above a fixed level on a small copy of the frame, not Canny's; the
  *   level and r are Kinefold's choices (common practice).
- * - the motion's verdict, from a coarse Farnebäck field each way on an even smaller copy: its forward–backward
+ * - the motion's verdict: the camera's global shift (global-shift.ts) and, where the shift alone leaves a large
+ *   error, a coarse Farnebäck field each way started from it on an even smaller copy: its forward–backward
  *   consistent share (consistency.ts, Sundaram, Brox & Keutzer, ECCV 2010) and its warp error, the mean absolute
  *   difference between the first frame and the second warped back by the field, over the mean absolute deviation
  *   of the two frames. Motion within a shot, even fast, is explained at the coarse scale: consistent, small
@@ -17,11 +18,11 @@ import { resizeArea } from '../../shared/pairing/area-resize';
 import { forwardBackwardConsistency } from '../motion/consistency';
 import { estimateFarneback, FARNEBACK_DEFAULTS, type FarnebackParams } from '../motion/farneback';
 import { warpBackward } from '../motion/resample';
-import { globalShift } from './global-shift';
+import { globalShift, shiftNear } from './global-shift';
 import { MotionWorkspace } from '../motion/workspace';
 
-/** Longest side of the copy the coarse motion runs on: a 320 px frame's motion shrinks fourfold. */
-export const MOTION_LONG_SIDE = 80;
+/** Longest side of the copy the coarse motion runs on: a 320 px frame's motion shrinks fivefold. */
+export const MOTION_LONG_SIDE = 64;
 /** Longest side of the copy whose edges are compared. */
 export const EDGE_LONG_SIDE = 160;
 /** Sobel magnitude (|gx| + |gy| on grey 0..255) from which a pixel counts as an edge. */
@@ -39,25 +40,33 @@ const UNJUDGED_WARP_ERROR = 1;
  * lowest level at which the warp error fires, cut-decision.ts), which spares the two fields for most pairs.
  */
 const SHIFT_EXPLAINS = 0.25;
+/** Coarse pixels around the last pair's shift searched before a full search. */
+const HINT_RADIUS = 2;
 /** Below this mean deviation (grey levels) a frame is flat: the warp error divides by this instead. */
 const MIN_SPREAD = 2;
 /**
- * Farnebäck for a picture 80 px wide: three levels reach motions of about a quarter of the width, a 9 px
- * window keeps the coarsest level (20 px) meaningful.
+ * Farnebäck for a picture 64 px wide, started from the global shift, so it only follows what the shift leaves
+ * (zoom, turn, parallax): three levels, a 9 px window that keeps the coarsest level (16 px) meaningful, and two
+ * iterations a level (OpenCV's default is 3), which halves its cost.
  */
-const COARSE_FARNEBACK: Readonly<FarnebackParams> = Object.freeze({ ...FARNEBACK_DEFAULTS, winSize: 9, levels: 4 });
+const COARSE_FARNEBACK: Readonly<FarnebackParams> = Object.freeze({
+  ...FARNEBACK_DEFAULTS, winSize: 9, levels: 3, iterations: 2,
+});
 
 /** A frame reduced to what cut detection compares. */
 export interface CutThumb {
   width: number;
   height: number;
-  /** Grey 0..255 at width × height (MOTION_LONG_SIDE). */
-  grey: Float32Array;
+  /**
+   * Grey 0..255 at width × height (MOTION_LONG_SIDE), rounded to bytes: a clip's thumbs are held together while its
+   * cuts are decided, so they are kept small (about 5 KB a frame with the packed edges).
+   */
+  grey: Uint8Array;
   /** Mean absolute deviation of `grey` from its mean. */
   spread: number;
   edgeWidth: number;
   edgeHeight: number;
-  /** 1 where an edge is, 0 elsewhere (EDGE_LONG_SIDE). */
+  /** The edge map at edgeWidth × edgeHeight (EDGE_LONG_SIDE), 8 pixels a byte (packEdges). */
   edges: Uint8Array;
 }
 
@@ -68,6 +77,8 @@ export interface PairEvidence {
   motionConsistency: number | null;
   /** Mean |first − second warped back| over the frames' mean deviation; about 0 when motion explains the pair. */
   warpError: number;
+  /** The camera's global shift found (coarse pixels), a hint for the next pair. */
+  shift: { dx: number; dy: number };
 }
 
 function scaledSize(width: number, height: number, longSide: number): { width: number; height: number } {
@@ -76,16 +87,49 @@ function scaledSize(width: number, height: number, longSide: number): { width: n
 }
 
 export function cutThumb(grey: Float32Array, width: number, height: number): CutThumb {
-  const small = scaledSize(width, height, MOTION_LONG_SIDE);
-  const coarse = resizeArea(grey, width, height, small.width, small.height);
   const edgeSize = scaledSize(width, height, EDGE_LONG_SIDE);
-  const forEdges = resizeArea(grey, width, height, edgeSize.width, edgeSize.height);
+  const forEdges = shrink(grey, width, height, edgeSize.width, edgeSize.height);
+  // The motion copy is made from the edge copy: a quarter of the pixels to average.
+  const small = scaledSize(width, height, MOTION_LONG_SIDE);
+  const coarse = shrink(forEdges, edgeSize.width, edgeSize.height, small.width, small.height);
   return {
-    ...small, grey: coarse, spread: meanDeviation(coarse),
+    ...small, grey: Uint8Array.from(coarse, Math.round), spread: meanDeviation(coarse),
     edgeWidth: edgeSize.width,
     edgeHeight: edgeSize.height,
-    edges: sobelEdges(forEdges, edgeSize.width, edgeSize.height),
+    edges: packEdges(sobelEdges(forEdges, edgeSize.width, edgeSize.height)),
   };
+}
+
+/**
+ * Area average to a smaller size; halving (the default 320 px working size gives 160 and 80) takes a direct 2×2
+ * mean, the same numbers as resizeArea's, at a fraction of its cost.
+ */
+function shrink(src: Float32Array, width: number, height: number, outWidth: number, outHeight: number): Float32Array {
+  if (outWidth * 2 !== width || outHeight * 2 !== height) return resizeArea(src, width, height, outWidth, outHeight);
+  const out = new Float32Array(outWidth * outHeight);
+  for (let y = 0; y < outHeight; y += 1) {
+    const top = 2 * y * width;
+    const bottom = top + width;
+    for (let x = 0; x < outWidth; x += 1) {
+      const left = 2 * x;
+      out[y * outWidth + x] = (src[top + left]! + src[top + left + 1]!
+        + src[bottom + left]! + src[bottom + left + 1]!) / 4;
+    }
+  }
+  return out;
+}
+
+/** An edge map of 0s and 1s, 8 pixels a byte, first pixel in the lowest bit. */
+export function packEdges(edges: Uint8Array): Uint8Array {
+  const packed = new Uint8Array(Math.ceil(edges.length / 8));
+  for (let p = 0; p < edges.length; p += 1) if (edges[p]) packed[p >> 3]! |= 1 << (p & 7);
+  return packed;
+}
+
+export function unpackEdges(packed: Uint8Array, pixels: number): Uint8Array {
+  const edges = new Uint8Array(pixels);
+  for (let p = 0; p < pixels; p += 1) edges[p] = (packed[p >> 3]! >> (p & 7)) & 1;
+  return edges;
 }
 
 function meanDeviation(values: Float32Array): number {
@@ -143,21 +187,22 @@ function gradientDirection(gx: number, gy: number): number {
 function dilate(edges: Uint8Array, width: number, height: number, radius: number): Uint8Array {
   const rows = new Uint8Array(edges.length);
   for (let y = 0; y < height; y += 1) {
+    const row = y * width;
     for (let x = 0; x < width; x += 1) {
+      const from = x > radius ? x - radius : 0;
+      const to = x + radius < width ? x + radius : width - 1;
       let hit = 0;
-      for (let dx = Math.max(0, x - radius); dx <= Math.min(width - 1, x + radius) && !hit; dx += 1) {
-        hit = edges[y * width + dx];
-      }
-      rows[y * width + x] = hit;
+      for (let i = from; i <= to; i += 1) hit |= edges[row + i]!;
+      rows[row + x] = hit;
     }
   }
   const out = new Uint8Array(edges.length);
   for (let y = 0; y < height; y += 1) {
+    const from = y > radius ? y - radius : 0;
+    const to = y + radius < height ? y + radius : height - 1;
     for (let x = 0; x < width; x += 1) {
       let hit = 0;
-      for (let dy = Math.max(0, y - radius); dy <= Math.min(height - 1, y + radius) && !hit; dy += 1) {
-        hit = rows[dy * width + x];
-      }
+      for (let i = from; i <= to; i += 1) hit |= rows[i * width + x]!;
       out[y * width + x] = hit;
     }
   }
@@ -203,28 +248,39 @@ export function edgeChangeRatio(
 }
 
 /** The motion's verdict and the edge change between two thumbs of one clip. */
-export function pairEvidence(prev: CutThumb, next: CutThumb, workspace = new MotionWorkspace()): PairEvidence {
+export function pairEvidence(
+  prev: CutThumb, next: CutThumb, workspace = new MotionWorkspace(), hint: { dx: number; dy: number } | null = null,
+): PairEvidence {
   if (prev.width !== next.width || prev.height !== next.height) {
     throw new RangeError(`thumbs differ in size: ${prev.width}×${prev.height} and ${next.width}×${next.height}`);
   }
   const { width, height } = prev;
   const pixels = width * height;
-  const shift = globalShift(prev.grey, next.grey, width, height);
+  const prevGrey = workspace.float32('cut.prevGrey', pixels);
+  const nextGrey = workspace.float32('cut.nextGrey', pixels);
+  prevGrey.set(prev.grey);
+  nextGrey.set(next.grey);
   const spread = Math.max(MIN_SPREAD, (prev.spread + next.spread) / 2);
-  const edgeChange = edgeChangeRatio(prev.edges, next.edges, prev.edgeWidth, prev.edgeHeight, {
+  // Within a shot the camera's shift changes little from pair to pair: the last one, if it explains this pair too,
+  // spares the full search.
+  const near = hint && shiftNear(prevGrey, nextGrey, width, height, hint.dx, hint.dy, HINT_RADIUS);
+  const shift = near && near.error / spread <= SHIFT_EXPLAINS ? near : globalShift(prevGrey, nextGrey, width, height);
+  const edgePixels = prev.edgeWidth * prev.edgeHeight;
+  const edgeChange = edgeChangeRatio(unpackEdges(prev.edges, edgePixels), unpackEdges(next.edges, edgePixels),
+    prev.edgeWidth, prev.edgeHeight, {
     dx: Math.round(shift.dx * (prev.edgeWidth / width)), dy: Math.round(shift.dy * (prev.edgeHeight / height)),
   });
   // Most pairs of a shot are explained by the camera's shift alone: no field is needed to say so.
   if (shift.error / spread <= SHIFT_EXPLAINS) {
-    return { edgeChange, motionConsistency: null, warpError: shift.error / spread };
+    return { edgeChange, motionConsistency: null, warpError: shift.error / spread, shift };
   }
-  const forward = shiftedField(prev.grey, next.grey, width, height, shift, workspace, 'cut.forward');
-  const backward = shiftedField(next.grey, prev.grey, width, height, { dx: -shift.dx, dy: -shift.dy }, workspace,
+  const forward = shiftedField(prevGrey, nextGrey, width, height, shift, workspace, 'cut.forward');
+  const backward = shiftedField(nextGrey, prevGrey, width, height, { dx: -shift.dx, dy: -shift.dy }, workspace,
     'cut.backward');
   const { mask } = forwardBackwardConsistency(forward, backward, width, height, undefined,
     new Uint8Array(pixels));
   const warped = workspace.float32('cut.warped', pixels);
-  warpBackward(next.grey, width, height, forward, warped);
+  warpBackward(nextGrey, width, height, forward, warped);
   let inside = 0;
   let consistent = 0;
   let error = 0;
@@ -236,7 +292,7 @@ export function pairEvidence(prev: CutThumb, next: CutThumb, workspace = new Mot
       if (!(tx >= 0 && tx <= width - 1 && ty >= 0 && ty <= height - 1)) continue;
       inside += 1;
       consistent += mask[p];
-      error += Math.abs(prev.grey[p] - warped[p]);
+      error += Math.abs(prevGrey[p]! - warped[p]!);
     }
   }
   const judged = inside >= MIN_INSIDE_SHARE * pixels;
@@ -244,6 +300,7 @@ export function pairEvidence(prev: CutThumb, next: CutThumb, workspace = new Mot
     edgeChange,
     motionConsistency: judged ? consistent / inside : 0,
     warpError: judged ? error / inside / spread : UNJUDGED_WARP_ERROR,
+    shift,
   };
 }
 

@@ -9,8 +9,8 @@ import { resizeArea } from '../../shared/pairing/area-resize';
 
 /** Overlaps smaller than this share of the picture are not tried: too few pixels to compare. */
 const MIN_OVERLAP_SHARE = 0.35;
-/** Largest shift tried, as a share of each side. */
-const MAX_SHIFT_SHARE = 0.4;
+/** Largest shift tried, as a share of each side (a fifth of the width a sampled frame is a very fast pan). */
+const MAX_SHIFT_SHARE = 0.35;
 /** Shifts of the half-size search refined at full size. */
 const CANDIDATES = 3;
 /** Full-size pixels searched around each refined candidate. */
@@ -55,6 +55,13 @@ function searchAround(
     }
   }
   return tried.sort((a, b) => a.error - b.error || a.dx ** 2 + a.dy ** 2 - (b.dx ** 2 + b.dy ** 2));
+}
+
+/** The best shift within `radius` of (dx, dy), at full size; null when no overlap there is large enough. */
+export function shiftNear(
+  prev: Float32Array, next: Float32Array, width: number, height: number, dx: number, dy: number, radius: number,
+): GlobalShift | null {
+  return searchAround(prev, next, width, height, dx, dy, radius, radius)[0] ?? null;
 }
 
 export function globalShift(prev: Float32Array, next: Float32Array, width: number, height: number): GlobalShift {
