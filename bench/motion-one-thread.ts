@@ -6,9 +6,9 @@
  * sharp), while native OpenCV runs in a process of its own as well.
  */
 import fs from 'node:fs';
-import { averageErrors } from '../worker/motion/error-measures';
+import { averageErrors } from '../worker/motion/fields/error-measures';
 import { ESTIMATOR_NAMES, estimateMotion, resolveParams, type Estimator } from '../worker/motion/index';
-import { MotionWorkspace } from '../worker/motion/workspace';
+import { MotionWorkspace } from '../worker/motion/kernels/workspace';
 
 export type OneThreadFigures = Record<Estimator, { ms: number; aee: number }>;
 

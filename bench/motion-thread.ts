@@ -3,7 +3,7 @@
  * shared memory (no copy per task) and the thread keeps one MotionWorkspace, as the product's pool threads do.
  */
 import { estimateMotion, type Estimator, type EstimatorParams } from '../worker/motion/index';
-import { MotionWorkspace } from '../worker/motion/workspace';
+import { MotionWorkspace } from '../worker/motion/kernels/workspace';
 
 export interface BenchPairTask {
   estimator: Estimator;

@@ -21,9 +21,9 @@ import sharp from 'sharp';
 import { isUnknownFlow } from '../shared/motion/unknown-flow';
 import { grove3Available, GROVE3_FETCH_COMMAND, loadGrove3 } from '../tests/helpers/grove3';
 import { makeMotionPair, type Warp } from '../tests/helpers/motion-pairs';
-import { encodeFlo } from '../worker/motion/flo';
+import { encodeFlo } from '../worker/motion/formats/flo';
 import { ESTIMATOR_NAMES, resolveParams, type Estimator } from '../worker/motion/index';
-import { warpBackward } from '../worker/motion/resample';
+import { warpBackward } from '../worker/motion/kernels/resample';
 import type { OneThreadFigures } from './motion-one-thread';
 import type { BenchPairTask } from './motion-thread';
 

@@ -1,7 +1,7 @@
 import type { NextFunction, Request, Response } from 'express';
 import type { z } from 'zod';
 import { HttpStatus } from '../../shared/http-status';
-import { AppError } from '../errors';
+import { AppError } from '../core/errors';
 
 declare global {
   namespace Express {

@@ -4,10 +4,10 @@ import { retentionQuerySchema, retentionRunSchema, type RetentionQuery } from '.
 import type { RetentionPreview, UsageReport } from '../../shared/types/admin';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { requestReconcile } from '../services/reconcile-requests';
-import { requestRetentionRun, retentionCandidates } from '../services/retention';
-import { usageReport } from '../services/usage';
-import type { StoragePaths } from '../storage/paths';
+import { requestReconcile } from '../core/usage/reconcile-requests';
+import { requestRetentionRun, retentionCandidates } from '../core/clips/retention';
+import { usageReport } from '../core/usage/usage';
+import type { StoragePaths } from '../core/storage/paths';
 
 export function createAdminRouter(paths: StoragePaths): Router {
   const router = Router();

@@ -8,7 +8,7 @@ import {
 import type { AuditEntry } from '../../shared/types/admin';
 import { requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { auditCsvLines, listAudit } from '../services/audit-log';
+import { auditCsvLines, listAudit } from '../core/audit/audit-log';
 
 /** Mounted at /api so the export keeps its `.csv` address: /api/audit and /api/audit.csv. */
 export const auditRouter = Router();

@@ -3,11 +3,11 @@ import passport from 'passport';
 import type { CsrfToken, Me } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import { signInSchema } from '../../shared/schemas/auth';
-import { ACCOUNT_DISABLED } from '../auth/passport';
-import { AppError } from '../errors';
+import { ACCOUNT_DISABLED } from '../middlewares/passport';
+import { AppError } from '../core/errors';
 import { validate } from '../middlewares/validate';
-import type { User } from '../models';
-import { recordSignIn } from '../services/users';
+import type { User } from '../core/models';
+import { recordSignIn } from '../core/people/users';
 
 export interface AuthRouterDeps {
   signInLimits: RequestHandler[];

@@ -7,9 +7,9 @@ import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
 import {
   clipProgress, framePath, listFrames, previewPath, reprocessClip, thumbnailPath, viewPath,
-} from '../services/clip-media';
-import { motionFieldPath, type MotionFile } from '../services/clip-motion';
-import type { StoragePaths } from '../storage/paths';
+} from '../core/clips/clip-media';
+import { motionFieldPath, type MotionFile } from '../core/clips/clip-motion';
+import type { StoragePaths } from '../core/storage/paths';
 
 /** What processing made of a clip, under /api/clips. Files stream with Range support (sendFile answers 206). */
 export function createClipMediaRouter(paths: StoragePaths): Router {

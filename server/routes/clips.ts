@@ -7,9 +7,9 @@ import type { ClipDetail, ClipSummary } from '../../shared/types/clips';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { receiveClipUpload } from '../middlewares/upload';
 import { validate } from '../middlewares/validate';
-import { admitUpload } from '../services/clip-admission';
-import { clipSourcePath, getClipDetail, listClips, removeClip, updateClipMetadata } from '../services/clips';
-import type { StoragePaths } from '../storage/paths';
+import { admitUpload } from '../core/clips/clip-admission';
+import { clipSourcePath, getClipDetail, listClips, removeClip, updateClipMetadata } from '../core/clips/clips';
+import type { StoragePaths } from '../core/storage/paths';
 
 export function createClipsRouter(paths: StoragePaths, uploadLimitBytes: number, publicUrl: string): Router {
   const router = Router();

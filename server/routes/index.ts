@@ -1,7 +1,7 @@
 import { Router } from 'express';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { apiNotFound } from '../middlewares/errors';
-import type { StoragePaths } from '../storage/paths';
+import type { StoragePaths } from '../core/storage/paths';
 import { createAdminRouter } from './admin';
 import { createSettingsRouter } from './settings';
 import { auditRouter } from './audit';

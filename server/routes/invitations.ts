@@ -6,13 +6,13 @@ import {
   type AcceptInvitationBody, type InvitationListQuery, type InviteBody,
 } from '../../shared/schemas/invitations';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
 import {
   acceptInvitation, createInvitation, listInvitations, previewInvitation, resendInvitation, revokeInvitation,
-} from '../services/invitations';
-import { recordSignIn } from '../services/users';
+} from '../core/people/invitations';
+import { recordSignIn } from '../core/people/users';
 
 type TokenParams = { token: string };
 

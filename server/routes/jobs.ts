@@ -5,7 +5,7 @@ import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import type { JobSummary } from '../../shared/types/admin';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { cancelJob, listJobs, retryJob } from '../services/jobs-admin';
+import { cancelJob, listJobs, retryJob } from '../core/jobs/jobs-admin';
 
 export const jobsRouter = Router();
 

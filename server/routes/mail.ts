@@ -3,7 +3,7 @@ import type { ListPage, MailLogEntry } from '../../shared/api-types';
 import { mailListQuerySchema, type MailListQuery } from '../../shared/schemas/mail';
 import { requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { listMail } from '../services/mail-log';
+import { listMail } from '../core/mail/mail-log';
 
 export const mailRouter = Router();
 

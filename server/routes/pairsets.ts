@@ -14,8 +14,8 @@ import { validate } from '../middlewares/validate';
 import {
   cancelBuild, createPairset, deletePairset, getPairsetDetail, listPairsets, manifestPath, newPairsetVersion,
   pairsetDifficulty, previewPairset, shardFile, startBuild,
-} from '../services/pairsets';
-import type { StoragePaths } from '../storage/paths';
+} from '../core/pairsets/pairsets';
+import type { StoragePaths } from '../core/storage/paths';
 
 /** Pairsets under /api/pairsets, for engineers (admins pass). Reads and downloads also take an API token. */
 export function createPairsetsRouter(paths: StoragePaths): Router {

@@ -4,10 +4,10 @@ import { HttpStatus } from '../../shared/http-status';
 import {
   resetPasswordSchema, resetRequestSchema, type ResetPasswordBody, type ResetRequestBody,
 } from '../../shared/schemas/password-reset';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { createResetRequestLimits } from '../middlewares/reset-request-limits';
 import { validate } from '../middlewares/validate';
-import { requestPasswordReset, resetPassword } from '../services/password-reset';
+import { requestPasswordReset, resetPassword } from '../core/people/password-reset';
 
 export const RESET_REQUESTED = 'If that address belongs to an active Kinefold account, a link to choose a new '
   + 'password is on its way. It works for one hour.';

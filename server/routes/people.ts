@@ -3,10 +3,10 @@ import type { ResetLinkSent, UserSummary } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import { updateUserSchema, type UpdateUserBody } from '../../shared/schemas/people';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { sendResetLink, updateUser } from '../services/people';
+import { sendResetLink, updateUser } from '../core/people/user-admin';
 
 /** What an admin does to one person on the people screen (mounted beside the users list at /users). */
 export function createPeopleRouter(config: Config): Router {

@@ -4,11 +4,11 @@ import { HttpStatus } from '../../shared/http-status';
 import {
   changePasswordSchema, updateProfileSchema, type ChangePasswordBody, type UpdateProfileBody,
 } from '../../shared/schemas/profile';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { currentUser, requireSignIn } from '../middlewares/auth';
 import { createPasswordChangeLimit } from '../middlewares/password-change-limit';
 import { validate } from '../middlewares/validate';
-import { changePassword, storageUse, updateProfile } from '../services/profile';
+import { changePassword, storageUse, updateProfile } from '../core/people/profile';
 
 /** Every signed-in person sees their storage and edits their own name and password (mounted beside GET /api/me). */
 export function createProfileRouter(config: Config): Router {

@@ -9,7 +9,7 @@ import {
 import type { ProjectSummary } from '../../shared/types/projects';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { createProject, getProject, listProjects, updateProject } from '../services/projects';
+import { createProject, getProject, listProjects, updateProject } from '../core/projects/projects';
 
 export const projectsRouter = Router();
 

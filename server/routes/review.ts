@@ -12,11 +12,11 @@ import type {
 } from '../../shared/types/review';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { bulkDecide } from '../services/review-bulk';
-import { claimClip, releaseClaim } from '../services/review-claims';
-import { listReviewQueue, reviewFacets } from '../services/review-queue';
-import { listRejectReasons, replaceRejectReasons } from '../services/review-reasons';
-import { decideClip } from '../services/review-verdicts';
+import { bulkDecide } from '../core/review/review-bulk';
+import { claimClip, releaseClaim } from '../core/review/review-claims';
+import { listReviewQueue, reviewFacets } from '../core/review/review-queue';
+import { listRejectReasons, replaceRejectReasons } from '../core/review/review-reasons';
+import { decideClip } from '../core/review/review-verdicts';
 
 /** Under /api/review: the queue, its filter lists and bulk decisions. Curators (and admins). */
 export function createReviewRouter(): Router {

@@ -1,9 +1,9 @@
 import { Router, type Request, type Response } from 'express';
 import { settingsSchema, type Settings } from '../../shared/schemas/settings';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { currentSettings, saveSettings } from '../services/settings';
+import { currentSettings, saveSettings } from '../core/settings/settings';
 
 /** `/api/settings`: the reject reasons live beside it at `/api/settings/reject-reasons` (Review). */
 export function createSettingsRouter(config: Config): Router {

@@ -8,7 +8,7 @@ import {
 import type { ApiTokenSummary, CreatedApiToken } from '../../shared/types/pairsets';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { createApiToken, listApiTokens, revokeApiToken } from '../services/api-tokens';
+import { createApiToken, listApiTokens, revokeApiToken } from '../core/people/api-tokens';
 
 /** The signed-in engineer's API tokens under /api/tokens (admins pass). A token itself never opens these. */
 export const tokensRouter = Router();

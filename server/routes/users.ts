@@ -3,7 +3,7 @@ import type { ListPage, UserSummary } from '../../shared/api-types';
 import { userListQuerySchema, type UserListQuery } from '../../shared/schemas/users';
 import { requireRole } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
-import { listUsers } from '../services/users';
+import { listUsers } from '../core/people/users';
 
 export const usersRouter = Router();
 

@@ -2,8 +2,8 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Clip, Job, Project, UploadReservation } from '../../server/models';
-import { storagePaths } from '../../server/storage/paths';
+import { Clip, Job, Project, UploadReservation } from '../../server/core/models';
+import { storagePaths } from '../../server/core/storage/paths';
 import {
   makeAudioOnly, makeOnePixelClip, makeStillImage, makeTestClip, makeTruncatedClip,
 } from '../helpers/media-fixtures';

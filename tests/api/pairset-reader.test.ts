@@ -6,7 +6,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createApiToken } from '../../server/services/api-tokens';
+import { createApiToken } from '../../server/core/people/api-tokens';
 import type { PairsetDetail } from '../../shared/types/pairsets';
 import { curlCommand } from '../../src/components/pairsets/curl-command';
 import { addPairsetClip } from '../helpers/pairset-clips';

@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Project } from '../../server/models';
+import { AuditEvent, Project } from '../../server/core/models';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 
 let server: TestServer;

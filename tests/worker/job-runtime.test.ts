@@ -1,8 +1,8 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, MailOutbox } from '../../server/models';
-import { claimJob, finishJob, renewLease } from '../../worker/jobs/claim';
+import { AuditEvent, Clip, Job, MailOutbox } from '../../server/core/models';
+import { claimJob, finishJob, renewLease } from '../../server/core/jobs/claim';
 import type { Handlers } from '../../worker/jobs/handler';
 import { HANDLERS } from '../../worker/jobs/handlers';
 import { RETRY_POLICIES } from '../../worker/jobs/retry-policy';

@@ -1,21 +1,21 @@
 // Kinefold's motion estimators by name: the project setting chooses one, and every field records the estimator
 // and the full parameters it was computed with (defaults merged with the project's overrides).
 
-import { DIS_DEFAULTS, estimateDis, validateDisParams, type DisParams } from './dis.js';
-import { FARNEBACK_DEFAULTS, estimateFarneback, validateFarnebackParams, type FarnebackParams } from './farneback.js';
+import { DIS_DEFAULTS, estimateDis, validateDisParams, type DisParams } from './dis/dis.js';
+import { FARNEBACK_DEFAULTS, estimateFarneback, validateFarnebackParams, type FarnebackParams } from './farneback/farneback.js';
 import {
   HORN_SCHUNCK_DEFAULTS,
   estimateHornSchunck,
   validateHornSchunckParams,
   type HornSchunckParams,
-} from './horn-schunck.js';
+} from './horn-schunck/horn-schunck.js';
 import {
   LUCAS_KANADE_DEFAULTS,
   estimateLucasKanade,
   validateLucasKanadeParams,
   type LucasKanadeParams,
-} from './lucas-kanade.js';
-import type { MotionWorkspace } from './workspace.js';
+} from './lucas-kanade/lucas-kanade.js';
+import type { MotionWorkspace } from './kernels/workspace.js';
 
 export type Estimator = 'farneback' | 'horn-schunck' | 'lucas-kanade' | 'dis';
 

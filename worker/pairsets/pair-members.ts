@@ -2,9 +2,9 @@ import fs from 'node:fs';
 import sharp from 'sharp';
 import { viewReach, type ViewName } from '../../shared/pairing/pairing-graph';
 import type { MotionFormat } from '../../shared/schemas/pairsets';
-import type { StoragePaths } from '../../server/storage/paths';
-import { decodeFlo, encodeFlo } from '../motion/flo';
-import { encodeKittiFlow } from '../motion/kitti-png';
+import type { StoragePaths } from '../../server/core/storage/paths';
+import { decodeFlo, encodeFlo } from '../motion/formats/flo';
+import { encodeKittiFlow } from '../motion/formats/kitti-png';
 import { resizeFlow } from './resize-flow';
 
 /**

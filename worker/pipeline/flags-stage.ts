@@ -1,8 +1,8 @@
 import type { ClipState } from '../../shared/clip-states';
 import type { ClipFlagDetail } from '../../shared/types/clips';
-import { Clip, Frame, MotionField } from '../../server/models';
-import { recordAudit } from '../../server/services/audit';
-import { listFrames } from '../../server/services/clip-media';
+import { Clip, Frame, MotionField } from '../../server/core/models';
+import { recordAudit } from '../../server/core/audit/audit';
+import { listFrames } from '../../server/core/clips/clip-media';
 import { clipReviewSignals } from '../../shared/review/clip-signals';
 import { clipFlags, type FlagFieldMotion, type FlagFrameSignals } from '../signals/flags';
 import { bestNearDuplicate, hexToHash, type NearDuplicateMatch } from '../signals/perceptual-hash';

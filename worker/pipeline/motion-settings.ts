@@ -1,4 +1,4 @@
-import type { Project } from '../../server/models';
+import type { Project } from '../../server/core/models';
 import { FinalJobError } from '../jobs/job-errors';
 import {
   ESTIMATOR_NAMES, isEstimator, resolveParams, type Estimator, type EstimatorParams,

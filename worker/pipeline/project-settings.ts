@@ -1,5 +1,5 @@
 import { DEFAULT_FLAG_THRESHOLDS, type FlagThresholds } from '../../shared/flag-thresholds';
-import type { Project } from '../../server/models';
+import type { Project } from '../../server/core/models';
 import { FinalJobError } from '../jobs/job-errors';
 import { DEFAULT_CUT_BINS, DEFAULT_CUT_THRESHOLD } from '../signals/cuts';
 

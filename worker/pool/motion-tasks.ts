@@ -9,12 +9,12 @@ import fs from 'node:fs';
 import { rgbToGrey } from '../../shared/colour/grey';
 import { motionToColour } from '../../shared/motion/colour-wheel';
 import { readRgbImage, writeRgbPng } from '../media/frame-images';
-import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../motion/consistency';
-import { summariseField, type FieldSummary } from '../motion/field-summary';
-import { decodeFlo, encodeFlo } from '../motion/flo';
+import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../motion/fields/consistency';
+import { summariseField, type FieldSummary } from '../motion/fields/field-summary';
+import { decodeFlo, encodeFlo } from '../motion/formats/flo';
 import type { Estimator, EstimatorParams } from '../motion/index';
-import { NeighbourFieldRun, type NeighbourFields } from '../motion/neighbour-fields';
-import { MotionWorkspace } from '../motion/workspace';
+import { NeighbourFieldRun, type NeighbourFields } from '../motion/fields/neighbour-fields';
+import { MotionWorkspace } from '../motion/kernels/workspace';
 
 /** Frames k → k+1 of `frameFiles` (consecutive frames with no cut between them), both ways. */
 export interface MotionRunTask {

@@ -4,9 +4,9 @@ import {
   estimateFarneback,
   estimateFromExpansions,
   expandFrame,
-} from '../../../worker/motion/farneback.js';
+} from '../../../worker/motion/farneback/farneback.js';
 import { ESTIMATORS, type Estimator } from '../../../worker/motion/index.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 import { sameBits } from './field-difference.js';
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { averageErrors } from '../../../worker/motion/error-measures.js';
+import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
 import { ESTIMATORS, type Estimator } from '../../../worker/motion/index.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 import { BORDER, MOTION_CASES, SEED } from './motion-cases.js';
 

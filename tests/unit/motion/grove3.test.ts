@@ -1,10 +1,10 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { averageErrors } from '../../../worker/motion/error-measures.js';
-import { FARNEBACK_DEFAULTS } from '../../../worker/motion/farneback.js';
+import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
+import { FARNEBACK_DEFAULTS } from '../../../worker/motion/farneback/farneback.js';
 import { ESTIMATORS, type Estimator } from '../../../worker/motion/index.js';
-import { warpBackward } from '../../../worker/motion/resample.js';
+import { warpBackward } from '../../../worker/motion/kernels/resample.js';
 import { isUnknownFlow } from '../../../shared/motion/unknown-flow.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { GROVE3_FETCH_COMMAND, grove3Available, loadGrove3, type Grove3 } from '../../helpers/grove3.js';
 import { fieldDifference } from './field-difference.js';
 import { loadOpenCv, withMat } from './opencv-reference.js';

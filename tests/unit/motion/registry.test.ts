@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { FARNEBACK_DEFAULTS, estimateFarneback } from '../../../worker/motion/farneback.js';
+import { FARNEBACK_DEFAULTS, estimateFarneback } from '../../../worker/motion/farneback/farneback.js';
 import { ESTIMATOR_NAMES, estimateMotion, isEstimator, resolveParams } from '../../../worker/motion/index.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 
