@@ -3,7 +3,7 @@
  * pairs with known motion, on one thread (in a process of its own, as native OpenCV's) and across a worker-thread
  * pool (one thread per core), side by side with
  * native OpenCV (Debian's python3-opencv, one thread: Farnebäck with the same parameters and the DIS presets, through
- * /work/shared/tools/opencv-reference.py) on the same 8-bit frames in the same run. Ratios are ours / native.
+ * ../shared/tools/opencv-reference.py beside the checkout) on the same 8-bit frames in the same run. Ratios are ours / native.
  *   npm run bench:motion [-- --runs 10 --rounds 3]
  * Pairs: a textured image shifted with known truth (tests/helpers/motion-pairs.ts) at 320×180 and 640×360, a large
  * shift at 640×360, and Middlebury Grove3 (640×480, tests/helpers/grove3.ts; fetch with
@@ -35,7 +35,8 @@ const RUNS = Math.max(1, Number(values.runs));
 const ROUNDS = Math.max(1, Number(values.rounds));
 const THREADS = os.availableParallelism();
 const PYTHON = '/usr/bin/python3';
-const REFERENCE = '/work/shared/tools/opencv-reference.py';
+/** The design notes' reference script, beside the checkout (`../shared/tools/`), never at a fixed absolute path. */
+const REFERENCE = fileURLToPath(new URL('../../shared/tools/opencv-reference.py', import.meta.url));
 const ONE_THREAD = fileURLToPath(new URL('./motion-one-thread.ts', import.meta.url));
 const NATIVE = ['farneback', 'dis-fast', 'dis-medium'] as const;
 const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-motion-'));

@@ -6,20 +6,12 @@ import type { Request } from 'express';
 import type { StorageEngine } from 'multer';
 import { HttpStatus } from '../../shared/http-status';
 import { uploadFieldsSchema, type UploadFields } from '../../shared/schemas/clips';
-import { AppError } from '../core/errors';
+import { AppError, invalidInput } from '../core/errors';
 import { currentUser } from './auth';
-import { invalidInput } from './validate';
 import type { StoragePaths } from '../core/storage/paths';
-import { releaseUpload, reserveUpload } from '../core/usage/quotas';
+import { discardUpload, type ReceivedUpload } from '../core/clips/received-upload';
+import { reserveUpload } from '../core/usage/quotas';
 
-/** What the engine hands on for a fully received file. */
-export interface ReceivedUpload {
-  path: string;
-  size: number;
-  sha256: string;
-  reservationId: string;
-  fields: UploadFields;
-}
 
 declare global {
   namespace Express {
@@ -81,10 +73,4 @@ function parseFields(body: unknown): UploadFields {
   const result = uploadFieldsSchema.safeParse(raw);
   if (!result.success) throw invalidInput('body', result.error);
   return result.data;
-}
-
-/** Removes an upload's partial or refused file and gives back its reserved bytes; safe to call twice. */
-export async function discardUpload(upload: { path?: string; reservationId?: string }): Promise<void> {
-  if (upload.path) await fs.promises.rm(upload.path, { force: true });
-  if (upload.reservationId) await releaseUpload(upload.reservationId);
 }

@@ -1,7 +1,6 @@
 import type { NextFunction, Request, Response } from 'express';
 import type { z } from 'zod';
-import { HttpStatus } from '../../shared/http-status';
-import { AppError } from '../core/errors';
+import { invalidInput } from '../core/errors';
 
 declare global {
   namespace Express {
@@ -31,15 +30,4 @@ export function validate(schemas: Schemas) {
     }
     next();
   };
-}
-
-/** A zod failure as a 400 whose message starts with the field at fault. */
-export function invalidInput(part: string, error: z.ZodError): AppError {
-  const issues = error.issues.map((issue) => {
-    const keys = 'keys' in issue && Array.isArray(issue.keys) ? issue.keys.join(', ') : '';
-    const field = issue.path.length > 0 ? issue.path.join('.') : keys;
-    return { field: field || part, message: issue.message };
-  });
-  const first = issues[0]!;
-  return new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', `${first.field}: ${first.message}`, { issues });
 }

@@ -112,7 +112,9 @@ describe('POST /api/clips', () => {
   it('keeps a hostile file name as data only', async () => {
     const hostile = `../../etc/${'\u0007'}passwd/${'片'.repeat(300)}.mp4`;
     const response = await upload(files.second, {}, hostile).expect(201);
-    expect(response.body.originalName).not.toMatch(/[/\\\u0007]/);
+    // The bell character (U+0007) stands for any control character a file name may carry.
+    expect(response.body.originalName).not.toContain('\u0007');
+    expect(response.body.originalName).not.toMatch(/[/\\]/);
     expect([...response.body.originalName].length).toBeLessThanOrEqual(255);
     expect(fs.readdirSync(storagePaths(server.storageDir).clipDir(response.body.id))).toEqual(['source.mp4']);
     await operator.agent.delete(`/api/clips/${response.body.id}`).set('x-csrf-token', operator.csrf).expect(204);

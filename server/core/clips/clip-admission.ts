@@ -3,13 +3,14 @@ import { UniqueConstraintError } from 'sequelize';
 import { HttpStatus } from '../../../shared/http-status';
 import type { ClipSummary } from '../../../shared/types/clips';
 import { AppError, conflict } from '../errors';
-import { Clip, Job, Project, User } from '../models';
+import { Clip, Project, User } from '../models';
 import type { StoragePaths } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
 import { probeUpload } from '../media/clip-probe';
 import { checkQuotaThresholds } from '../usage/quota-warnings';
 import { releaseUpload } from '../usage/quotas';
-import { discardUpload, type ReceivedUpload } from '../../middlewares/upload-engine';
+import { discardUpload, type ReceivedUpload } from './received-upload';
+import { enqueueJob } from '../jobs/enqueue';
 
 const MAX_NAME_LENGTH = 255;
 
@@ -92,9 +93,7 @@ async function commitClip(
       notes: fields.notes,
     }, { transaction });
     clipId = created.id;
-    await Job.create({
-      kind: 'process-clip', clipId: created.id, payload: { clipId: created.id }, state: 'queued', runAfter: new Date(),
-    }, { transaction });
+    await enqueueJob('process-clip', { clipId: created.id }, { transaction });
     await recordAudit({
       actorId: facts.uploaderId, action: 'clip.upload', targetType: 'clip', targetId: created.id,
       detail: { originalName: facts.originalName, sizeBytes: upload.size, projectId: fields.projectId },

@@ -8,6 +8,7 @@ import { AppError, conflict, notFound } from '../errors';
 import { Clip, Frame, Job, MotionField } from '../models';
 import type { StoragePaths } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
+import { enqueueJob } from '../jobs/enqueue';
 
 /**
  * What processing made of a clip (frames, signals, views, preview, thumbnail, progress) and starting it again.
@@ -73,9 +74,7 @@ export async function reprocessClip(clipId: number, actorId: number): Promise<Cl
     if (active) {
       throw conflict('already_processing', `Clip ${clipId} is being processed already (job ${active.id}).`);
     }
-    await Job.create({
-      kind: 'process-clip', clipId, payload: { clipId }, state: 'queued', runAfter: new Date(),
-    }, { transaction });
+    await enqueueJob('process-clip', { clipId }, { transaction });
     const reviewed = clip.state === 'accepted' || clip.state === 'rejected';
     await clip.update({ state: reviewed ? clip.state : 'queued', stage: null, error: null }, { transaction });
     await recordAudit({

@@ -12,11 +12,7 @@ import { recordAudit } from '../audit/audit';
 import { claimOf } from '../review/review-claims';
 import { verdictHistory } from '../review/review-history';
 import { containsText } from '../db/text-search';
-
-export interface Viewer {
-  id: number;
-  role: string;
-}
+import type { Viewer } from '../people/viewer';
 
 const INCLUDE = [
   { model: Project, as: 'project', attributes: ['id', 'name'] },

@@ -3,6 +3,7 @@ import type { RetentionPreview } from '../../../shared/types/admin';
 import { conflict, notFound } from '../errors';
 import { Job, Project } from '../models';
 import { recordAudit } from '../audit/audit';
+import { enqueueJob } from '../jobs/enqueue';
 
 const DAY_MS = 24 * 3600_000;
 
@@ -42,9 +43,7 @@ export async function requestRetentionRun(projectId: number, actorId: number | n
   return Job.sequelize!.transaction(async (transaction) => {
     const pending = await Job.findOne({ where: { kind: 'run-retention', state: ['queued', 'running'] }, transaction });
     if (pending && (pending.payload as { projectId?: number }).projectId === projectId) return pending;
-    const job = await Job.create({
-      kind: 'run-retention', clipId: null, payload: { projectId }, state: 'queued', runAfter: new Date(),
-    }, { transaction });
+    const job = await enqueueJob('run-retention', { projectId }, { transaction });
     if (actorId !== null) {
       await recordAudit({ actorId, action: 'retention.request', targetType: 'project', targetId: projectId }, transaction);
     }

@@ -1,7 +1,7 @@
 import {
   DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
 } from 'sequelize';
-import type { JobKind, JobState } from '../../../shared/jobs';
+import type { JobKind, JobPayload, JobState } from '../../../shared/jobs';
 
 /** A unit of worker work, claimed with a lease so a crashed worker's job is taken up again (DESIGN §4–5). */
 export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job>> {
@@ -9,7 +9,7 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare kind: JobKind;
   declare clipId: number | null;
   declare pairsetId: CreationOptional<number | null>;
-  declare payload: Record<string, unknown>;
+  declare payload: JobPayload;
   declare state: JobState;
   declare attempts: CreationOptional<number>;
   declare leaseOwner: CreationOptional<string | null>;

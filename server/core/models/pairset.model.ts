@@ -2,9 +2,9 @@ import {
   DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import type { PairsetDefinition } from '../../../shared/schemas/pairsets';
+import type { PairsetDefinition, PairsetState } from '../../../shared/schemas/pairsets';
 import type {
-  PairsetDifficulty, PairsetState, PairsetStatistics, PairsetSummary,
+  PairsetDifficulty, PairsetStatistics, PairsetSummary,
 } from '../../../shared/types/pairsets';
 import type { User } from './user.model';
 

@@ -1,6 +1,7 @@
 import {
   DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
 } from 'sequelize';
+import type { StoredFlagThresholds } from '../../../shared/schemas/project-settings';
 
 /** A group of clips with its own storage quota and processing settings (DESIGN §2). */
 export class Project extends Model<InferAttributes<Project>, InferCreationAttributes<Project>> {
@@ -14,7 +15,7 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare sampleFps: number;
   declare workingSize: number;
   declare deltas: number[];
-  declare flagThresholds: Record<string, number>;
+  declare flagThresholds: StoredFlagThresholds;
   /** Days after a reject verdict when the clip's files are purged; null keeps rejected footage. */
   declare retentionDays: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;

@@ -5,10 +5,10 @@ import { formatBytes } from '../../../shared/format-bytes';
 import { HttpStatus } from '../../../shared/http-status';
 import { planPairs } from '../../../shared/pairing/pair-plan';
 import {
-  definitionViews, type PairsetDefinition, type PairsetListQuery, type PairsetPreviewBody,
+  definitionViews, type PairsetDefinition, type PairsetListQuery, type PairsetState, type PairsetPreviewBody,
 } from '../../../shared/schemas/pairsets';
 import type {
-  PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetState, PairsetSummary,
+  PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetSummary,
 } from '../../../shared/types/pairsets';
 import { AppError, conflict, notFound } from '../errors';
 import { Job, Pairset, Project, Shard, User } from '../models';
@@ -17,6 +17,7 @@ import { recordAudit } from '../audit/audit';
 import { loadPairsetSources } from './pairset-sources';
 import { planCounts } from './pairset-statistics';
 import { userUsage } from '../usage/quotas';
+import { enqueueJob } from '../jobs/enqueue';
 
 /**
  * Pairsets: definitions, builds (queued for the worker's build-pairset job), versions and their files. Everyone
@@ -122,10 +123,7 @@ export async function startBuild(id: number, actor: User): Promise<PairsetDetail
     await pairset.update({
       state: 'building', progress: 0, error: null, stats: null, difficulty: null, bytes: 0, builtAt: null,
     }, { transaction });
-    await Job.create({
-      kind: 'build-pairset', clipId: null, pairsetId: id, payload: { pairsetId: id }, state: 'queued',
-      runAfter: new Date(),
-    }, { transaction });
+    await enqueueJob('build-pairset', { pairsetId: id }, { transaction });
     await recordAudit({ actorId: actor.id, action: 'pairset.build', targetType: 'pairset', targetId: id,
       detail: { previousState: pairset.state } }, transaction);
   });

@@ -8,6 +8,7 @@ import { conflict, notFound } from '../errors';
 import { Project } from '../models';
 import { recordAudit } from '../audit/audit';
 import { projectFlagDefaults } from '../settings/settings';
+import { checkProjectSettings, storedSettings } from './project-settings';
 
 /** Processing defaults for a new project (the Ingest issue): 5 frames/s, 320 px, Δ 1, 2 and 4 sampled frames. */
 export const PROJECT_DEFAULTS = {
@@ -74,7 +75,14 @@ async function assertNameFree(name: string, exceptId?: number): Promise<void> {
 
 export async function createProject(body: ProjectBody, actorId: number): Promise<ProjectSummary> {
   await assertNameFree(body.name);
-  const flagThresholds = (body.flagThresholds ?? await projectFlagDefaults()) as Record<string, number>;
+  const settings = checkProjectSettings({
+    sampleFps: body.sampleFps ?? PROJECT_DEFAULTS.sampleFps,
+    workingSize: body.workingSize ?? PROJECT_DEFAULTS.workingSize,
+    deltas: body.deltas ?? [...PROJECT_DEFAULTS.deltas],
+    estimator: body.estimator ?? PROJECT_DEFAULTS.estimator,
+    estimatorParams: body.estimatorParams ?? {},
+    flagThresholds: body.flagThresholds ?? await projectFlagDefaults(),
+  });
   const project = await Project.sequelize!.transaction(async (transaction) => {
     const created = await Project.create({
       name: body.name,
@@ -82,12 +90,7 @@ export async function createProject(body: ProjectBody, actorId: number): Promise
       archived: body.archived ?? false,
       quotaBytes: body.quotaBytes ?? null,
       retentionDays: body.retentionDays ?? null,
-      sampleFps: body.sampleFps ?? PROJECT_DEFAULTS.sampleFps,
-      workingSize: body.workingSize ?? PROJECT_DEFAULTS.workingSize,
-      deltas: body.deltas ?? [...PROJECT_DEFAULTS.deltas],
-      estimator: body.estimator ?? PROJECT_DEFAULTS.estimator,
-      estimatorParams: body.estimatorParams ?? {},
-      flagThresholds,
+      ...settings,
     }, { transaction });
     await recordAudit({
       actorId, action: 'project.create', targetType: 'project', targetId: created.id, detail: { name: created.name },
@@ -101,6 +104,12 @@ export async function updateProject(id: number, patch: ProjectPatch, actorId: nu
   const project = await Project.findByPk(id);
   if (!project) throw notFound(`Project ${id}`);
   if (patch.name !== undefined) await assertNameFree(patch.name, id);
+  const { sampleFps, workingSize, deltas, estimator, estimatorParams, flagThresholds } = patch;
+  checkProjectSettings({
+    ...storedSettings(project),
+    ...Object.fromEntries(Object.entries({ sampleFps, workingSize, deltas, estimator, estimatorParams, flagThresholds })
+      .filter(([, value]) => value !== undefined)),
+  });
   await Project.sequelize!.transaction(async (transaction) => {
     await project.update(patch, { transaction });
     await recordAudit({

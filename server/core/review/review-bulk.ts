@@ -7,7 +7,7 @@ import { AppError } from '../errors';
 import { formatMailTime } from '../mail/templates/layout';
 import { Clip, User, Verdict } from '../models';
 import { recordAudit, recordAudits } from '../audit/audit';
-import type { Viewer } from '../clips/clips';
+import type { Viewer } from '../people/viewer';
 import { hasLiveClaim, holdsLiveClaim } from './review-claims';
 import { scheduleRejectionDigest } from './review-digest';
 import { matchingClipIds } from './review-queue';

@@ -6,7 +6,7 @@ import { AppError, conflict, notFound } from '../errors';
 import { formatMailTime } from '../mail/templates/layout';
 import { Clip, User } from '../models';
 import { recordAudit } from '../audit/audit';
-import type { Viewer } from '../clips/clips';
+import type { Viewer } from '../people/viewer';
 
 /**
  * Review claims: a curator holds a clip for CLAIM_MINUTES, renewed by claiming again. A claim is the pair

@@ -2,6 +2,7 @@ import { Op, literal, where, type Transaction } from 'sequelize';
 import { DIGEST_INTERVAL_MINUTES } from '../../../shared/review/rules';
 import { queueMail } from '../mail/outbox';
 import { Clip, Job, RejectionDigest, User, Verdict } from '../models';
+import { enqueueJob } from '../jobs/enqueue';
 
 /**
  * The hourly rejection digest. Design: no clock runs it. A rejection queues one `send-rejection-digest` job for the
@@ -30,10 +31,7 @@ export async function scheduleRejectionDigest(uploaderId: number, transaction: T
     transaction,
   });
   if (waiting) return;
-  await Job.create({
-    kind: JOB_KIND, clipId: null, payload: { uploaderId }, state: 'queued',
-    runAfter: await nextAllowedAt(uploaderId, now, transaction),
-  }, { transaction });
+  await enqueueJob(JOB_KIND, { uploaderId }, { transaction, runAfter: await nextAllowedAt(uploaderId, now, transaction) });
 }
 
 export type DigestOutcome = 'sent' | 'nothing-new' | 'too-soon';

@@ -1,6 +1,7 @@
 import { Op, type Transaction } from 'sequelize';
 import { Job } from '../models';
 import { recordAudit } from '../audit/audit';
+import { enqueueJob } from '../jobs/enqueue';
 
 /**
  * Queues a reconcile-usage job unless one is already waiting or running, so a burst of requests (or the daily
@@ -12,9 +13,7 @@ export async function requestReconcile(reason: 'scheduled' | 'on-demand', actorI
       where: { kind: 'reconcile-usage', state: { [Op.in]: ['queued', 'running'] } }, transaction,
     });
     if (pending) return pending;
-    const job = await Job.create({
-      kind: 'reconcile-usage', clipId: null, payload: { reason }, state: 'queued', runAfter: new Date(),
-    }, { transaction });
+    const job = await enqueueJob('reconcile-usage', { reason }, { transaction });
     if (actorId !== null) {
       await recordAudit({ actorId, action: 'usage.reconcile-request', targetType: 'job', targetId: job.id }, transaction);
     }

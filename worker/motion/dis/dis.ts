@@ -19,8 +19,9 @@ import {
 } from './levels.js';
 import { PATCH_TERMS, patchGrid, patchTerms } from './patch-grid.js';
 import { refineField } from './variational.js';
-import { assertFramePair, assertInteger, assertRange, outputField } from '../kernels/estimator-input.js';
+import { assertFramePair, outputField } from '../kernels/estimator-input.js';
 import { MotionWorkspace } from '../kernels/workspace.js';
+import { estimatorParamsProblem } from '../../../shared/schemas/project-settings';
 
 export interface DisParams {
   /** Finest pyramid level searched (0 = full resolution, each level halves the one below). */
@@ -59,23 +60,11 @@ export const DIS_PRESETS: Readonly<Record<DisPreset, Readonly<DisParams>>> = Obj
 export const DIS_DEFAULTS: Readonly<DisParams> = DIS_PRESETS.medium;
 
 const MAX_SCALE = 10;
-const MAX_PATCH = 32;
-const MIN_PATCH = 2;
-const MAX_ITERATIONS = 1000;
-const MAX_WEIGHT = 1e6;
 
+/** Checks the parameters against their ranges (shared/schemas/project-settings.ts, also used when a project is saved). */
 export function validateDisParams(params: DisParams): void {
-  assertInteger('dis finestScale', params.finestScale, 0, MAX_SCALE);
-  assertInteger('dis patchSize', params.patchSize, MIN_PATCH, MAX_PATCH);
-  assertInteger('dis patchStride', params.patchStride, 1, params.patchSize);
-  assertInteger('dis descentIterations', params.descentIterations, 2, MAX_ITERATIONS);
-  assertInteger('dis refinementIterations', params.refinementIterations, 0, MAX_ITERATIONS);
-  assertRange('dis alpha', params.alpha, 0, MAX_WEIGHT, true);
-  assertRange('dis delta', params.delta, 0, MAX_WEIGHT, true);
-  assertRange('dis gamma', params.gamma, 0, MAX_WEIGHT, true);
-  if (typeof params.meanNormalisation !== 'boolean') {
-    throw new Error(`dis meanNormalisation must be true or false, got ${String(params.meanNormalisation)}`);
-  }
+  const problem = estimatorParamsProblem('dis', params);
+  if (problem) throw new Error(problem);
 }
 
 /**

@@ -6,10 +6,11 @@
 
 import { POLY_CHANNELS, polyExpand, polyExpansionConstants, polyRowBufferLength } from './poly-exp.js';
 import { gaussianWindow, solveFlowBox, solveFlowGaussian, updateMatrices } from './update.js';
-import { assertFramePair, assertInteger, assertRange, outputField } from '../kernels/estimator-input.js';
+import { assertFramePair, outputField } from '../kernels/estimator-input.js';
 import { buildLevel, pyramidLevels, type PyramidLevel } from '../kernels/pyramid.js';
 import { resampleBufferLength, resizeFlow } from '../kernels/resample.js';
 import { MotionWorkspace } from '../kernels/workspace.js';
+import { estimatorParamsProblem } from '../../../shared/schemas/project-settings';
 
 export interface FarnebackParams {
   /** Size ratio between pyramid levels, in (0, 1). */
@@ -39,18 +40,11 @@ export const FARNEBACK_DEFAULTS: Readonly<FarnebackParams> = Object.freeze({
   gaussianWindow: false,
 });
 
-const MAX_LEVELS = 20;
-const MAX_WINDOW = 255;
-const MAX_ITERATIONS = 1000;
-const MAX_POLY_N = 15;
 
+/** Checks the parameters against their ranges (shared/schemas/project-settings.ts, also used when a project is saved). */
 export function validateFarnebackParams(params: FarnebackParams): void {
-  assertRange('farneback pyrScale', params.pyrScale, 0, 1, false);
-  assertInteger('farneback levels', params.levels, 0, MAX_LEVELS);
-  assertInteger('farneback winSize', params.winSize, 1, MAX_WINDOW);
-  assertInteger('farneback iterations', params.iterations, 1, MAX_ITERATIONS);
-  assertInteger('farneback polyN', params.polyN, 1, MAX_POLY_N);
-  assertRange('farneback polySigma', params.polySigma, 0, Number.POSITIVE_INFINITY, true);
+  const problem = estimatorParamsProblem('farneback', params);
+  if (problem) throw new Error(problem);
 }
 
 /** Where an expansion keeps its coefficients for pyramid level `level` (`length` floats). */

@@ -7,9 +7,10 @@
 
 import { coarseToFine, type LevelFrames } from '../kernels/coarse-to-fine.js';
 import { centralDifferences } from '../kernels/derivatives.js';
-import { assertFramePair, assertInteger, assertRange, outputField } from '../kernels/estimator-input.js';
+import { assertFramePair, outputField } from '../kernels/estimator-input.js';
 import { warpBackward } from '../kernels/resample.js';
 import { MotionWorkspace } from '../kernels/workspace.js';
+import { estimatorParamsProblem } from '../../../shared/schemas/project-settings';
 
 export interface HornSchunckParams {
   /** Smoothness weight in grey levels (0..255 frames): larger gives smoother fields. */
@@ -33,19 +34,14 @@ export const HORN_SCHUNCK_DEFAULTS: Readonly<HornSchunckParams> = Object.freeze(
   pyrScale: 0.5,
 });
 
-const MAX_LEVELS = 20;
-const MAX_ITERATIONS = 10000;
-const MAX_WARPS = 50;
 // Horn & Schunck's Laplacian weights: edge neighbours 1/6, corner neighbours 1/12.
 const EDGE_WEIGHT = 1 / 6;
 const CORNER_WEIGHT = 1 / 12;
 
+/** Checks the parameters against their ranges (shared/schemas/project-settings.ts, also used when a project is saved). */
 export function validateHornSchunckParams(params: HornSchunckParams): void {
-  assertRange('horn-schunck alpha', params.alpha, 0, Number.POSITIVE_INFINITY, false);
-  assertInteger('horn-schunck iterations', params.iterations, 1, MAX_ITERATIONS);
-  assertInteger('horn-schunck warps', params.warps, 1, MAX_WARPS);
-  assertInteger('horn-schunck levels', params.levels, 0, MAX_LEVELS);
-  assertRange('horn-schunck pyrScale', params.pyrScale, 0, 1, false);
+  const problem = estimatorParamsProblem('horn-schunck', params);
+  if (problem) throw new Error(problem);
 }
 
 /**

@@ -19,18 +19,3 @@ export function outputField(width: number, height: number, out?: Float32Array): 
   if (out.length !== values) throw new Error(`motion: output holds ${out.length} values, ${values} needed`);
   return out;
 }
-
-export function assertInteger(name: string, value: number, min: number, max: number): void {
-  if (!Number.isInteger(value) || value < min || value > max) {
-    throw new Error(`${name} must be an integer in ${min}..${max}, got ${value}`);
-  }
-}
-
-/** Checks low < value < high, or low ≤ value when `lowInclusive`; NaN fails. */
-export function assertRange(name: string, value: number, low: number, high: number, lowInclusive: boolean): void {
-  const aboveLow = lowInclusive ? value >= low : value > low;
-  if (!(aboveLow && value < high)) {
-    const lowBracket = lowInclusive ? '[' : '(';
-    throw new Error(`${name} must be in ${lowBracket}${low}, ${high}), got ${value}`);
-  }
-}

@@ -7,10 +7,11 @@
 
 import { coarseToFine, type LevelFrames } from '../kernels/coarse-to-fine.js';
 import { centralDifferences } from '../kernels/derivatives.js';
-import { assertFramePair, assertInteger, assertRange, outputField } from '../kernels/estimator-input.js';
+import { assertFramePair, outputField } from '../kernels/estimator-input.js';
 import { gaussianBlur, gaussianKernel } from '../kernels/gaussian-blur.js';
 import { warpBackward } from '../kernels/resample.js';
 import { MotionWorkspace } from '../kernels/workspace.js';
+import { estimatorParamsProblem } from '../../../shared/schemas/project-settings';
 
 export interface LucasKanadeParams {
   /** Pyramid levels above the frame (fewer when a side would drop under 32 px). */
@@ -37,17 +38,12 @@ export const LUCAS_KANADE_DEFAULTS: Readonly<LucasKanadeParams> = Object.freeze(
   regularisation: 1,
 });
 
-const MAX_LEVELS = 20;
-const MAX_ITERATIONS = 1000;
-const MAX_WINDOW_SIGMA = 50;
 const KERNEL_SIGMAS = 3;
 
+/** Checks the parameters against their ranges (shared/schemas/project-settings.ts, also used when a project is saved). */
 export function validateLucasKanadeParams(params: LucasKanadeParams): void {
-  assertInteger('lucas-kanade levels', params.levels, 0, MAX_LEVELS);
-  assertRange('lucas-kanade pyrScale', params.pyrScale, 0, 1, false);
-  assertRange('lucas-kanade windowSigma', params.windowSigma, 0, MAX_WINDOW_SIGMA, false);
-  assertInteger('lucas-kanade iterations', params.iterations, 1, MAX_ITERATIONS);
-  assertRange('lucas-kanade regularisation', params.regularisation, 0, Number.POSITIVE_INFINITY, true);
+  const problem = estimatorParamsProblem('lucas-kanade', params);
+  if (problem) throw new Error(problem);
 }
 
 /** Refines one level's field in place. */
