@@ -22,7 +22,8 @@ import { isUnknownFlow } from '../shared/motion/unknown-flow';
 import { grove3Available, GROVE3_FETCH_COMMAND, loadGrove3 } from '../tests/helpers/grove3';
 import { makeMotionPair, type Warp } from '../tests/helpers/motion-pairs';
 import { encodeFlo } from '../worker/motion/formats/flo';
-import { ESTIMATOR_NAMES, resolveParams, type Estimator } from '../worker/motion/index';
+import { resolveParams } from '../worker/motion/index';
+import { ESTIMATORS, type EstimatorName } from '../shared/estimators';
 import { warpBackward } from '../worker/motion/kernels/resample';
 import type { OneThreadFigures } from './motion-one-thread';
 import type { BenchPairTask } from './motion-thread';
@@ -93,7 +94,7 @@ function shared(frame: Float32Array): SharedArrayBuffer {
 }
 
 /** Pairs per second with RUNS·THREADS tasks in flight on the pool, after one warm-up task per thread. */
-async function withPool(pool: Piscina, pair: Pair, estimator: Estimator): Promise<number> {
+async function withPool(pool: Piscina, pair: Pair, estimator: EstimatorName): Promise<number> {
   const task: BenchPairTask = {
     estimator, params: resolveParams(estimator), width: pair.width, height: pair.height,
     prev: shared(pair.prev), next: shared(pair.next),
@@ -147,7 +148,7 @@ function best(a: NativeFigures | null, b: NativeFigures | null): NativeFigures |
   return Object.fromEntries(NATIVE.map((method) => [method, faster(method)])) as NativeFigures;
 }
 
-function report(pair: Pair, ours: Map<Estimator, Figures>, reference: NativeFigures | null): void {
+function report(pair: Pair, ours: Map<EstimatorName, Figures>, reference: NativeFigures | null): void {
   const fb = reference ? 1000 / reference.farneback.ms : undefined;
   const dis = reference ? 1000 / reference['dis-medium'].ms : undefined;
   for (const [estimator, { ms, poolPairsPerS, aee }] of ours) {
@@ -191,12 +192,12 @@ async function main(): Promise<void> {
   try {
     for (const [index, pair] of pairs.entries()) {
       const { files, base } = await writePair(pair, index);
-      const ours = new Map<Estimator, Figures>();
+      const ours = new Map<EstimatorName, Figures>();
       let reference: NativeFigures | null = null;
       for (let round = 0; round < ROUNDS; round++) {
         reference = best(reference, await native(files));
         const singles = await oneThread(pair, base);
-        for (const estimator of ESTIMATOR_NAMES) {
+        for (const estimator of ESTIMATORS) {
           const single = singles[estimator];
           const poolPairsPerS = await withPool(pool, pair, estimator);
           const previous = ours.get(estimator);

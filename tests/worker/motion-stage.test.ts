@@ -9,7 +9,8 @@ import { rgbToGrey } from '../../shared/colour/grey';
 import { motionToColour } from '../../shared/motion/colour-wheel';
 import { readRgbImage } from '../../worker/media/frame-images';
 import { decodeFlo, encodeFlo, floByteLength } from '../../worker/motion/formats/flo';
-import { ESTIMATOR_NAMES, estimateMotion, resolveParams } from '../../worker/motion/index';
+import { estimateMotion, resolveParams } from '../../worker/motion/index';
+import { ESTIMATORS } from '../../shared/estimators';
 import { addProject, insertClip, workFolders } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import {
@@ -220,7 +221,7 @@ describe('cuts', () => {
 });
 
 describe('the thread pool', () => {
-  it.each(ESTIMATOR_NAMES)('gives %s fields bit-identical to a direct call, forward and backward', async (name) => {
+  it.each(ESTIMATORS)('gives %s fields bit-identical to a direct call, forward and backward', async (name) => {
     const frames = path.join(gen, 'pool-frames');
     fs.mkdirSync(frames, { recursive: true });
     // Three frames of a pan (8 source px a step) at the working size, as PNG like the sample stage's.

@@ -1,11 +1,12 @@
 import type { Project } from '../../server/core/models';
-import { resolveParams, type Estimator, type EstimatorParams } from '../motion/index';
+import { resolveParams, type EstimatorParams } from '../motion/index';
+import { type EstimatorName } from '../../shared/estimators';
 import { checkedSettings } from './project-settings';
 
 export interface MotionSettings {
-  estimator: Estimator;
+  estimator: EstimatorName;
   /** The estimator's defaults with the project's overrides: what every field records. */
-  params: EstimatorParams[Estimator];
+  params: EstimatorParams[EstimatorName];
 }
 
 /** The project's estimator and complete parameters (checked when saved; see checkedSettings). */

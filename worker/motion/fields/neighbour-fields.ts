@@ -5,7 +5,8 @@
 // Every buffer comes from the workspace, so a thread that runs pair after pair allocates its large arrays once.
 
 import { estimateFromExpansions, expandFrame, type FarnebackExpansion, type FarnebackParams } from '../farneback/farneback.js';
-import { estimateMotion, resolveParams, type Estimator, type EstimatorParams } from '../index.js';
+import { estimateMotion, resolveParams, type EstimatorParams } from '../index.js';
+import { type EstimatorName } from '../../../shared/estimators';
 import type { MotionWorkspace } from '../kernels/workspace.js';
 
 export interface NeighbourFields {
@@ -29,9 +30,9 @@ export class NeighbourFieldRun {
   private added = 0;
 
   constructor(
-    private readonly estimator: Estimator,
+    private readonly estimator: EstimatorName,
     /** The estimator's complete parameters (see resolveParams). */
-    private readonly params: EstimatorParams[Estimator],
+    private readonly params: EstimatorParams[EstimatorName],
     private readonly width: number,
     private readonly height: number,
     private readonly workspace: MotionWorkspace,
