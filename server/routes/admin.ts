@@ -14,8 +14,11 @@ export function createAdminRouter(paths: StoragePaths): Router {
   const router = Router();
   router.get('/usage', requireRole('admin'), getUsage(paths));
   router.post('/reconcile', requireRole('admin'), postReconcile);
-  router.get('/retention/preview', requireRole('admin'),
-    validated({ query: retentionQuerySchema }, getRetentionPreview));
+  router.get(
+    '/retention/preview',
+    requireRole('admin'),
+    validated({ query: retentionQuerySchema }, getRetentionPreview),
+  );
   router.post('/retention/run', requireRole('admin'), validated({ body: retentionRunSchema }, postRetentionRun));
   return router;
 }

@@ -26,8 +26,10 @@ export function createInvitationsRouter(config: Config): Router {
   router.post('/:id/resend', requireRole('admin'), validated({ params: idParamSchema }, resend(config)));
   router.post('/:id/revoke', requireRole('admin'), validated({ params: idParamSchema }, revoke));
   router.get('/:token', validated({ params: invitationTokenParamsSchema }, getPreview));
-  router.post('/:token/accept', validated({ params: invitationTokenParamsSchema, body: acceptInvitationSchema },
-    accept(config)));
+  router.post(
+    '/:token/accept',
+    validated({ params: invitationTokenParamsSchema, body: acceptInvitationSchema }, accept(config)),
+  );
   return router;
 }
 

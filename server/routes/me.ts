@@ -2,7 +2,10 @@ import { Router, type Request, type Response } from 'express';
 import type { Me, StorageUse } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import {
-  changePasswordSchema, updateProfileSchema, type ChangePasswordBody, type UpdateProfileBody,
+  changePasswordSchema,
+  updateProfileSchema,
+  type ChangePasswordBody,
+  type UpdateProfileBody,
 } from '../../shared/schemas/profile';
 import type { Config } from '../core/config';
 import { currentUser, requireSignIn } from '../middlewares/auth';
@@ -16,8 +19,12 @@ export function createMeRouter(config: Config): Router {
   router.get('/', requireSignIn, getMe);
   router.get('/storage', requireSignIn, getStorage);
   router.patch('/', requireSignIn, validated({ body: updateProfileSchema }, patchProfile));
-  router.post('/password', requireSignIn, createPasswordChangeLimit(config),
-    validated({ body: changePasswordSchema }, postPassword(config)));
+  router.post(
+    '/password',
+    requireSignIn,
+    createPasswordChangeLimit(config),
+    validated({ body: changePasswordSchema }, postPassword(config)),
+  );
   return router;
 }
 

@@ -15,8 +15,11 @@ export const RESET_REQUESTED = 'If that address belongs to an active Kinefold ac
 /** "Forgot password" from the sign-in page, and the form its link leads to; both work signed out. */
 export function createPasswordResetRouter(config: Config): Router {
   const router = Router();
-  router.post('/reset-request', ...createResetRequestLimits(config), validated({ body: resetRequestSchema },
-    requestReset(config)));
+  router.post(
+    '/reset-request',
+    ...createResetRequestLimits(config),
+    validated({ body: resetRequestSchema }, requestReset(config)),
+  );
   router.post('/reset', validated({ body: resetPasswordSchema }, reset(config)));
   return router;
 }

@@ -16,8 +16,11 @@ export const projectsRouter = Router();
 projectsRouter.get('/', requireSignIn, validated({ query: projectListQuerySchema }, getProjects));
 projectsRouter.get('/:id', requireSignIn, validated({ params: idParamSchema }, getOneProject));
 projectsRouter.post('/', requireRole('admin'), validated({ body: projectBodySchema }, postProject));
-projectsRouter.patch('/:id', requireRole('admin'),
-  validated({ params: idParamSchema, body: projectPatchSchema }, patchProject));
+projectsRouter.patch(
+  '/:id',
+  requireRole('admin'),
+  validated({ params: idParamSchema, body: projectPatchSchema }, patchProject),
+);
 
 async function getProjects(
   { query }: { query: ProjectListQuery },

@@ -37,8 +37,11 @@ export function createClipReviewRouter(): Router {
   const byId = { params: idParamSchema };
   router.post('/:id/claim', requireRole('curator'), validated(byId, postClaim));
   router.delete('/:id/claim', requireRole('curator'), validated(byId, deleteClaim));
-  router.post('/:id/verdict', requireRole('curator'), validated({ params: idParamSchema, body: verdictBodySchema },
-    postVerdict));
+  router.post(
+    '/:id/verdict',
+    requireRole('curator'),
+    validated({ params: idParamSchema, body: verdictBodySchema }, postVerdict),
+  );
   return router;
 }
 
