@@ -10,7 +10,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { estimateMotion } from '../worker/motion/index';
-import { MotionWorkspace } from '../worker/motion/workspace';
+import { MotionWorkspace } from '../worker/motion/kernels/workspace';
 import { cutThumb, pairEvidence } from '../worker/signals/cut-evidence';
 import { greyHistogram, histogramCorrelation } from '../worker/signals/cuts';
 import { CUT_SCENARIOS, renderScenario } from '../tests/helpers/cut-footage';
@@ -24,7 +24,10 @@ try {
   let motionMs = 0;
   let pairs = 0;
   for (const [round, name] of SCENARIOS.entries()) {
-    const clip = await renderScenario(work, CUT_SCENARIOS.find((scenario) => scenario.name === name)!);
+    const clip = await renderScenario(
+      work,
+      CUT_SCENARIOS.find((scenario) => scenario.name === name)!,
+    );
     const workspace = new MotionWorkspace();
     // Histograms were measured before this detector too (cuts.ts); only what it adds is timed.
     const histograms = clip.frames.map((grey) => greyHistogram(grey));
@@ -39,23 +42,41 @@ try {
     const motionWorkspace = new MotionWorkspace();
     const motionStart = performance.now();
     for (let k = 1; k < clip.frames.length; k += 1) {
-      estimateMotion(REFERENCE_ESTIMATOR, clip.frames[k - 1]!, clip.frames[k]!, clip.width, clip.height, {},
-        motionWorkspace);
-      estimateMotion(REFERENCE_ESTIMATOR, clip.frames[k]!, clip.frames[k - 1]!, clip.width, clip.height, {},
-        motionWorkspace);
+      estimateMotion(
+        REFERENCE_ESTIMATOR,
+        clip.frames[k - 1]!,
+        clip.frames[k]!,
+        clip.width,
+        clip.height,
+        {},
+        motionWorkspace,
+      );
+      estimateMotion(
+        REFERENCE_ESTIMATOR,
+        clip.frames[k]!,
+        clip.frames[k - 1]!,
+        clip.width,
+        clip.height,
+        {},
+        motionWorkspace,
+      );
     }
     const motionTook = performance.now() - motionStart;
     const count = clip.frames.length - 1;
     if (round === 0) continue;
-    console.log(`${name}: ${count} pairs; cut evidence ${(cutTook / count).toFixed(2)} ms a pair, `
-      + `${REFERENCE_ESTIMATOR} both ways ${(motionTook / count).toFixed(2)} ms a pair, `
-      + `ratio ${(cutTook / motionTook).toFixed(3)}`);
+    console.log(
+      `${name}: ${count} pairs; cut evidence ${(cutTook / count).toFixed(2)} ms a pair, ` +
+        `${REFERENCE_ESTIMATOR} both ways ${(motionTook / count).toFixed(2)} ms a pair, ` +
+        `ratio ${(cutTook / motionTook).toFixed(3)}`,
+    );
     cutMs += cutTook;
     motionMs += motionTook;
     pairs += count;
   }
-  console.log(`all ${pairs} pairs: cut evidence ÷ motion fields = ${(cutMs / motionMs).toFixed(3)} `
-    + '(the Motion stage also reads frames, checks consistency, summarises and writes files: its full cost is more)');
+  console.log(
+    `all ${pairs} pairs: cut evidence ÷ motion fields = ${(cutMs / motionMs).toFixed(3)} ` +
+      '(the Motion stage also reads frames, checks consistency, summarises and writes files: its full cost is more)',
+  );
 } finally {
   fs.rmSync(work, { recursive: true, force: true });
 }

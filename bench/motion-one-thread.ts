@@ -6,11 +6,12 @@
  * sharp), while native OpenCV runs in a process of its own as well.
  */
 import fs from 'node:fs';
-import { averageErrors } from '../worker/motion/error-measures';
-import { ESTIMATOR_NAMES, estimateMotion, resolveParams, type Estimator } from '../worker/motion/index';
-import { MotionWorkspace } from '../worker/motion/workspace';
+import { averageErrors } from '../worker/motion/fields/error-measures';
+import { estimateMotion, resolveParams } from '../worker/motion/index';
+import { ESTIMATORS, type EstimatorName } from '../shared/estimators';
+import { MotionWorkspace } from '../worker/motion/kernels/workspace';
 
-export type OneThreadFigures = Record<Estimator, { ms: number; aee: number }>;
+export type OneThreadFigures = Record<EstimatorName, { ms: number; aee: number }>;
 
 const [base, widthArg, heightArg, runsArg] = process.argv.slice(2);
 const width = Number(widthArg);
@@ -33,7 +34,7 @@ function median(values: number[]): number {
 const workspace = new MotionWorkspace();
 const out = new Float32Array(2 * width * height);
 const figures = {} as OneThreadFigures;
-for (const estimator of ESTIMATOR_NAMES) {
+for (const estimator of ESTIMATORS) {
   const params = resolveParams(estimator);
   estimateMotion(estimator, prev, next, width, height, params, workspace, out);
   const times: number[] = [];

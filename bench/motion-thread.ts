@@ -2,12 +2,13 @@
  * One motion-benchmark task in a pool thread: the forward field of one pair with one estimator. Frames arrive as
  * shared memory (no copy per task) and the thread keeps one MotionWorkspace, as the product's pool threads do.
  */
-import { estimateMotion, type Estimator, type EstimatorParams } from '../worker/motion/index';
-import { MotionWorkspace } from '../worker/motion/workspace';
+import { estimateMotion, type EstimatorParams } from '../worker/motion/index';
+import { type EstimatorName } from '../shared/estimators';
+import { MotionWorkspace } from '../worker/motion/kernels/workspace';
 
 export interface BenchPairTask {
-  estimator: Estimator;
-  params: EstimatorParams[Estimator];
+  estimator: EstimatorName;
+  params: EstimatorParams[EstimatorName];
   width: number;
   height: number;
   prev: SharedArrayBuffer;

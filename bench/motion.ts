@@ -3,7 +3,7 @@
  * pairs with known motion, on one thread (in a process of its own, as native OpenCV's) and across a worker-thread
  * pool (one thread per core), side by side with
  * native OpenCV (Debian's python3-opencv, one thread: Farnebäck with the same parameters and the DIS presets, through
- * /work/shared/tools/opencv-reference.py) on the same 8-bit frames in the same run. Ratios are ours / native.
+ * ../shared/tools/opencv-reference.py beside the checkout) on the same 8-bit frames in the same run. Ratios are ours / native.
  *   npm run bench:motion [-- --runs 10 --rounds 3]
  * Pairs: a textured image shifted with known truth (tests/helpers/motion-pairs.ts) at 320×180 and 640×360, a large
  * shift at 640×360, and Middlebury Grove3 (640×480, tests/helpers/grove3.ts; fetch with
@@ -21,9 +21,10 @@ import sharp from 'sharp';
 import { isUnknownFlow } from '../shared/motion/unknown-flow';
 import { grove3Available, GROVE3_FETCH_COMMAND, loadGrove3 } from '../tests/helpers/grove3';
 import { makeMotionPair, type Warp } from '../tests/helpers/motion-pairs';
-import { encodeFlo } from '../worker/motion/flo';
-import { ESTIMATOR_NAMES, resolveParams, type Estimator } from '../worker/motion/index';
-import { warpBackward } from '../worker/motion/resample';
+import { encodeFlo } from '../worker/motion/formats/flo';
+import { resolveParams } from '../worker/motion/index';
+import { ESTIMATORS, type EstimatorName } from '../shared/estimators';
+import { warpBackward } from '../worker/motion/kernels/resample';
 import type { OneThreadFigures } from './motion-one-thread';
 import type { BenchPairTask } from './motion-thread';
 
@@ -35,7 +36,8 @@ const RUNS = Math.max(1, Number(values.runs));
 const ROUNDS = Math.max(1, Number(values.rounds));
 const THREADS = os.availableParallelism();
 const PYTHON = '/usr/bin/python3';
-const REFERENCE = '/work/shared/tools/opencv-reference.py';
+/** The design notes' reference script, beside the checkout (`../shared/tools/`), never at a fixed absolute path. */
+const REFERENCE = fileURLToPath(new URL('../../shared/tools/opencv-reference.py', import.meta.url));
 const ONE_THREAD = fileURLToPath(new URL('./motion-one-thread.ts', import.meta.url));
 const NATIVE = ['farneback', 'dis-fast', 'dis-medium'] as const;
 const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-motion-'));
@@ -92,7 +94,7 @@ function shared(frame: Float32Array): SharedArrayBuffer {
 }
 
 /** Pairs per second with RUNS·THREADS tasks in flight on the pool, after one warm-up task per thread. */
-async function withPool(pool: Piscina, pair: Pair, estimator: Estimator): Promise<number> {
+async function withPool(pool: Piscina, pair: Pair, estimator: EstimatorName): Promise<number> {
   const task: BenchPairTask = {
     estimator, params: resolveParams(estimator), width: pair.width, height: pair.height,
     prev: shared(pair.prev), next: shared(pair.next),
@@ -146,7 +148,7 @@ function best(a: NativeFigures | null, b: NativeFigures | null): NativeFigures |
   return Object.fromEntries(NATIVE.map((method) => [method, faster(method)])) as NativeFigures;
 }
 
-function report(pair: Pair, ours: Map<Estimator, Figures>, reference: NativeFigures | null): void {
+function report(pair: Pair, ours: Map<EstimatorName, Figures>, reference: NativeFigures | null): void {
   const fb = reference ? 1000 / reference.farneback.ms : undefined;
   const dis = reference ? 1000 / reference['dis-medium'].ms : undefined;
   for (const [estimator, { ms, poolPairsPerS, aee }] of ours) {
@@ -190,12 +192,12 @@ async function main(): Promise<void> {
   try {
     for (const [index, pair] of pairs.entries()) {
       const { files, base } = await writePair(pair, index);
-      const ours = new Map<Estimator, Figures>();
+      const ours = new Map<EstimatorName, Figures>();
       let reference: NativeFigures | null = null;
       for (let round = 0; round < ROUNDS; round++) {
         reference = best(reference, await native(files));
         const singles = await oneThread(pair, base);
-        for (const estimator of ESTIMATOR_NAMES) {
+        for (const estimator of ESTIMATORS) {
           const single = singles[estimator];
           const poolPairsPerS = await withPool(pool, pair, estimator);
           const previous = ours.get(estimator);

@@ -5,17 +5,17 @@ import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import type { Sequelize } from 'sequelize';
-import { configurePassport } from './auth/passport';
-import type { Config } from './config';
+import { configurePassport } from './middlewares/passport';
+import type { Config } from './core/config';
 import { bearerToken } from './middlewares/bearer-token';
 import { createCsrf } from './middlewares/csrf';
 import { errorHandler } from './middlewares/errors';
 import { createSessionMiddleware } from './middlewares/session';
 import { createSignInLimits } from './middlewares/sign-in-limits';
 import { createApiRouter } from './routes';
-import { deriveKey, loadServerSecret } from './services/secrets';
-import { sessionMaxAgeMs } from './services/settings';
-import { storagePaths } from './storage/paths';
+import { deriveKey, loadServerSecret } from './core/people/secrets';
+import { sessionMaxAgeMs } from './core/settings/settings';
+import { storagePaths } from './core/storage/paths';
 
 export interface AppContext {
   config: Config;

@@ -2,12 +2,12 @@
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createApp } from './app';
-import { loadConfig } from './config';
-import { openKinefoldDatabase } from './db/open';
+import { loadConfig } from './core/config';
+import { openKinefoldDatabase } from './core/db/open';
 import { runDemoCampaign } from './demo/campaign';
-import { startMail } from './mail';
-import { cleanStaleUploads } from './services/storage-hygiene';
-import { storagePaths } from './storage/paths';
+import { startMail } from './core/mail';
+import { cleanStaleUploads } from './core/usage/storage-hygiene';
+import { storagePaths } from './core/storage/paths';
 
 const config = loadConfig();
 const sequelize = await openKinefoldDatabase(config);

@@ -1,4 +1,8 @@
-/** The kinds of work the worker claims from the jobs table, each with its payload type. */
+/**
+ * The one table of job kinds: each kind with its payload type. Jobs are created only through the back-end core's
+ * `enqueueJob(kind, payload)`, typed by this table, and the worker's handler map is keyed by it, so a job with a
+ * wrong payload, or a kind without a handler, does not compile.
+ */
 export interface JobPayloads {
   'process-clip': { clipId: number };
   /** Compares recorded bytes with the disk, fixes drift, removes strays and records the day's usage snapshot. */
@@ -11,5 +15,17 @@ export interface JobPayloads {
   'run-retention': { projectId: number };
 }
 export type JobKind = keyof JobPayloads;
+/** Any kind's payload; a row's kind says which (the worker's claim pairs them). */
+export type JobPayload = JobPayloads[JobKind];
+
+/** The columns a job of each kind links to, so the Jobs screen and cancellations can find a clip's or pairset's jobs. */
+export const JOB_TARGETS: { [K in JobKind]: (payload: JobPayloads[K]) => { clipId: number | null; pairsetId: number | null } } = {
+  'process-clip': ({ clipId }) => ({ clipId, pairsetId: null }),
+  'reconcile-usage': () => ({ clipId: null, pairsetId: null }),
+  'send-rejection-digest': () => ({ clipId: null, pairsetId: null }),
+  'build-pairset': ({ pairsetId }) => ({ clipId: null, pairsetId }),
+  'run-retention': () => ({ clipId: null, pairsetId: null }),
+};
+
 export const JOB_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type JobState = (typeof JOB_STATES)[number];

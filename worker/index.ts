@@ -5,9 +5,9 @@
  */
 import { randomUUID } from 'node:crypto';
 import os from 'node:os';
-import { loadConfig } from '../server/config';
-import { openKinefoldDatabase } from '../server/db/open';
-import { storagePaths } from '../server/storage/paths';
+import { loadConfig } from '../server/core/config';
+import { openKinefoldDatabase } from '../server/core/db/open';
+import { storagePaths } from '../server/core/storage/paths';
 import { createFramePool } from './pool/frame-pool';
 import { startDailySchedule } from './runtime/daily-schedule';
 import { createJobRuntime } from './runtime/job-runtime';

@@ -5,7 +5,7 @@
  */
 import fs from 'node:fs';
 import path from 'node:path';
-import { loadConfig } from '../config';
+import { loadConfig } from '../core/config';
 
 const config = loadConfig();
 const KINEFOLD_FOLDERS = ['db', 'incoming', 'clips', 'pairsets'];

@@ -1,7 +1,7 @@
 /** `npm start`'s first step: bring the schema up to date and create demo data, before server and worker start. */
-import { loadConfig } from '../config';
-import { openKinefoldDatabase } from '../db/open';
-import { DEMO_ACCOUNTS, createDemoAccountsOnFirstStart } from '../services/demo-accounts';
+import { loadConfig } from '../core/config';
+import { openKinefoldDatabase } from '../core/db/open';
+import { DEMO_ACCOUNTS, createDemoAccountsOnFirstStart } from '../core/people/demo-accounts';
 
 const config = loadConfig();
 const sequelize = await openKinefoldDatabase(config);

@@ -4,10 +4,10 @@
  */
 import { parseArgs } from 'node:util';
 import { ROLES, type Role } from '../../shared/roles';
-import { loadConfig } from '../config';
-import { openKinefoldDatabase } from '../db/open';
-import { AppError } from '../errors';
-import { createUser } from '../services/users';
+import { loadConfig } from '../core/config';
+import { openKinefoldDatabase } from '../core/db/open';
+import { AppError } from '../core/errors';
+import { createUser } from '../core/people/users';
 
 const USAGE = 'usage: npm run user:add -- --email E --role operator|curator|engineer|admin --password P [--name N]';
 

@@ -1,4 +1,4 @@
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { curateDemoCampaign } from './curation';
 import { demoSeeded, seedDemoCampaign } from './seed';
 

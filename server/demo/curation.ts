@@ -1,14 +1,14 @@
 import { setTimeout as sleep } from 'node:timers/promises';
 import { Op } from 'sequelize';
 import { PAIRSET_DEFAULTS } from '../../shared/schemas/pairsets';
-import type { Config } from '../config';
-import { ApiToken, Clip, Invitation, Job, Pairset, Project, User } from '../models';
-import { createApiToken } from '../services/api-tokens';
-import { createInvitation } from '../services/invitations';
-import { createPairset, startBuild } from '../services/pairsets';
-import { requestReconcile } from '../services/reconcile-requests';
-import { claimClip } from '../services/review-claims';
-import { decideClip } from '../services/review-verdicts';
+import type { Config } from '../core/config';
+import { ApiToken, Clip, Invitation, Job, Pairset, Project, User } from '../core/models';
+import { createApiToken } from '../core/people/api-tokens';
+import { createInvitation } from '../core/people/invitations';
+import { createPairset, startBuild } from '../core/pairsets/pairsets';
+import { requestReconcile } from '../core/usage/reconcile-requests';
+import { claimClip } from '../core/review/review-claims';
+import { decideClip } from '../core/review/review-verdicts';
 import { DEMO_INVITATION, DEMO_PAIRSET, DEMO_PROJECTS, DEMO_TOKEN_NAME, DEMO_VERDICTS } from './scenario';
 
 const log = (message: string) => console.log(`Kinefold demo: ${message}`);

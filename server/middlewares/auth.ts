@@ -1,8 +1,8 @@
 import type { NextFunction, Request, Response } from 'express';
 import { HttpStatus } from '../../shared/http-status';
 import { roleAllows, type Role } from '../../shared/roles';
-import { AppError } from '../errors';
-import type { User } from '../models';
+import { AppError } from '../core/errors';
+import type { User } from '../core/models';
 
 declare global {
   namespace Express {

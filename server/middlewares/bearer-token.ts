@@ -1,7 +1,7 @@
 import type { NextFunction, Request, Response } from 'express';
 import { HttpStatus } from '../../shared/http-status';
-import { AppError } from '../errors';
-import { authenticateApiToken } from '../services/api-tokens';
+import { AppError } from '../core/errors';
+import { authenticateApiToken } from '../core/people/api-tokens';
 
 declare global {
   namespace Express {

@@ -1,6 +1,6 @@
 import { doubleCsrf } from 'csrf-csrf';
 import type { Request } from 'express';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 
 declare module 'express-session' {
   interface SessionData {

@@ -1,7 +1,7 @@
 import type { NextFunction, Request, Response } from 'express';
 import type { ApiErrorBody } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
-import { AppError } from '../errors';
+import { AppError } from '../core/errors';
 
 function send(res: Response, status: number, body: ApiErrorBody): void {
   res.status(status).json(body);

@@ -2,7 +2,7 @@ import type { Request, Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import type { ApiErrorBody } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 
 function tooMany(windowMs: number) {
   return (_req: Request, res: Response) => {

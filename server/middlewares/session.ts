@@ -1,7 +1,7 @@
 import connectSessionSequelize from 'connect-session-sequelize';
 import session from 'express-session';
 import type { Sequelize } from 'sequelize';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 
 export const SESSION_COOKIE = 'kinefold.sid';
 const EXPIRED_SESSION_SWEEP_MS = 15 * 60_000;

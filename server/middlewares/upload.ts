@@ -2,9 +2,9 @@ import type { NextFunction, Request, Response } from 'express';
 import multer from 'multer';
 import { formatBytes } from '../../shared/format-bytes';
 import { HttpStatus } from '../../shared/http-status';
-import { AppError } from '../errors';
-import type { StoragePaths } from '../storage/paths';
-import { UploadEngine } from '../services/upload-engine';
+import { AppError } from '../core/errors';
+import type { StoragePaths } from '../core/storage/paths';
+import { UploadEngine } from './upload-engine';
 
 /** Room for the multipart envelope and the metadata fields around the file. */
 const MULTIPART_ALLOWANCE_BYTES = 1024 * 1024;

@@ -1,45 +1,39 @@
-import type { NextFunction, Request, Response } from 'express';
+import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import type { z } from 'zod';
-import { HttpStatus } from '../../shared/http-status';
-import { AppError } from '../errors';
+import { invalidInput } from '../core/errors';
 
-declare global {
-  namespace Express {
-    interface Request {
-      /** Input that passed its zod schema; handlers read only this, never req.body or req.query directly. */
-      valid: { body?: unknown; query?: unknown; params?: unknown };
-    }
-  }
-}
+type InputPart = 'params' | 'query' | 'body';
+type Schemas = { [P in InputPart]?: z.ZodType };
 
-interface Schemas {
-  body?: z.ZodType;
-  query?: z.ZodType;
-  params?: z.ZodType;
-}
+/** The parts that have a schema, each as that schema's output (coerced, defaulted). */
+export type ValidInput<S extends Schemas> = { [P in keyof S & InputPart]: z.output<NonNullable<S[P]>> };
 
-/** Validates body, query and params with zod; the first problem becomes a 400 naming the field. */
-export function validate(schemas: Schemas) {
-  return (req: Request, _res: Response, next: NextFunction) => {
-    req.valid = {};
+/** A handler that reads only checked input; handlers never read req.body, req.query or req.params directly. */
+export type ValidatedHandler<S extends Schemas, ResBody> = (
+  input: ValidInput<S>,
+  req: Request,
+  res: Response<ResBody>,
+  next: NextFunction,
+) => Promise<void> | void;
+
+/**
+ * Parses params, query and body with their zod schemas and hands the results to the handler; the first problem
+ * becomes a 400 naming the field. The schemas alone decide the input type (NoInfer), so a handler that declares
+ * an input its schemas do not produce fails to compile.
+ */
+export function validated<S extends Schemas, ResBody>(
+  schemas: S,
+  handler: ValidatedHandler<NoInfer<S>, ResBody>,
+): RequestHandler {
+  return (req, res, next) => {
+    const input: { [P in InputPart]?: unknown } = {};
     for (const part of ['params', 'query', 'body'] as const) {
       const schema = schemas[part];
       if (!schema) continue;
       const result = schema.safeParse(req[part] ?? {});
       if (!result.success) throw invalidInput(part, result.error);
-      req.valid[part] = result.data;
+      input[part] = result.data;
     }
-    next();
+    return handler(input as ValidInput<S>, req, res, next);
   };
-}
-
-/** A zod failure as a 400 whose message starts with the field at fault. */
-export function invalidInput(part: string, error: z.ZodError): AppError {
-  const issues = error.issues.map((issue) => {
-    const keys = 'keys' in issue && Array.isArray(issue.keys) ? issue.keys.join(', ') : '';
-    const field = issue.path.length > 0 ? issue.path.join('.') : keys;
-    return { field: field || part, message: issue.message };
-  });
-  const first = issues[0]!;
-  return new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', `${first.field}: ${first.message}`, { issues });
 }

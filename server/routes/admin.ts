@@ -1,29 +1,42 @@
 import { Router, type Request, type Response } from 'express';
+import type { z } from 'zod';
 import { HttpStatus } from '../../shared/http-status';
 import { retentionQuerySchema, retentionRunSchema, type RetentionQuery } from '../../shared/schemas/admin';
 import type { RetentionPreview, UsageReport } from '../../shared/types/admin';
 import { currentUser, requireRole } from '../middlewares/auth';
-import { validate } from '../middlewares/validate';
-import { requestReconcile } from '../services/reconcile-requests';
-import { requestRetentionRun, retentionCandidates } from '../services/retention';
-import { usageReport } from '../services/usage';
-import type { StoragePaths } from '../storage/paths';
+import { validated } from '../middlewares/validate';
+import { requestReconcile } from '../core/usage/reconcile-requests';
+import { requestRetentionRun, retentionCandidates } from '../core/clips/retention';
+import { usageReport } from '../core/usage/usage';
+import type { StoragePaths } from '../core/storage/paths';
 
 export function createAdminRouter(paths: StoragePaths): Router {
   const router = Router();
   router.get('/usage', requireRole('admin'), getUsage(paths));
   router.post('/reconcile', requireRole('admin'), postReconcile);
-  router.get('/retention/preview', requireRole('admin'), validate({ query: retentionQuerySchema }), getRetentionPreview);
-  router.post('/retention/run', requireRole('admin'), validate({ body: retentionRunSchema }), postRetentionRun);
+  router.get(
+    '/retention/preview',
+    requireRole('admin'),
+    validated({ query: retentionQuerySchema }, getRetentionPreview),
+  );
+  router.post('/retention/run', requireRole('admin'), validated({ body: retentionRunSchema }, postRetentionRun));
   return router;
 }
 
-async function getRetentionPreview(req: Request, res: Response<RetentionPreview>): Promise<void> {
-  res.json(await retentionCandidates((req.valid.query as RetentionQuery).projectId));
+async function getRetentionPreview(
+  { query }: { query: RetentionQuery },
+  _req: Request,
+  res: Response<RetentionPreview>,
+): Promise<void> {
+  res.json(await retentionCandidates(query.projectId));
 }
 
-async function postRetentionRun(req: Request, res: Response<{ jobId: number }>): Promise<void> {
-  const job = await requestRetentionRun((req.valid.body as RetentionQuery).projectId, currentUser(req).id);
+async function postRetentionRun(
+  { body }: { body: z.output<typeof retentionRunSchema> },
+  req: Request,
+  res: Response<{ jobId: number }>,
+): Promise<void> {
+  const job = await requestRetentionRun(body.projectId, currentUser(req).id);
   res.status(HttpStatus.ACCEPTED).json({ jobId: job.id });
 }
 

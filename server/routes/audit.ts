@@ -7,21 +7,25 @@ import {
 } from '../../shared/schemas/admin';
 import type { AuditEntry } from '../../shared/types/admin';
 import { requireRole } from '../middlewares/auth';
-import { validate } from '../middlewares/validate';
-import { auditCsvLines, listAudit } from '../services/audit-log';
+import { validated } from '../middlewares/validate';
+import { auditCsvLines, listAudit } from '../core/audit/audit-log';
 
 /** Mounted at /api so the export keeps its `.csv` address: /api/audit and /api/audit.csv. */
 export const auditRouter = Router();
 
-auditRouter.get('/audit', requireRole('admin'), validate({ query: auditListQuerySchema }), getAudit);
-auditRouter.get('/audit.csv', requireRole('admin'), validate({ query: auditExportQuerySchema }), getAuditCsv);
+auditRouter.get('/audit', requireRole('admin'), validated({ query: auditListQuerySchema }, getAudit));
+auditRouter.get('/audit.csv', requireRole('admin'), validated({ query: auditExportQuerySchema }, getAuditCsv));
 
-async function getAudit(req: Request, res: Response<ListPage<AuditEntry>>): Promise<void> {
-  res.json(await listAudit(req.valid.query as AuditListQuery));
+async function getAudit(
+  { query }: { query: AuditListQuery },
+  _req: Request,
+  res: Response<ListPage<AuditEntry>>,
+): Promise<void> {
+  res.json(await listAudit(query));
 }
 
-async function getAuditCsv(req: Request, res: Response): Promise<void> {
+async function getAuditCsv({ query }: { query: AuditExportQuery }, _req: Request, res: Response): Promise<void> {
   res.setHeader('Content-Type', 'text/csv; charset=utf-8');
   res.attachment(`kinefold-audit-${new Date().toISOString().slice(0, 10)}.csv`);
-  await pipeline(Readable.from(auditCsvLines(req.valid.query as AuditExportQuery)), res);
+  await pipeline(Readable.from(auditCsvLines(query)), res);
 }

@@ -2,12 +2,12 @@ import { Router, type NextFunction, type Request, type RequestHandler, type Resp
 import passport from 'passport';
 import type { CsrfToken, Me } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
-import { signInSchema } from '../../shared/schemas/auth';
-import { ACCOUNT_DISABLED } from '../auth/passport';
-import { AppError } from '../errors';
-import { validate } from '../middlewares/validate';
-import type { User } from '../models';
-import { recordSignIn } from '../services/users';
+import { signInSchema, type SignInBody } from '../../shared/schemas/auth';
+import { ACCOUNT_DISABLED } from '../middlewares/passport';
+import { AppError } from '../core/errors';
+import { validated } from '../middlewares/validate';
+import type { User } from '../core/models';
+import { recordSignIn } from '../core/people/users';
 
 export interface AuthRouterDeps {
   signInLimits: RequestHandler[];
@@ -17,7 +17,7 @@ export interface AuthRouterDeps {
 export function createAuthRouter(deps: AuthRouterDeps): Router {
   const router = Router();
   router.get('/csrf', getCsrfToken(deps));
-  router.post('/sign-in', ...deps.signInLimits, validate({ body: signInSchema }), signIn);
+  router.post('/sign-in', ...deps.signInLimits, validated({ body: signInSchema }, signIn));
   router.post('/sign-out', signOut);
   return router;
 }
@@ -28,8 +28,8 @@ function getCsrfToken(deps: AuthRouterDeps) {
   };
 }
 
-/** Checks the password with passport-local; passport regenerates the session id on logIn. */
-function signIn(req: Request, res: Response<Me>, next: NextFunction): void {
+/** Checks the password with passport-local, which reads the (checked) body itself; logIn regenerates the session id. */
+function signIn(_input: { body: SignInBody }, req: Request, res: Response<Me>, next: NextFunction): void {
   passport.authenticate('local', (error: unknown, user: User | false, info?: { message?: string }) => {
     if (error) return next(error);
     if (!user) {

@@ -3,31 +3,35 @@ import { frameParamSchema, type FrameParam } from '../../shared/schemas/clip-med
 import { cutMarkBodySchema, type CutMarkBody } from '../../shared/schemas/cuts';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import type { ClipCutList, FrameCut } from '../../shared/types/cuts';
+import { clearCutMark, listClipCuts, markCut } from '../core/clips/clip-cuts';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
-import { validate } from '../middlewares/validate';
-import { clearCutMark, listClipCuts, markCut } from '../services/clip-cuts';
+import { validated } from '../middlewares/validate';
 
 /** A clip's cuts with their evidence, and curators' marks, under /api/clips. */
 export function createClipCutsRouter(): Router {
   const router = Router();
-  router.get('/:id/cuts', requireSignIn, validate({ params: idParamSchema }), getCuts);
-  const byFrame = validate({ params: frameParamSchema });
-  const markBody = validate({ params: frameParamSchema, body: cutMarkBodySchema });
-  router.put('/:id/cuts/:index', requireRole('curator'), markBody, putCutMark);
-  router.delete('/:id/cuts/:index', requireRole('curator'), byFrame, deleteCutMark);
+  router.get('/:id/cuts', requireSignIn, validated({ params: idParamSchema }, getCuts));
+  router.put(
+    '/:id/cuts/:index',
+    requireRole('curator'),
+    validated({ params: frameParamSchema, body: cutMarkBodySchema }, putCutMark),
+  );
+  router.delete('/:id/cuts/:index', requireRole('curator'), validated({ params: frameParamSchema }, deleteCutMark));
   return router;
 }
 
-async function getCuts(req: Request, res: Response<ClipCutList>): Promise<void> {
-  res.json(await listClipCuts((req.valid.params as IdParam).id));
+async function getCuts({ params }: { params: IdParam }, _req: Request, res: Response<ClipCutList>): Promise<void> {
+  res.json(await listClipCuts(params.id));
 }
 
-async function putCutMark(req: Request, res: Response<FrameCut>): Promise<void> {
-  const { id, index } = req.valid.params as FrameParam;
-  res.json(await markCut(id, index, (req.valid.body as CutMarkBody).value, currentUser(req)));
+async function putCutMark(
+  { params, body }: { params: FrameParam; body: CutMarkBody },
+  req: Request,
+  res: Response<FrameCut>,
+): Promise<void> {
+  res.json(await markCut(params.id, params.index, body.value, currentUser(req)));
 }
 
-async function deleteCutMark(req: Request, res: Response<FrameCut>): Promise<void> {
-  const { id, index } = req.valid.params as FrameParam;
-  res.json(await clearCutMark(id, index, currentUser(req)));
+async function deleteCutMark({ params }: { params: FrameParam }, req: Request, res: Response<FrameCut>): Promise<void> {
+  res.json(await clearCutMark(params.id, params.index, currentUser(req)));
 }

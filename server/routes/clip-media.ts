@@ -4,51 +4,51 @@ import { frameParamSchema, viewParamSchema, type FrameParam, type ViewParam } fr
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import type { ClipFrameList, ClipProgress } from '../../shared/types/frames';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
-import { validate } from '../middlewares/validate';
+import { validated } from '../middlewares/validate';
 import {
   clipProgress, framePath, listFrames, previewPath, reprocessClip, thumbnailPath, viewPath,
-} from '../services/clip-media';
-import { motionFieldPath, type MotionFile } from '../services/clip-motion';
-import type { StoragePaths } from '../storage/paths';
+} from '../core/clips/clip-media';
+import { motionFieldPath, type MotionFile } from '../core/clips/clip-motion';
+import type { StoragePaths } from '../core/storage/paths';
 
 /** What processing made of a clip, under /api/clips. Files stream with Range support (sendFile answers 206). */
 export function createClipMediaRouter(paths: StoragePaths): Router {
   const router = Router();
-  const byId = validate({ params: idParamSchema });
-  router.get('/:id/frames', requireSignIn, byId, getFrames);
-  router.get('/:id/frames/:index', requireSignIn, validate({ params: frameParamSchema }), getFrameImage(paths));
-  router.get('/:id/views/:index/:view', requireSignIn, validate({ params: viewParamSchema }), getViewImage(paths));
-  router.get('/:id/motion/:index', requireSignIn, validate({ params: frameParamSchema }), getMotion(paths, 'picture'));
-  router.get('/:id/motion/:index/flo', requireSignIn, validate({ params: frameParamSchema }), getMotion(paths, 'flo'));
-  router.get('/:id/thumbnail', requireSignIn, byId, getThumbnail(paths));
-  router.get('/:id/preview', requireSignIn, byId, getPreview(paths));
-  router.get('/:id/progress', requireSignIn, byId, getProgress);
-  router.post('/:id/reprocess', requireRole('admin'), byId, postReprocess);
+  const byId = { params: idParamSchema };
+  router.get('/:id/frames', requireSignIn, validated(byId, getFrames));
+  router.get('/:id/frames/:index', requireSignIn, validated({ params: frameParamSchema }, getFrameImage(paths)));
+  router.get('/:id/views/:index/:view', requireSignIn, validated({ params: viewParamSchema }, getViewImage(paths)));
+  router.get('/:id/motion/:index', requireSignIn, validated({ params: frameParamSchema }, getMotion(paths, 'picture')));
+  router.get('/:id/motion/:index/flo', requireSignIn, validated({ params: frameParamSchema }, getMotion(paths, 'flo')));
+  router.get('/:id/thumbnail', requireSignIn, validated(byId, getThumbnail(paths)));
+  router.get('/:id/preview', requireSignIn, validated(byId, getPreview(paths)));
+  router.get('/:id/progress', requireSignIn, validated(byId, getProgress));
+  router.post('/:id/reprocess', requireRole('admin'), validated(byId, postReprocess));
   return router;
 }
 
-async function getFrames(req: Request, res: Response<ClipFrameList>): Promise<void> {
-  res.json(await listFrames((req.valid.params as IdParam).id));
+async function getFrames({ params }: { params: IdParam }, _req: Request, res: Response<ClipFrameList>): Promise<void> {
+  res.json(await listFrames(params.id));
 }
 
 function getFrameImage(paths: StoragePaths) {
-  return async (req: Request, res: Response) => {
-    const { id, index } = req.valid.params as FrameParam;
+  return async ({ params }: { params: FrameParam }, _req: Request, res: Response) => {
+    const { id, index } = params;
     sendDerived(res, await framePath(id, index, paths));
   };
 }
 
 function getViewImage(paths: StoragePaths) {
-  return async (req: Request, res: Response) => {
-    const { id, index, view } = req.valid.params as ViewParam;
+  return async ({ params }: { params: ViewParam }, _req: Request, res: Response) => {
+    const { id, index, view } = params;
     sendDerived(res, await viewPath(id, index, view, paths));
   };
 }
 
 /** The forward field from frame index to index + 1: its colour picture, or the field as a Middlebury .flo file. */
 function getMotion(paths: StoragePaths, file: MotionFile) {
-  return async (req: Request, res: Response) => {
-    const { id, index } = req.valid.params as FrameParam;
+  return async ({ params }: { params: FrameParam }, _req: Request, res: Response) => {
+    const { id, index } = params;
     const field = await motionFieldPath(id, index, file, paths);
     // .flo has no registered media type; a download name saves scripts from guessing one.
     const download = `attachment; filename="clip-${id}-motion-${index}.flo"`;
@@ -59,23 +59,27 @@ function getMotion(paths: StoragePaths, file: MotionFile) {
 }
 
 function getThumbnail(paths: StoragePaths) {
-  return async (req: Request, res: Response) => {
-    sendDerived(res, await thumbnailPath((req.valid.params as IdParam).id, paths));
+  return async ({ params }: { params: IdParam }, _req: Request, res: Response) => {
+    sendDerived(res, await thumbnailPath(params.id, paths));
   };
 }
 
 function getPreview(paths: StoragePaths) {
-  return async (req: Request, res: Response) => {
-    sendDerived(res, await previewPath((req.valid.params as IdParam).id, paths));
+  return async ({ params }: { params: IdParam }, _req: Request, res: Response) => {
+    sendDerived(res, await previewPath(params.id, paths));
   };
 }
 
-async function getProgress(req: Request, res: Response<ClipProgress>): Promise<void> {
-  res.json(await clipProgress((req.valid.params as IdParam).id));
+async function getProgress({ params }: { params: IdParam }, _req: Request, res: Response<ClipProgress>): Promise<void> {
+  res.json(await clipProgress(params.id));
 }
 
-async function postReprocess(req: Request, res: Response<ClipProgress>): Promise<void> {
-  res.status(HttpStatus.ACCEPTED).json(await reprocessClip((req.valid.params as IdParam).id, currentUser(req).id));
+async function postReprocess(
+  { params }: { params: IdParam },
+  req: Request,
+  res: Response<ClipProgress>,
+): Promise<void> {
+  res.status(HttpStatus.ACCEPTED).json(await reprocessClip(params.id, currentUser(req).id));
 }
 
 /** Derived files change when a clip is processed again, so the browser asks each time (ETag makes that cheap). */

@@ -6,19 +6,19 @@ import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import type { ClipDetail, ClipSummary } from '../../shared/types/clips';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { receiveClipUpload } from '../middlewares/upload';
-import { validate } from '../middlewares/validate';
-import { admitUpload } from '../services/clip-admission';
-import { clipSourcePath, getClipDetail, listClips, removeClip, updateClipMetadata } from '../services/clips';
-import type { StoragePaths } from '../storage/paths';
+import { validated } from '../middlewares/validate';
+import { admitUpload } from '../core/clips/clip-admission';
+import { clipSourcePath, getClipDetail, listClips, removeClip, updateClipMetadata } from '../core/clips/clips';
+import type { StoragePaths } from '../core/storage/paths';
 
 export function createClipsRouter(paths: StoragePaths, uploadLimitBytes: number, publicUrl: string): Router {
   const router = Router();
   router.post('/', requireRole('operator'), receiveClipUpload(paths, uploadLimitBytes), postClip(paths, publicUrl));
-  router.get('/', requireSignIn, validate({ query: clipListQuerySchema }), getClips);
-  router.get('/:id', requireSignIn, validate({ params: idParamSchema }), getClip);
-  router.patch('/:id', requireSignIn, validate({ params: idParamSchema, body: clipPatchSchema }), patchClip);
-  router.delete('/:id', requireSignIn, validate({ params: idParamSchema }), deleteClip(paths));
-  router.get('/:id/source', requireSignIn, validate({ params: idParamSchema }), getClipSource(paths));
+  router.get('/', requireSignIn, validated({ query: clipListQuerySchema }, getClips));
+  router.get('/:id', requireSignIn, validated({ params: idParamSchema }, getClip));
+  router.patch('/:id', requireSignIn, validated({ params: idParamSchema, body: clipPatchSchema }, patchClip));
+  router.delete('/:id', requireSignIn, validated({ params: idParamSchema }, deleteClip(paths)));
+  router.get('/:id/source', requireSignIn, validated({ params: idParamSchema }, getClipSource(paths)));
   return router;
 }
 
@@ -29,30 +29,37 @@ function postClip(paths: StoragePaths, publicUrl: string) {
   };
 }
 
-async function getClips(req: Request, res: Response<ListPage<ClipSummary>>): Promise<void> {
-  res.json(await listClips(req.valid.query as ClipListQuery));
+async function getClips(
+  { query }: { query: ClipListQuery },
+  _req: Request,
+  res: Response<ListPage<ClipSummary>>,
+): Promise<void> {
+  res.json(await listClips(query));
 }
 
-async function getClip(req: Request, res: Response<ClipDetail>): Promise<void> {
-  res.json(await getClipDetail((req.valid.params as IdParam).id, currentUser(req)));
+async function getClip({ params }: { params: IdParam }, req: Request, res: Response<ClipDetail>): Promise<void> {
+  res.json(await getClipDetail(params.id, currentUser(req)));
 }
 
-async function patchClip(req: Request, res: Response<ClipDetail>): Promise<void> {
-  const { id } = req.valid.params as IdParam;
-  res.json(await updateClipMetadata(id, req.valid.body as ClipPatch, currentUser(req)));
+async function patchClip(
+  { params, body }: { params: IdParam; body: ClipPatch },
+  req: Request,
+  res: Response<ClipDetail>,
+): Promise<void> {
+  res.json(await updateClipMetadata(params.id, body, currentUser(req)));
 }
 
 function deleteClip(paths: StoragePaths) {
-  return async (req: Request, res: Response) => {
-    await removeClip((req.valid.params as IdParam).id, currentUser(req), paths);
+  return async ({ params }: { params: IdParam }, req: Request, res: Response) => {
+    await removeClip(params.id, currentUser(req), paths);
     res.status(HttpStatus.NO_CONTENT).end();
   };
 }
 
 /** The source file, typed by its stored extension, with HTTP Range support (sendFile answers 206 to a Range). */
 function getClipSource(paths: StoragePaths) {
-  return async (req: Request, res: Response) => {
-    const source = await clipSourcePath((req.valid.params as IdParam).id, paths);
+  return async ({ params }: { params: IdParam }, _req: Request, res: Response) => {
+    const source = await clipSourcePath(params.id, paths);
     res.sendFile(source.path, { acceptRanges: true, dotfiles: 'deny' });
   };
 }

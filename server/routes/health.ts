@@ -1,7 +1,7 @@
 import { Router, type Request, type Response } from 'express';
 import type { Health } from '../../shared/api-types';
-import { User } from '../models';
-import { APP_VERSION } from '../version';
+import { User } from '../core/models';
+import { APP_VERSION } from '../core/version';
 
 export const healthRouter = Router();
 

@@ -1,7 +1,7 @@
 import { Router } from 'express';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { apiNotFound } from '../middlewares/errors';
-import type { StoragePaths } from '../storage/paths';
+import type { StoragePaths } from '../core/storage/paths';
 import { createAdminRouter } from './admin';
 import { createSettingsRouter } from './settings';
 import { auditRouter } from './audit';
@@ -13,15 +13,13 @@ import { healthRouter } from './health';
 import { createInvitationsRouter } from './invitations';
 import { jobsRouter } from './jobs';
 import { mailRouter } from './mail';
-import { meRouter } from './me';
+import { createMeRouter } from './me';
 import { createPairsetsRouter } from './pairsets';
 import { createPasswordResetRouter } from './password-reset';
-import { createPeopleRouter } from './people';
-import { createProfileRouter } from './profile';
 import { projectsRouter } from './projects';
 import { createClipReviewRouter, createReviewRouter, createReviewSettingsRouter } from './review';
 import { tokensRouter } from './tokens';
-import { usersRouter } from './users';
+import { createUsersRouter } from './users';
 
 /** Every API route under /api, then a JSON 404 for anything else there. */
 export interface ApiDeps {
@@ -37,10 +35,8 @@ export function createApiRouter(deps: ApiDeps): Router {
   api.use('/health', healthRouter);
   api.use('/auth', createAuthRouter(deps.auth));
   api.use('/auth', createPasswordResetRouter(deps.config));
-  api.use('/me', meRouter);
-  api.use('/me', createProfileRouter(deps.config));
-  api.use('/users', usersRouter);
-  api.use('/users', createPeopleRouter(deps.config));
+  api.use('/me', createMeRouter(deps.config));
+  api.use('/users', createUsersRouter(deps.config));
   api.use('/invitations', createInvitationsRouter(deps.config));
   api.use('/mail', mailRouter);
   api.use('/projects', projectsRouter);

@@ -4,10 +4,10 @@ import { HttpStatus } from '../../shared/http-status';
 import {
   resetPasswordSchema, resetRequestSchema, type ResetPasswordBody, type ResetRequestBody,
 } from '../../shared/schemas/password-reset';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { createResetRequestLimits } from '../middlewares/reset-request-limits';
-import { validate } from '../middlewares/validate';
-import { requestPasswordReset, resetPassword } from '../services/password-reset';
+import { validated } from '../middlewares/validate';
+import { requestPasswordReset, resetPassword } from '../core/people/password-reset';
 
 export const RESET_REQUESTED = 'If that address belongs to an active Kinefold account, a link to choose a new '
   + 'password is on its way. It works for one hour.';
@@ -15,15 +15,18 @@ export const RESET_REQUESTED = 'If that address belongs to an active Kinefold ac
 /** "Forgot password" from the sign-in page, and the form its link leads to; both work signed out. */
 export function createPasswordResetRouter(config: Config): Router {
   const router = Router();
-  router.post('/reset-request', ...createResetRequestLimits(config), validate({ body: resetRequestSchema }),
-    requestReset(config));
-  router.post('/reset', validate({ body: resetPasswordSchema }), reset(config));
+  router.post(
+    '/reset-request',
+    ...createResetRequestLimits(config),
+    validated({ body: resetRequestSchema }, requestReset(config)),
+  );
+  router.post('/reset', validated({ body: resetPasswordSchema }, reset(config)));
   return router;
 }
 
 function requestReset(config: Config) {
-  return (req: Request, res: Response<Notice>) => {
-    const { email } = req.valid.body as ResetRequestBody;
+  return ({ body }: { body: ResetRequestBody }, _req: Request, res: Response<Notice>) => {
+    const { email } = body;
     res.status(HttpStatus.ACCEPTED).json({ message: RESET_REQUESTED });
     // The work starts once the answer is out, so the answer's timing says nothing about the address.
     requestPasswordReset(email, config).catch((error: unknown) => {
@@ -33,8 +36,8 @@ function requestReset(config: Config) {
 }
 
 function reset(config: Config) {
-  return async (req: Request, res: Response) => {
-    const { token, password } = req.valid.body as ResetPasswordBody;
+  return async ({ body }: { body: ResetPasswordBody }, req: Request, res: Response) => {
+    const { token, password } = body;
     await resetPassword(token, password, req.sessionID ?? null, config.bcryptCost);
     res.status(HttpStatus.NO_CONTENT).end();
   };

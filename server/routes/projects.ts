@@ -8,29 +8,48 @@ import {
 } from '../../shared/schemas/projects';
 import type { ProjectSummary } from '../../shared/types/projects';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
-import { validate } from '../middlewares/validate';
-import { createProject, getProject, listProjects, updateProject } from '../services/projects';
+import { validated } from '../middlewares/validate';
+import { createProject, getProject, listProjects, updateProject } from '../core/projects/projects';
 
 export const projectsRouter = Router();
 
-projectsRouter.get('/', requireSignIn, validate({ query: projectListQuerySchema }), getProjects);
-projectsRouter.get('/:id', requireSignIn, validate({ params: idParamSchema }), getOneProject);
-projectsRouter.post('/', requireRole('admin'), validate({ body: projectBodySchema }), postProject);
-projectsRouter.patch('/:id', requireRole('admin'), validate({ params: idParamSchema, body: projectPatchSchema }), patchProject);
+projectsRouter.get('/', requireSignIn, validated({ query: projectListQuerySchema }, getProjects));
+projectsRouter.get('/:id', requireSignIn, validated({ params: idParamSchema }, getOneProject));
+projectsRouter.post('/', requireRole('admin'), validated({ body: projectBodySchema }, postProject));
+projectsRouter.patch(
+  '/:id',
+  requireRole('admin'),
+  validated({ params: idParamSchema, body: projectPatchSchema }, patchProject),
+);
 
-async function getProjects(req: Request, res: Response<ListPage<ProjectSummary>>): Promise<void> {
-  res.json(await listProjects(req.valid.query as ProjectListQuery));
+async function getProjects(
+  { query }: { query: ProjectListQuery },
+  _req: Request,
+  res: Response<ListPage<ProjectSummary>>,
+): Promise<void> {
+  res.json(await listProjects(query));
 }
 
-async function getOneProject(req: Request, res: Response<ProjectSummary>): Promise<void> {
-  res.json(await getProject((req.valid.params as IdParam).id));
+async function getOneProject(
+  { params }: { params: IdParam },
+  _req: Request,
+  res: Response<ProjectSummary>,
+): Promise<void> {
+  res.json(await getProject(params.id));
 }
 
-async function postProject(req: Request, res: Response<ProjectSummary>): Promise<void> {
-  res.status(HttpStatus.CREATED).json(await createProject(req.valid.body as ProjectBody, currentUser(req).id));
+async function postProject(
+  { body }: { body: ProjectBody },
+  req: Request,
+  res: Response<ProjectSummary>,
+): Promise<void> {
+  res.status(HttpStatus.CREATED).json(await createProject(body, currentUser(req).id));
 }
 
-async function patchProject(req: Request, res: Response<ProjectSummary>): Promise<void> {
-  const { id } = req.valid.params as IdParam;
-  res.json(await updateProject(id, req.valid.body as ProjectPatch, currentUser(req).id));
+async function patchProject(
+  { params, body }: { params: IdParam; body: ProjectPatch },
+  req: Request,
+  res: Response<ProjectSummary>,
+): Promise<void> {
+  res.json(await updateProject(params.id, body, currentUser(req).id));
 }

@@ -1,4 +1,5 @@
 import { Router, type Request, type Response } from 'express';
+import type { z } from 'zod';
 import type { ListPage } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
@@ -11,71 +12,88 @@ import type {
   BulkResponse, ClipClaim, RejectReasonList, ReviewFacets, ReviewQueueItem,
 } from '../../shared/types/review';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
-import { validate } from '../middlewares/validate';
-import { bulkDecide } from '../services/review-bulk';
-import { claimClip, releaseClaim } from '../services/review-claims';
-import { listReviewQueue, reviewFacets } from '../services/review-queue';
-import { listRejectReasons, replaceRejectReasons } from '../services/review-reasons';
-import { decideClip } from '../services/review-verdicts';
+import { validated } from '../middlewares/validate';
+import { bulkDecide } from '../core/review/review-bulk';
+import { claimClip, releaseClaim } from '../core/review/review-claims';
+import { listReviewQueue, reviewFacets } from '../core/review/review-queue';
+import { listRejectReasons, replaceRejectReasons } from '../core/review/review-reasons';
+import { decideClip } from '../core/review/review-verdicts';
+
+/** The shared schemas name no type for an empty query; this one follows the schema. */
+type NoQuery = z.output<typeof noQuerySchema>;
 
 /** Under /api/review: the queue, its filter lists and bulk decisions. Curators (and admins). */
 export function createReviewRouter(): Router {
   const router = Router();
-  router.get('/queue', requireRole('curator'), validate({ query: reviewQueueQuerySchema }), getQueue);
-  router.get('/facets', requireRole('curator'), validate({ query: noQuerySchema }), getFacets);
-  router.post('/bulk', requireRole('curator'), validate({ body: bulkBodySchema }), postBulk);
+  router.get('/queue', requireRole('curator'), validated({ query: reviewQueueQuerySchema }, getQueue));
+  router.get('/facets', requireRole('curator'), validated({ query: noQuerySchema }, getFacets));
+  router.post('/bulk', requireRole('curator'), validated({ body: bulkBodySchema }, postBulk));
   return router;
 }
 
 /** Under /api/clips: claiming a clip for review and deciding it. */
 export function createClipReviewRouter(): Router {
   const router = Router();
-  const byId = validate({ params: idParamSchema });
-  router.post('/:id/claim', requireRole('curator'), byId, postClaim);
-  router.delete('/:id/claim', requireRole('curator'), byId, deleteClaim);
-  router.post('/:id/verdict', requireRole('curator'), validate({ params: idParamSchema, body: verdictBodySchema }),
-    postVerdict);
+  const byId = { params: idParamSchema };
+  router.post('/:id/claim', requireRole('curator'), validated(byId, postClaim));
+  router.delete('/:id/claim', requireRole('curator'), validated(byId, deleteClaim));
+  router.post(
+    '/:id/verdict',
+    requireRole('curator'),
+    validated({ params: idParamSchema, body: verdictBodySchema }, postVerdict),
+  );
   return router;
 }
 
 /** Under /api/settings: the reject-reasons list; everyone signed in reads it, admins replace it. */
 export function createReviewSettingsRouter(): Router {
   const router = Router();
-  router.get('/reject-reasons', requireSignIn, validate({ query: noQuerySchema }), getReasons);
-  router.put('/reject-reasons', requireRole('admin'), validate({ body: rejectReasonsBodySchema }), putReasons);
+  router.get('/reject-reasons', requireSignIn, validated({ query: noQuerySchema }, getReasons));
+  router.put('/reject-reasons', requireRole('admin'), validated({ body: rejectReasonsBodySchema }, putReasons));
   return router;
 }
 
-async function getQueue(req: Request, res: Response<ListPage<ReviewQueueItem>>): Promise<void> {
-  res.json(await listReviewQueue(req.valid.query as ReviewQueueQuery));
+async function getQueue(
+  { query }: { query: ReviewQueueQuery },
+  _req: Request,
+  res: Response<ListPage<ReviewQueueItem>>,
+): Promise<void> {
+  res.json(await listReviewQueue(query));
 }
 
-async function getFacets(_req: Request, res: Response<ReviewFacets>): Promise<void> {
+async function getFacets(_input: { query: NoQuery }, _req: Request, res: Response<ReviewFacets>): Promise<void> {
   res.json(await reviewFacets());
 }
 
-async function postBulk(req: Request, res: Response<BulkResponse>): Promise<void> {
-  res.json(await bulkDecide(req.valid.body as BulkBody, currentUser(req)));
+async function postBulk({ body }: { body: BulkBody }, req: Request, res: Response<BulkResponse>): Promise<void> {
+  res.json(await bulkDecide(body, currentUser(req)));
 }
 
-async function postClaim(req: Request, res: Response<ClipClaim>): Promise<void> {
-  res.json(await claimClip((req.valid.params as IdParam).id, currentUser(req)));
+async function postClaim({ params }: { params: IdParam }, req: Request, res: Response<ClipClaim>): Promise<void> {
+  res.json(await claimClip(params.id, currentUser(req)));
 }
 
-async function deleteClaim(req: Request, res: Response): Promise<void> {
-  await releaseClaim((req.valid.params as IdParam).id, currentUser(req));
+async function deleteClaim({ params }: { params: IdParam }, req: Request, res: Response): Promise<void> {
+  await releaseClaim(params.id, currentUser(req));
   res.status(HttpStatus.NO_CONTENT).end();
 }
 
-async function postVerdict(req: Request, res: Response<ClipDetail>): Promise<void> {
-  const { id } = req.valid.params as IdParam;
-  res.json(await decideClip(id, req.valid.body as VerdictBody, currentUser(req)));
+async function postVerdict(
+  { params, body }: { params: IdParam; body: VerdictBody },
+  req: Request,
+  res: Response<ClipDetail>,
+): Promise<void> {
+  res.json(await decideClip(params.id, body, currentUser(req)));
 }
 
-async function getReasons(_req: Request, res: Response<RejectReasonList>): Promise<void> {
+async function getReasons(_input: { query: NoQuery }, _req: Request, res: Response<RejectReasonList>): Promise<void> {
   res.json(await listRejectReasons());
 }
 
-async function putReasons(req: Request, res: Response<RejectReasonList>): Promise<void> {
-  res.json(await replaceRejectReasons(req.valid.body as RejectReasonsBody, currentUser(req).id));
+async function putReasons(
+  { body }: { body: RejectReasonsBody },
+  req: Request,
+  res: Response<RejectReasonList>,
+): Promise<void> {
+  res.json(await replaceRejectReasons(body, currentUser(req).id));
 }

@@ -1,15 +1,15 @@
 import { Router, type Request, type Response } from 'express';
 import { settingsSchema, type Settings } from '../../shared/schemas/settings';
-import type { Config } from '../config';
+import type { Config } from '../core/config';
 import { currentUser, requireRole } from '../middlewares/auth';
-import { validate } from '../middlewares/validate';
-import { currentSettings, saveSettings } from '../services/settings';
+import { validated } from '../middlewares/validate';
+import { currentSettings, saveSettings } from '../core/settings/settings';
 
 /** `/api/settings`: the reject reasons live beside it at `/api/settings/reject-reasons` (Review). */
 export function createSettingsRouter(config: Config): Router {
   const router = Router();
   router.get('/', requireRole('admin'), getSettings(config));
-  router.put('/', requireRole('admin'), validate({ body: settingsSchema }), putSettings(config));
+  router.put('/', requireRole('admin'), validated({ body: settingsSchema }, putSettings(config)));
   return router;
 }
 
@@ -20,8 +20,8 @@ function getSettings(config: Config) {
 }
 
 function putSettings(config: Config) {
-  return async (req: Request, res: Response<Settings>) => {
-    await saveSettings(req.valid.body as Settings, currentUser(req).id);
+  return async ({ body }: { body: Settings }, req: Request, res: Response<Settings>) => {
+    await saveSettings(body, currentUser(req).id);
     res.json(await currentSettings(config));
   };
 }

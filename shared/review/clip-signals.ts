@@ -1,5 +1,4 @@
 import { validMoments, type MomentFrame } from '../pairing/pairing-graph';
-import type { ClipFrame } from '../types/frames';
 
 /**
  * Clip-level figures the review queue sorts and filters by, from a clip's frames (with their motion, where the
@@ -22,7 +21,7 @@ export interface DeltaPairs {
   pairs: number;
 }
 
-export function clipReviewSignals(frames: readonly ClipFrame[], deltas: readonly number[]): ClipReviewSignals {
+export function clipReviewSignals(frames: readonly MomentFrame[], deltas: readonly number[]): ClipReviewSignals {
   const fields = frames.flatMap((frame) => (frame.motion ? [frame.motion] : []));
   const mean = (values: number[]) => (values.length === 0 ? null : values.reduce((a, b) => a + b, 0) / values.length);
   return {

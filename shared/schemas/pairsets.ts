@@ -1,8 +1,11 @@
 import { z } from 'zod';
 import { pairKinds, viewNames, type ViewKind, type ViewName } from '../pairing/pairing-graph';
-import { PAIRSET_STATES } from '../types/pairsets';
 import { MAX_TAG_LENGTH } from './clips';
 import { listQuerySchema } from './list-query';
+
+/** A pairset's life (DESIGN §2): a draft is built once; a built pairset never changes. */
+export const PAIRSET_STATES = ['draft', 'building', 'built', 'failed', 'cancelled'] as const;
+export type PairsetState = (typeof PAIRSET_STATES)[number];
 
 /** The views a definition may choose per moment (DESIGN §2), in the form's order. */
 export const PAIRSET_VIEW_KINDS = ['frame', 'neighbour', 'motion', 'luma', 'chroma'] as const satisfies ViewKind[];

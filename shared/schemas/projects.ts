@@ -1,21 +1,11 @@
 import { z } from 'zod';
-import { ESTIMATORS } from '../estimators';
+import { DEFAULT_ESTIMATOR } from '../estimators';
 import { listQuerySchema } from './list-query';
+import { checkEstimatorParams, settingsFields as settingsShape } from './project-settings';
 
-export const MAX_DELTA = 30;
 const quotaBytes = z.number().int().min(0, 'quotaBytes must be 0 or more bytes').max(2 ** 53 - 1).nullable();
 
-const settingsShape = {
-  sampleFps: z.number().min(0.5, 'sampleFps must be at least 0.5 frames/s').max(30, 'sampleFps must be at most 30'),
-  workingSize: z.number().int().min(64, 'workingSize must be at least 64 px').max(1920, 'workingSize must be at most 1920 px'),
-  deltas: z.array(z.number().int().min(1).max(MAX_DELTA)).min(1, 'deltas needs at least one offset').max(8)
-    .refine((values) => new Set(values).size === values.length, 'deltas must not repeat'),
-  estimator: z.enum(ESTIMATORS),
-  estimatorParams: z.record(z.string(), z.union([z.number(), z.string(), z.boolean()])),
-  flagThresholds: z.record(z.string(), z.number().min(0)),
-};
-
-export const projectBodySchema = z.strictObject({
+const projectFields = z.strictObject({
   name: z.string().trim().min(1, 'name is required').max(200),
   description: z.string().max(4000).optional(),
   quotaBytes: quotaBytes.optional(),
@@ -28,9 +18,15 @@ export const projectBodySchema = z.strictObject({
   estimatorParams: settingsShape.estimatorParams.optional(),
   flagThresholds: settingsShape.flagThresholds.optional(),
 });
+
+/** A new project: its estimator parameters must belong to its estimator (the default one when not chosen). */
+export const projectBodySchema = projectFields.superRefine((body, context) => {
+  if (body.estimatorParams) checkEstimatorParams(body.estimator ?? DEFAULT_ESTIMATOR, body.estimatorParams, context);
+});
 export type ProjectBody = z.infer<typeof projectBodySchema>;
 
-export const projectPatchSchema = projectBodySchema.partial();
+/** A change of some fields; the service checks the project's settings as a whole once the change is applied. */
+export const projectPatchSchema = projectFields.partial();
 export type ProjectPatch = z.infer<typeof projectPatchSchema>;
 
 export const projectListQuerySchema = listQuerySchema(['name', 'createdAt']).extend({

@@ -1,12 +1,10 @@
 import { z } from 'zod';
-import { DEFAULT_FLAG_THRESHOLDS } from '../flag-thresholds';
-
-const thresholdKeys = Object.keys(DEFAULT_FLAG_THRESHOLDS) as [string, ...string[]];
+import { flagThresholdsSchema } from './project-settings';
 
 /** Installation-wide settings an admin edits (the reject reasons have their own endpoint). */
 export const settingsSchema = z.strictObject({
   /** Flag thresholds that new projects start with (each project may change its own afterwards). */
-  projectFlagDefaults: z.partialRecord(z.enum(thresholdKeys), z.number().min(0)),
+  projectFlagDefaults: flagThresholdsSchema,
   mailFrom: z.string().trim().min(3).max(200)
     .regex(/^[^<>]*<[^@\s<>]+@[^@\s<>]+>$|^[^@\s<>]+@[^@\s<>]+$/, 'mailFrom must be an address or "Name <address>"'),
   sessionHours: z.number().int().min(1, 'sessionHours must be at least 1').max(24 * 30, 'sessionHours must be at most 720'),

@@ -7,7 +7,10 @@
 export type CutEvidenceName = 'histogram' | 'edges' | 'warp' | 'consistency';
 
 export const CUT_EVIDENCE_NAMES: readonly CutEvidenceName[] = Object.freeze([
-  'histogram', 'edges', 'warp', 'consistency',
+  'histogram',
+  'edges',
+  'warp',
+  'consistency',
 ]);
 
 /**

@@ -1,11 +1,8 @@
 import type { PairDifficulty } from '../pairing/pair-difficulty';
 import type { PairKind, ViewName } from '../pairing/pairing-graph';
 import type { SplitName } from '../pairing/split';
-import type { PairsetDefinition } from '../schemas/pairsets';
+import type { PairsetDefinition, PairsetState } from '../schemas/pairsets';
 
-/** A pairset's life (DESIGN §2): a draft is built once; a built pairset never changes. */
-export const PAIRSET_STATES = ['draft', 'building', 'built', 'failed', 'cancelled'] as const;
-export type PairsetState = (typeof PAIRSET_STATES)[number];
 
 export interface SplitCounts {
   train: number;

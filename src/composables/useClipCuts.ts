@@ -24,11 +24,9 @@ export function useClipCuts(clipId: Ref<number>) {
   async function change(index: number, value: CutMarkValue | null): Promise<void> {
     busy.value = true;
     try {
-      const changed = value === null
-        ? await clearCutMark(clipId.value, index)
-        : await markCut(clipId.value, index, value);
-      items.value = [...items.value.filter((item) => item.index !== index), changed]
-        .sort((a, b) => a.index - b.index);
+      const changed =
+        value === null ? await clearCutMark(clipId.value, index) : await markCut(clipId.value, index, value);
+      items.value = [...items.value.filter((item) => item.index !== index), changed].sort((a, b) => a.index - b.index);
       error.value = null;
     } catch (caught) {
       error.value = caught instanceof Error ? caught.message : String(caught);

@@ -1,4 +1,4 @@
-import type { RouteName } from '../router/routes';
+import type { RouteName } from '../router/route-names';
 
 export interface NavItem {
   label: string;

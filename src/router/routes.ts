@@ -1,12 +1,6 @@
 import type { RouteRecordRaw } from 'vue-router';
+import type { RouteName } from './route-names';
 
-export type RouteName =
-  | 'sign-in' | 'home' | 'people' | 'not-allowed' | 'not-found'
-  | 'projects' | 'upload' | 'clips' | 'clip-detail'
-  | 'invitation' | 'forgot-password' | 'reset-password' | 'profile' | 'mail-log'
-  | 'admin-usage' | 'admin-jobs' | 'admin-audit' | 'admin-settings'
-  | 'review-queue' | 'review-clip'
-  | 'pairsets' | 'pairset-new' | 'pairset-detail' | 'api-tokens';
 
 export const routes: (RouteRecordRaw & { name?: RouteName })[] = [
   {

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { User } from '../../server/models';
+import { User } from '../../server/core/models';
 import {
   TEST_PASSWORD, addUser, agentWithCsrf, appWith, signedInAgent, startTestServer, type TestServer,
 } from '../helpers/test-server';

@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, CutMark, Frame } from '../../server/models';
+import { AuditEvent, Clip, CutMark, Frame } from '../../server/core/models';
 import { validMoments } from '../../shared/pairing/pairing-graph';
 import type { ClipCutList, FrameCut } from '../../shared/types/cuts';
 import { cropFilter, makeCutClip, makeTexture, textureFileIn } from '../helpers/motion-clips';
@@ -35,8 +35,9 @@ beforeAll(async () => {
   await worker.drain();
   await worker.close();
   await clip.reload();
-  detected = (await Frame.findAll({ where: { clipId: clip.id, cutBefore: true }, order: [['index', 'ASC']] }))
-    .map((frame) => frame.index);
+  detected = (await Frame.findAll({ where: { clipId: clip.id, cutBefore: true }, order: [['index', 'ASC']] })).map(
+    (frame) => frame.index,
+  );
   fs.copyFileSync(file, path.join(gen, 'other.mp4'));
   fs.appendFileSync(path.join(gen, 'other.mp4'), Buffer.from([1]));
   queued = (await insertClip(server, path.join(gen, 'other.mp4'), project.id, adminId)).clip;
@@ -124,8 +125,10 @@ describe('PUT and DELETE /api/clips/:id/cuts/:index', () => {
     expect((await Frame.findOne({ where: { clipId: clip.id, index: 3 } }))!.cutBefore).toBe(true);
     expect((await clip.reload()).cutCount).toBe(3);
     // The next pairset build pairs by these frames: no frame~neighbour+1 pair reaches across frame 3 any more.
-    const frames = (await Frame.findAll({ where: { clipId: clip.id } }))
-      .map((frame) => ({ index: frame.index, cutBefore: frame.cutBefore }));
+    const frames = (await Frame.findAll({ where: { clipId: clip.id } })).map((frame) => ({
+      index: frame.index,
+      cutBefore: frame.cutBefore,
+    }));
     const moments = validMoments(frames, { kind: 'frame~neighbour+1', a: 'frame', b: 'neighbour+1' });
     expect(moments).not.toContain(2);
     expect(moments).toContain(1);
@@ -141,7 +144,9 @@ describe('PUT and DELETE /api/clips/:id/cuts/:index', () => {
     expect((await Frame.findOne({ where: { clipId: clip.id, index: at } }))!.cutBefore).toBe(false);
     const listed = (await agent.get(`/api/clips/${clip.id}/cuts`).expect(200)).body as ClipCutList;
     expect(listed.items.find((item) => item.index === at)).toMatchObject({
-      detected: true, cutBefore: false, mark: { value: 'none', byName: expect.any(String) },
+      detected: true,
+      cutBefore: false,
+      mark: { value: 'none', byName: expect.any(String) },
     });
     const cleared = (await agent.delete(url(at)).set('x-csrf-token', csrf).expect(200)).body as FrameCut;
     expect(cleared).toMatchObject({ detected: true, cutBefore: true, mark: null });
@@ -152,9 +157,12 @@ describe('PUT and DELETE /api/clips/:id/cuts/:index', () => {
 
   it('keeps marks when the clip is processed again', async () => {
     const { agent, csrf } = await agentOf('admin');
-    await agent.post(`/api/clips/${clip.id}/reprocess`).set('x-csrf-token', csrf).expect((res) => {
-      expect(res.status).toBeLessThan(300);
-    });
+    await agent
+      .post(`/api/clips/${clip.id}/reprocess`)
+      .set('x-csrf-token', csrf)
+      .expect((res) => {
+        expect(res.status).toBeLessThan(300);
+      });
     const worker = startTestRuntime(server);
     await worker.drain();
     await worker.close();

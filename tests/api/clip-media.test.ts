@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Clip, Job } from '../../server/models';
+import { Clip, Job } from '../../server/core/models';
 import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
 import { startTestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';

@@ -3,8 +3,8 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, Project } from '../../server/models';
-import { storagePaths } from '../../server/storage/paths';
+import { AuditEvent, Clip, Job, Project } from '../../server/core/models';
+import { storagePaths } from '../../server/core/storage/paths';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 

@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Invitation, MailOutbox, User } from '../../server/models';
+import { AuditEvent, Invitation, MailOutbox, User } from '../../server/core/models';
 import { messagesTo, startTestMail, tokenFromLink } from '../helpers/mail';
 import { addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 

@@ -3,10 +3,10 @@ import { SMTPServer } from 'smtp-server';
 import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
-import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
-import { queueMail } from '../../server/mail/outbox';
-import { createMailSender, type MailSender } from '../../server/mail/sender';
-import { MailMessage, MailOutbox } from '../../server/models';
+import { startFakeSmtp, type FakeSmtp } from '../../server/core/mail/fake-smtp';
+import { queueMail } from '../../server/core/mail/outbox';
+import { createMailSender, type MailSender } from '../../server/core/mail/sender';
+import { MailMessage, MailOutbox } from '../../server/core/models';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 
 let server: TestServer;

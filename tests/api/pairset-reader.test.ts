@@ -6,7 +6,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createApiToken } from '../../server/services/api-tokens';
+import { createApiToken } from '../../server/core/people/api-tokens';
 import type { PairsetDetail } from '../../shared/types/pairsets';
 import { curlCommand } from '../../src/components/pairsets/curl-command';
 import { addPairsetClip } from '../helpers/pairset-clips';
@@ -24,11 +24,11 @@ let pairset: PairsetDetail;
 let token: string;
 const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-reader-'));
 
-/** The Python block of the README's "Reading a pairset in Python", exactly as written there. */
-function readmeReader(): string {
-  const readme = fs.readFileSync(path.resolve('README.md'), 'utf8');
-  const match = /<!-- pairset-reader -->\n```python\n([\s\S]*?)```/.exec(readme);
-  if (!match) throw new Error('README.md has no pairset-reader block');
+/** The Python block of "Reading a pairset in Python" in docs/pairsets.md, exactly as written there. */
+function documentedReader(): string {
+  const doc = fs.readFileSync(path.resolve('docs/pairsets.md'), 'utf8');
+  const match = /#+ Reading a pairset in Python\n[\s\S]*?<!-- pairset-reader -->\n```python\n([\s\S]*?)```/.exec(doc);
+  if (!match) throw new Error('docs/pairsets.md has no pairset-reader block under "Reading a pairset in Python"');
   return match[1]!;
 }
 
@@ -83,9 +83,9 @@ describe('downloading and reading a pairset with scripts', () => {
     expect(fs.readFileSync(file).equals(whole)).toBe(true);
   });
 
-  it('runs the README\'s Python reader: checksums verified, every pair read, .flo fields decoded', async () => {
+  it('runs the Python reader in docs/pairsets.md: checksums verified, every pair read, .flo decoded', async () => {
     const script = path.join(work, 'read_pairset.py');
-    fs.writeFileSync(script, readmeReader());
+    fs.writeFileSync(script, documentedReader());
     const { stdout } = await run('python3', [script, path.join(work, `pairset-${pairset.id}`)]);
     const result = JSON.parse(stdout) as { pairs: Record<string, number>; flo_fields: number };
     const expected = Object.fromEntries(pairset.stats!.kinds.map((kind) => [kind.kind, kind.total]));

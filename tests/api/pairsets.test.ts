@@ -1,8 +1,8 @@
 import fs from 'node:fs';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Job, Pairset, Shard, User } from '../../server/models';
-import { storagePaths } from '../../server/storage/paths';
+import { AuditEvent, Job, Pairset, Shard, User } from '../../server/core/models';
+import { storagePaths } from '../../server/core/storage/paths';
 import { addPairsetClip } from '../helpers/pairset-clips';
 import { addProject } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, MailOutbox, PasswordReset, User } from '../../server/models';
+import { AuditEvent, MailOutbox, PasswordReset, User } from '../../server/core/models';
 import { messagesTo, startTestMail, tokenFromLink } from '../helpers/mail';
 import {
   TEST_PASSWORD, addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer,

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Session, User } from '../../server/models';
+import { AuditEvent, Session, User } from '../../server/core/models';
 import {
   TEST_PASSWORD, addUser, agentWithCsrf, appWith, signedInAgent, startTestServer, type TestServer,
 } from '../helpers/test-server';

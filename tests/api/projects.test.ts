@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Project } from '../../server/models';
+import { AuditEvent, Project } from '../../server/core/models';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 
 let server: TestServer;
@@ -54,6 +54,43 @@ describe('projects', () => {
     const taken = await admin.agent.post('/api/projects').set('x-csrf-token', admin.csrf)
       .send({ name: 'Terrace rows' }).expect(409);
     expect(taken.body.error.message).toMatch(/already exists/);
+  });
+
+  it('check processing settings when saved: a typo or an impossible value is 400 naming the field', async () => {
+    const post = (body: Record<string, unknown>) =>
+      admin.agent.post('/api/projects').set('x-csrf-token', admin.csrf).send({ name: 'Settings check', ...body });
+    const refused: [Record<string, unknown>, string][] = [
+      [{ estimator: 'farneback', estimatorParams: { winsize: 9 } }, 'estimatorParams.winsize: is not a parameter'],
+      [{ estimator: 'farneback', estimatorParams: { pyrScale: 1 } }, 'estimatorParams.pyrScale: must be in \\(0, 1\\)'],
+      [{ estimatorParams: { patchSize: 1 } }, 'estimatorParams.patchSize: must be an integer in 2..32'],
+      [{ flagThresholds: { darkMeanLumma: 30 } }, 'flagThresholds.darkMeanLumma'],
+      [{ flagThresholds: { darkMeanLuma: 300 } }, 'flagThresholds.darkMeanLuma: must be in 0..255'],
+      [{ flagThresholds: { cutThreshold: 0 } }, 'flagThresholds.cutThreshold'],
+    ];
+    for (const [body, message] of refused) {
+      const response = await post(body).expect(400);
+      expect(response.body.error.message).toMatch(new RegExp(`^${message}`));
+    }
+    expect(await Project.count({ where: { name: 'Settings check' } })).toBe(0);
+
+    const created = await post({ estimator: 'farneback', estimatorParams: { winSize: 9 } }).expect(201);
+    const patch = (body: Record<string, unknown>) => admin.agent.patch(`/api/projects/${created.body.id}`)
+      .set('x-csrf-token', admin.csrf).send(body);
+    // Changing the estimator alone would leave farneback's parameters on dis: refused, nothing saved.
+    const switched = await patch({ estimator: 'dis' }).expect(400);
+    expect(switched.body.error.message).toMatch(/^estimatorParams\.winSize: is not a parameter of dis/);
+    await patch({ flagThresholds: { shakyJiter: 2 } }).expect(400);
+    await patch({ estimator: 'dis', estimatorParams: { patchStride: 4 } }).expect(200);
+    const saved = await Project.findByPk(created.body.id);
+    expect(saved).toMatchObject({ estimator: 'dis', estimatorParams: { patchStride: 4 } });
+    await saved!.destroy();
+  });
+
+  it('check the flag defaults for new projects when saved', async () => {
+    const current = await admin.agent.get('/api/settings').expect(200);
+    const response = await admin.agent.put('/api/settings').set('x-csrf-token', admin.csrf)
+      .send({ ...current.body, projectFlagDefaults: { blurryLaplacianVarience: 80 } }).expect(400);
+    expect(response.body.error.message).toMatch(/^projectFlagDefaults\.blurryLaplacianVarience/);
   });
 
   it('are listed and opened by every signed-in role, and archived by an admin', async () => {

@@ -1,6 +1,6 @@
 import { Op } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, Verdict, type User } from '../../server/models';
+import { AuditEvent, Clip, Job, Verdict, type User } from '../../server/core/models';
 import type { BulkResult } from '../../shared/types/review';
 import { castForReview } from '../helpers/review-cast';
 import { insertReviewClip, reviewClipRow } from '../helpers/review-clips';

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Job, MailOutbox, Project, RejectionDigest, type User } from '../../server/models';
+import { Job, MailOutbox, Project, RejectionDigest, type User } from '../../server/core/models';
 import { messagesTo, startTestMail } from '../helpers/mail';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { insertReviewClip } from '../helpers/review-clips';

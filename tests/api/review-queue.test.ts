@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Clip, Project, User } from '../../server/models';
-import { flagBits } from '../../server/services/review-queue';
+import { Clip, Project, User } from '../../server/core/models';
+import { flagBits } from '../../server/core/review/review-queue';
 import { FLAG_NAMES } from '../../shared/flag-thresholds';
 import { REVIEW_SORT_FIELDS } from '../../shared/schemas/review';
 import type { ReviewQueueItem } from '../../shared/types/review';

@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Project, Setting } from '../../server/models';
+import { AuditEvent, Project, Setting } from '../../server/core/models';
 import { insertReviewClip } from '../helpers/review-clips';
 import { addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, Verdict, type User } from '../../server/models';
+import { AuditEvent, Clip, Job, Verdict, type User } from '../../server/core/models';
 import { castForReview } from '../helpers/review-cast';
 import { insertReviewClip } from '../helpers/review-clips';
 import { agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';

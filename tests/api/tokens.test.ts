@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ApiToken, AuditEvent, User } from '../../server/models';
+import { ApiToken, AuditEvent, User } from '../../server/core/models';
 import { addPairsetClip } from '../helpers/pairset-clips';
 import { buildPairsetNow } from '../helpers/pairset-build';
 import { addProject } from '../helpers/pipeline-clips';

@@ -11,10 +11,19 @@ function jsonResponse(status: number, body: unknown): Response {
 }
 
 const detectedCut: FrameCut = {
-  index: 7, timeS: 1.4, detected: true, cutBefore: true, mark: null,
+  index: 7,
+  timeS: 1.4,
+  detected: true,
+  cutBefore: true,
+  mark: null,
   evidence: {
-    histogramDistance: 0.131, edgeChange: 0.32, motionConsistency: 0.96, warpError: 1.06, localWarpError: 0.08,
-    fired: { warp: 0.45, histogram: 0.02 }, kind: 'hard',
+    histogramDistance: 0.131,
+    edgeChange: 0.32,
+    motionConsistency: 0.96,
+    warpError: 1.06,
+    localWarpError: 0.08,
+    fired: { warp: 0.45, histogram: 0.02 },
+    kind: 'hard',
   },
 };
 
@@ -30,7 +39,10 @@ describe('ClipCutMarks', () => {
   afterEach(() => vi.unstubAllGlobals());
 
   it('explains the cut before the selected frame: its measures, which fired and at what threshold', async () => {
-    vi.stubGlobal('fetch', vi.fn(async () => jsonResponse(200, { items: [detectedCut] })));
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () => jsonResponse(200, { items: [detectedCut] })),
+    );
     const wrapper = mountAs('operator', 7);
     await flushPromises();
     expect(wrapper.find('[data-test="cut-here"]').text()).toContain('The detector found a hard cut.');
@@ -43,8 +55,16 @@ describe('ClipCutMarks', () => {
   });
 
   it('lets a curator remove a detected cut, sending the mark and showing what counts now', async () => {
-    const removed: FrameCut = { ...detectedCut, cutBefore: false, mark: {
-      value: 'none', byUserId: 4, byName: 'Rin Ode', at: '2026-05-02T10:00:00.000Z' } };
+    const removed: FrameCut = {
+      ...detectedCut,
+      cutBefore: false,
+      mark: {
+        value: 'none',
+        byUserId: 4,
+        byName: 'Rin Ode',
+        at: '2026-05-02T10:00:00.000Z',
+      },
+    };
     const fetchMock = vi.fn(async (url: string, init?: RequestInit) => {
       if (url.startsWith('/api/auth/csrf')) return jsonResponse(200, { token: 'token-1' });
       if (init?.method === 'PUT') return jsonResponse(200, removed);

@@ -3,7 +3,7 @@ import { createMemoryHistory, createRouter } from 'vue-router';
 import type { Me } from '../../shared/api-types';
 import type { Role } from '../../shared/roles';
 import { resolveAccess } from '../../src/router/access';
-import { stubbedRoutes } from '../helpers/stub-routes';
+import { stubbedRoutes } from './stub-routes';
 
 function userWith(role: Role): Me {
   return {

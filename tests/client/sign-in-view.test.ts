@@ -3,7 +3,7 @@ import { createPinia, setActivePinia } from 'pinia';
 import PrimeVue from 'primevue/config';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { createMemoryHistory, createRouter } from 'vue-router';
-import { stubbedRoutes } from '../helpers/stub-routes';
+import { stubbedRoutes } from './stub-routes';
 import SignInView from '../../src/views/auth/SignInView.vue';
 
 function jsonResponse(status: number, body: unknown): Response {

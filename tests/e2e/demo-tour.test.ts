@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
   DEMO_CLIPS, DEMO_INVITATION, DEMO_PAIRSET, DEMO_PROJECTS, DEMO_TOKEN_NAME, DEMO_VERDICTS,
 } from '../../server/demo/scenario';
-import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
+import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import type { ListPage } from '../../shared/api-types';
 import type { PairsetSummary } from '../../shared/types/pairsets';
 import type { UsageReport } from '../../shared/types/admin';

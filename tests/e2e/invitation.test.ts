@@ -1,8 +1,8 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startMail, type RunningMail } from '../../server/mail';
-import { MailMessage, User } from '../../server/models';
-import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
+import { startMail, type RunningMail } from '../../server/core/mail';
+import { MailMessage, User } from '../../server/core/models';
+import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import { launchBrowser, screenshot, signInThroughForm } from '../helpers/browser';
 import { tokenFromLink } from '../helpers/mail';
 import { startRunningServer, type RunningServer } from '../helpers/running-server';

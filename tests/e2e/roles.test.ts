@@ -1,6 +1,6 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
+import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import { launchBrowser, screenshot, signInThroughForm } from '../helpers/browser';
 import { startRunningServer, type RunningServer } from '../helpers/running-server';
 

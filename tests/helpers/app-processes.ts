@@ -7,7 +7,7 @@ import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import { promisify } from 'node:util';
-import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
+import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import type { Role } from '../../shared/roles';
 
 export interface Session {

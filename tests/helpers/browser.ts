@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
-import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
+import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import type { Role } from '../../shared/roles';
 
 /** Where screenshots go: the test artifacts, or the README's folder when `npm run docs:screenshots` sets it. */

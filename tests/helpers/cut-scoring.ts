@@ -27,13 +27,17 @@ export interface TransitionScore {
   reference: number;
 }
 
-export function scoreTransitions(detected: readonly FrameSpan[], reference: readonly FrameSpan[], tolerance = 1):
-  TransitionScore {
+export function scoreTransitions(
+  detected: readonly FrameSpan[],
+  reference: readonly FrameSpan[],
+  tolerance = 1,
+): TransitionScore {
   const used = new Set<number>();
   let matched = 0;
   for (const span of detected) {
-    const r = reference.findIndex((ref, i) => !used.has(i)
-      && span.first - tolerance <= ref.last && ref.first <= span.last + tolerance);
+    const r = reference.findIndex(
+      (ref, i) => !used.has(i) && span.first - tolerance <= ref.last && ref.first <= span.last + tolerance,
+    );
     if (r >= 0) {
       used.add(r);
       matched += 1;

@@ -1,5 +1,5 @@
-import { startMail, type RunningMail } from '../../server/mail';
-import { MailMessage } from '../../server/models';
+import { startMail, type RunningMail } from '../../server/core/mail';
+import { MailMessage } from '../../server/core/models';
 import type { TestServer } from './test-server';
 
 /** The local fake SMTP server and an idle sender for a test server; `deliver()` sends what is due now. */

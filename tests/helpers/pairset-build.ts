@@ -1,5 +1,5 @@
-import type { User } from '../../server/models';
-import { createPairset, getPairsetDetail, startBuild } from '../../server/services/pairsets';
+import type { User } from '../../server/core/models';
+import { createPairset, getPairsetDetail, startBuild } from '../../server/core/pairsets/pairsets';
 import { pairsetDefinitionSchema, type PairsetDefinition } from '../../shared/schemas/pairsets';
 import type { PairsetDetail } from '../../shared/types/pairsets';
 import type { TestRuntime } from './pipeline-runtime';

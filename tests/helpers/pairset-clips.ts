@@ -1,9 +1,9 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
-import { Clip, Frame, MotionField } from '../../server/models';
-import { storagePaths } from '../../server/storage/paths';
+import { Clip, Frame, MotionField } from '../../server/core/models';
+import { storagePaths } from '../../server/core/storage/paths';
 import type { ClipState } from '../../shared/clip-states';
-import { encodeFlo } from '../../worker/motion/flo';
+import { encodeFlo } from '../../worker/motion/formats/flo';
 import { writeFrameViews } from '../../worker/pool/frame-tasks';
 import sharp from 'sharp';
 import type { TestServer } from './test-server';

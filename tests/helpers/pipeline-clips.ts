@@ -4,10 +4,10 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import { Clip, Job } from '../../server/models';
-import { probeUpload } from '../../server/services/clip-probe';
-import { createProject } from '../../server/services/projects';
-import { storagePaths } from '../../server/storage/paths';
+import { Clip, Job } from '../../server/core/models';
+import { probeUpload } from '../../server/core/media/clip-probe';
+import { createProject } from '../../server/core/projects/projects';
+import { storagePaths } from '../../server/core/storage/paths';
 import type { ProjectBody } from '../../shared/schemas/projects';
 import type { TestServer } from './test-server';
 

@@ -1,4 +1,4 @@
-import { storagePaths } from '../../server/storage/paths';
+import { storagePaths } from '../../server/core/storage/paths';
 import type { Handlers } from '../../worker/jobs/handler';
 import { createFramePool, type FramePool } from '../../worker/pool/frame-pool';
 import { createJobRuntime, type JobRuntime } from '../../worker/runtime/job-runtime';

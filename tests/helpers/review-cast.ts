@@ -1,4 +1,4 @@
-import { Project, type User } from '../../server/models';
+import { Project, type User } from '../../server/core/models';
 import { addUser, signedInAgent, type TestServer } from './test-server';
 
 type SignedIn = Awaited<ReturnType<typeof signedInAgent>>;

@@ -1,5 +1,5 @@
 import { randomBytes } from 'node:crypto';
-import { Clip } from '../../server/models';
+import { Clip } from '../../server/core/models';
 import type { FlagName } from '../../shared/flag-thresholds';
 import type { ClipFlagDetail } from '../../shared/types/clips';
 

@@ -1,6 +1,6 @@
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
-import { createDemoAccountsOnFirstStart } from '../../server/services/demo-accounts';
+import { createDemoAccountsOnFirstStart } from '../../server/core/people/demo-accounts';
 import { startTestServer, type TestServer } from './test-server';
 
 export interface RunningServer extends TestServer {

@@ -4,10 +4,10 @@ import path from 'node:path';
 import type { Sequelize } from 'sequelize';
 import request from 'supertest';
 import { createApp } from '../../server/app';
-import { loadConfig, type Config } from '../../server/config';
-import { openKinefoldDatabase } from '../../server/db/open';
+import { loadConfig, type Config } from '../../server/core/config';
+import { openKinefoldDatabase } from '../../server/core/db/open';
 import type { Role } from '../../shared/roles';
-import { createUser } from '../../server/services/users';
+import { createUser } from '../../server/core/people/users';
 
 export interface TestServer {
   app: ReturnType<typeof createApp>['app'];

@@ -44,11 +44,15 @@ beforeAll(async () => {
     const histograms = clip.frames.map((grey) => greyHistogram(grey));
     const compare = (a: number, b: number) => measures(thumbs, histograms, a, b);
     // Pairs as the pipeline's thread pool measures them (each pair's camera shift a hint for the next).
-    const pairs = measureCutPairs({ kind: 'cut-pairs', thumbs })
-      .map((pair, p) => ({ ...pair, histogramDistance: 1 - histogramCorrelation(histograms[p]!, histograms[p + 1]!) }));
+    const pairs = measureCutPairs({ kind: 'cut-pairs', thumbs }).map((pair, p) => ({
+      ...pair,
+      histogramDistance: 1 - histogramCorrelation(histograms[p]!, histograms[p + 1]!),
+    }));
     const { cutBefore } = decideCuts(pairs, compare, { histogramThreshold: DEFAULT_CUT_THRESHOLD });
     outcomes.push({
-      name: scenario.name, detected: detectedSpans(cutBefore), reference: scenario.transitions.map(sampledSpan),
+      name: scenario.name,
+      detected: detectedSpans(cutBefore),
+      reference: scenario.transitions.map(sampledSpan),
     });
   }
 }, RENDER_TIMEOUT_MS);
@@ -56,9 +60,12 @@ afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
 describe('cut detection on the generated set', () => {
   it('finds the cuts with precision and recall of at least 0.9 at a tolerance of one sampled frame', () => {
-    const total = outcomes.map((o) => scoreTransitions(o.detected, o.reference))
+    const total = outcomes
+      .map((o) => scoreTransitions(o.detected, o.reference))
       .reduce((sum, s) => ({
-        matched: sum.matched + s.matched, detected: sum.detected + s.detected, reference: sum.reference + s.reference,
+        matched: sum.matched + s.matched,
+        detected: sum.detected + s.detected,
+        reference: sum.reference + s.reference,
       }));
     expect(total.reference).toBe(10);
     expect(total.matched / total.detected).toBeGreaterThanOrEqual(0.9);

@@ -1,8 +1,8 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Clip, Frame } from '../../server/models';
-import { storagePaths } from '../../server/storage/paths';
+import { Clip, Frame } from '../../server/core/models';
+import { storagePaths } from '../../server/core/storage/paths';
 import { DEFAULT_FLAG_THRESHOLDS, type FlagName } from '../../shared/flag-thresholds';
 import type { ClipFlagDetail } from '../../shared/types/clips';
 import { DEFAULT_CUT_THRESHOLD } from '../../worker/signals/cuts';

@@ -1,8 +1,8 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, MailOutbox } from '../../server/models';
-import { claimJob, finishJob, renewLease } from '../../worker/jobs/claim';
+import { AuditEvent, Clip, Job, MailOutbox } from '../../server/core/models';
+import { claimJob, finishJob, renewLease } from '../../server/core/jobs/claim';
 import type { Handlers } from '../../worker/jobs/handler';
 import { HANDLERS } from '../../worker/jobs/handlers';
 import { RETRY_POLICIES } from '../../worker/jobs/retry-policy';
@@ -57,7 +57,7 @@ async function untilTrue(check: () => Promise<boolean>, timeoutMs = 60_000): Pro
 describe('claiming', () => {
   it('gives each due job to one claimer only, oldest first', async () => {
     const jobs = await Promise.all([1, 2, 3].map(() => Job.create({
-      kind: 'process-clip', clipId: null, payload: {}, state: 'queued', runAfter: new Date(Date.now() - 1000),
+      kind: 'process-clip', clipId: null, payload: { clipId: 0 }, state: 'queued', runAfter: new Date(Date.now() - 1000),
     })));
     const claims = await Promise.all(Array.from({ length: 6 }, (_, i) => claimJob(`claimer-${i}`, 60_000)));
     const claimed = claims.filter((job) => job !== null).map((job) => job!.id).sort((a, b) => a - b);
@@ -67,7 +67,7 @@ describe('claiming', () => {
 
   it('takes over a job whose lease ran out and counts the attempt; the old holder can no longer write', async () => {
     const job = await Job.create({
-      kind: 'process-clip', clipId: null, payload: {}, state: 'queued', runAfter: new Date(Date.now() - 1000),
+      kind: 'process-clip', clipId: null, payload: { clipId: 0 }, state: 'queued', runAfter: new Date(Date.now() - 1000),
     });
     expect((await claimJob('first', 1))!.id).toBe(job.id);
     await new Promise((done) => setTimeout(done, 10));
@@ -93,7 +93,7 @@ describe('failures', () => {
     const failing = startTestRuntime(server, { handlers, owner: 'failing-worker' });
     const policy = RETRY_POLICIES['process-clip'];
     const job = await Job.create({
-      kind: 'process-clip', clipId: null, payload: {}, state: 'queued', runAfter: new Date(Date.now() - 1000),
+      kind: 'process-clip', clipId: null, payload: { clipId: 0 }, state: 'queued', runAfter: new Date(Date.now() - 1000),
     });
     try {
       for (let attempt = 1; attempt < policy.maxAttempts; attempt += 1) {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { UNKNOWN_FLOW } from '../../shared/motion/unknown-flow';
-import { medianMotion, summariseField } from '../../worker/motion/field-summary';
+import { medianMotion, summariseField } from '../../worker/motion/fields/field-summary';
 
 /** Interleaved (u, v) from pairs. */
 const field = (vectors: [number, number][]) => Float32Array.from(vectors.flat());

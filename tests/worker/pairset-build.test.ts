@@ -4,16 +4,16 @@ import fs from 'node:fs';
 import path from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Job, MailOutbox, Pairset, QuotaWarning, Shard, type User } from '../../server/models';
+import { Job, MailOutbox, Pairset, QuotaWarning, Shard, type User } from '../../server/core/models';
 import {
   cancelBuild, createPairset, getPairsetDetail, newPairsetVersion, startBuild,
-} from '../../server/services/pairsets';
-import { storagePaths } from '../../server/storage/paths';
+} from '../../server/core/pairsets/pairsets';
+import { storagePaths } from '../../server/core/storage/paths';
 import { decodeChroma } from '../../shared/colour/view-encoding';
 import { shardFileName } from '../../shared/pairing/shard-name';
 import type { PairsetDetail, PairsetManifest } from '../../shared/types/pairsets';
-import { decodeFlo } from '../../worker/motion/flo';
-import { decodeKittiComponent } from '../../worker/motion/kitti-png';
+import { decodeFlo } from '../../worker/motion/formats/flo';
+import { decodeKittiComponent } from '../../worker/motion/formats/kitti-png';
 import { addPairsetClip } from '../helpers/pairset-clips';
 import { buildPairsetNow, pairsetDefinition } from '../helpers/pairset-build';
 import { addProject } from '../helpers/pipeline-clips';

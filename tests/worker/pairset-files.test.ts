@@ -6,7 +6,7 @@ import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import { afterAll, describe, expect, it } from 'vitest';
 import { UNKNOWN_FLOW } from '../../shared/motion/unknown-flow';
-import { resizeFlow } from '../../worker/pairsets/resize-flow';
+import { areaResizeFlow } from '../../worker/pairsets/resize-flow';
 import { shardFileSink } from '../../worker/pairsets/shard-checksum';
 import { openShard } from '../../worker/pairsets/shard-writer';
 import { stableJson } from '../../worker/pairsets/stable-json';
@@ -103,7 +103,7 @@ describe('resizing a motion field', () => {
   it('halves a uniform field with the picture: (2, −1) px at 8 × 6 is (1, −0.5) px at 4 × 3', () => {
     const flow = new Float32Array(2 * 8 * 6);
     for (let p = 0; p < 48; p += 1) flow.set([2, -1], 2 * p);
-    const out = resizeFlow(flow, 8, 6, 4, 3);
+    const out = areaResizeFlow(flow, 8, 6, 4, 3);
     expect(out.length).toBe(2 * 4 * 3);
     for (let p = 0; p < 12; p += 1) expect([out[2 * p], out[2 * p + 1]]).toEqual([1, -0.5]);
   });
@@ -113,7 +113,7 @@ describe('resizing a motion field', () => {
     // the right one covers three unknowns and one known (a quarter known → unknown).
     const u = [1, NaN, 9, UNKNOWN_FLOW, 3, UNKNOWN_FLOW, UNKNOWN_FLOW, UNKNOWN_FLOW];
     const flow = new Float32Array(u.flatMap((value) => [value, 0]));
-    const out = resizeFlow(flow, 4, 2, 2, 1);
+    const out = areaResizeFlow(flow, 4, 2, 2, 1);
     expect(out[0]).toBe(1);
     expect(out[1]).toBe(0);
     expect([out[2], out[3]]).toEqual([UNKNOWN_FLOW, UNKNOWN_FLOW]);

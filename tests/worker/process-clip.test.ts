@@ -5,9 +5,9 @@ import { promisify } from 'node:util';
 import ffprobeInstaller from '@ffprobe-installer/ffprobe';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Frame, Job, Project } from '../../server/models';
-import { reprocessClip } from '../../server/services/clip-media';
-import { storagePaths } from '../../server/storage/paths';
+import { AuditEvent, Clip, Frame, Job, Project } from '../../server/core/models';
+import { reprocessClip } from '../../server/core/clips/clip-media';
+import { storagePaths } from '../../server/core/storage/paths';
 import { decodeChroma, decodeLuma } from '../../shared/colour/view-encoding';
 import {
   addProject, insertClip, makeClip, makePatternClip, withRotation, workFolders,

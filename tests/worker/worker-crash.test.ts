@@ -4,8 +4,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { Op } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Frame, Job, MotionField } from '../../server/models';
-import { storagePaths } from '../../server/storage/paths';
+import { AuditEvent, Clip, Frame, Job, MotionField } from '../../server/core/models';
+import { storagePaths } from '../../server/core/storage/paths';
 import { addProject, insertClip, makePatternClip, workFolders } from '../helpers/pipeline-clips';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
 

@@ -1,10 +1,10 @@
 import type { Transaction } from 'sequelize';
 import type { JobKind, JobPayloads } from '../../shared/jobs';
-import type { Config } from '../../server/config';
-import type { Job } from '../../server/models';
-import type { StoragePaths } from '../../server/storage/paths';
+import type { Config } from '../../server/core/config';
+import type { Job } from '../../server/core/models';
+import type { StoragePaths } from '../../server/core/storage/paths';
 import type { FramePool } from '../pool/frame-pool';
-import type { Lease } from './claim';
+import type { Lease } from '../../server/core/jobs/claim';
 
 /** What every handler gets besides its job: where things are, the frame pool, and its lease. */
 export interface JobContext {

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import type { ClipState } from '../../shared/clip-states';
-import { checkQuotaThresholds } from '../../server/services/quota-warnings';
-import { Clip, Project } from '../../server/models';
+import { checkQuotaThresholds } from '../../server/core/usage/quota-warnings';
+import { Clip, Project } from '../../server/core/models';
 import { recordClipFailure } from '../pipeline/clip-failure';
 import { flagsStage } from '../pipeline/flags-stage';
 import { motionStage } from '../pipeline/motion-stage';
@@ -11,8 +11,8 @@ import { signalsStage } from '../pipeline/signals-stage';
 import type { PipelineStage } from '../pipeline/stage';
 import { viewsStage } from '../pipeline/views-stage';
 import { openWorkDir, removeLeftoverWorkDirs, type WorkDir } from '../pipeline/work-dir';
-import { clipFolderUsage } from '../../server/storage/disk-usage';
-import { enterJobStage, finishJob, reportJobProgress, type Lease } from './claim';
+import { clipFolderUsage } from '../../server/core/storage/disk-usage';
+import { enterJobStage, finishJob, reportJobProgress, type Lease } from '../../server/core/jobs/claim';
 import type { Handler, JobContext } from './handler';
 import { LeaseLostError } from './job-errors';
 

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
-import { Clip, UsageSnapshot } from '../../server/models';
-import { recordAudit } from '../../server/services/audit';
-import { clipFolderUsage, emptyUsage, folderBytes } from '../../server/storage/disk-usage';
+import { Clip, UsageSnapshot } from '../../server/core/models';
+import { recordAudit } from '../../server/core/audit/audit';
+import { clipFolderUsage, emptyUsage, folderBytes } from '../../server/core/storage/disk-usage';
 import type { Handler } from './handler';
 
 export interface UsageDrift {

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
-import { Clip } from '../../server/models';
-import { recordAudit } from '../../server/services/audit';
-import { retentionCandidates } from '../../server/services/retention';
+import { Clip } from '../../server/core/models';
+import { recordAudit } from '../../server/core/audit/audit';
+import { retentionCandidates } from '../../server/core/clips/retention';
 import type { Handler } from './handler';
 
 /**

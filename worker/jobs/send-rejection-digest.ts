@@ -1,5 +1,5 @@
-import { recordAudit } from '../../server/services/audit';
-import { sendRejectionDigest } from '../../server/services/review-digest';
+import { recordAudit } from '../../server/core/audit/audit';
+import { sendRejectionDigest } from '../../server/core/review/review-digest';
 import type { Handler } from './handler';
 
 /**

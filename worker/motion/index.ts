@@ -1,23 +1,23 @@
 // Kinefold's motion estimators by name: the project setting chooses one, and every field records the estimator
 // and the full parameters it was computed with (defaults merged with the project's overrides).
 
-import { DIS_DEFAULTS, estimateDis, validateDisParams, type DisParams } from './dis.js';
-import { FARNEBACK_DEFAULTS, estimateFarneback, validateFarnebackParams, type FarnebackParams } from './farneback.js';
+import { DIS_DEFAULTS, estimateDis, validateDisParams, type DisParams } from './dis/dis.js';
+import { FARNEBACK_DEFAULTS, estimateFarneback, validateFarnebackParams, type FarnebackParams } from './farneback/farneback.js';
 import {
   HORN_SCHUNCK_DEFAULTS,
   estimateHornSchunck,
   validateHornSchunckParams,
   type HornSchunckParams,
-} from './horn-schunck.js';
+} from './horn-schunck/horn-schunck.js';
 import {
   LUCAS_KANADE_DEFAULTS,
   estimateLucasKanade,
   validateLucasKanadeParams,
   type LucasKanadeParams,
-} from './lucas-kanade.js';
-import type { MotionWorkspace } from './workspace.js';
+} from './lucas-kanade/lucas-kanade.js';
+import type { MotionWorkspace } from './kernels/workspace.js';
+import type { EstimatorName } from '../../shared/estimators';
 
-export type Estimator = 'farneback' | 'horn-schunck' | 'lucas-kanade' | 'dis';
 
 export interface EstimatorParams {
   farneback: FarnebackParams;
@@ -42,7 +42,8 @@ export interface EstimatorEntry<P> {
   estimate: EstimateFunction<P>;
 }
 
-export const ESTIMATORS: { readonly [K in Estimator]: EstimatorEntry<EstimatorParams[K]> } = {
+/** Each estimator's defaults, parameter check and function, by name. */
+export const ESTIMATOR_REGISTRY: { readonly [K in EstimatorName]: EstimatorEntry<EstimatorParams[K]> } = {
   farneback: {
     defaults: FARNEBACK_DEFAULTS,
     validate: validateFarnebackParams,
@@ -65,21 +66,19 @@ export const ESTIMATORS: { readonly [K in Estimator]: EstimatorEntry<EstimatorPa
   },
 };
 
-export const ESTIMATOR_NAMES = Object.keys(ESTIMATORS) as Estimator[];
-
-export function isEstimator(name: string): name is Estimator {
-  return Object.hasOwn(ESTIMATORS, name);
+export function isEstimator(name: string): name is EstimatorName {
+  return Object.hasOwn(ESTIMATOR_REGISTRY, name);
 }
 
 /**
  * The complete parameters for `name`: its defaults with `overrides` applied, validated. Unknown keys are
  * refused so that a typo in a project setting does not silently fall back to a default.
  */
-export function resolveParams<K extends Estimator>(
+export function resolveParams<K extends EstimatorName>(
   name: K,
   overrides: Partial<EstimatorParams[K]> = {},
 ): EstimatorParams[K] {
-  const entry = ESTIMATORS[name] as EstimatorEntry<EstimatorParams[K]>;
+  const entry = ESTIMATOR_REGISTRY[name] as EstimatorEntry<EstimatorParams[K]>;
   for (const key of Object.keys(overrides)) {
     if (!Object.hasOwn(entry.defaults, key)) throw new Error(`${name}: unknown parameter "${key}"`);
   }
@@ -88,7 +87,7 @@ export function resolveParams<K extends Estimator>(
   return params;
 }
 
-export interface EstimatedField<K extends Estimator> {
+export interface EstimatedField<K extends EstimatorName> {
   estimator: K;
   /** The parameters used, to be recorded with the field. */
   params: EstimatorParams[K];
@@ -97,7 +96,7 @@ export interface EstimatedField<K extends Estimator> {
 }
 
 /** Runs the named estimator with resolved parameters and returns the field with what produced it. */
-export function estimateMotion<K extends Estimator>(
+export function estimateMotion<K extends EstimatorName>(
   name: K,
   prev: Float32Array,
   next: Float32Array,
@@ -108,7 +107,7 @@ export function estimateMotion<K extends Estimator>(
   out?: Float32Array,
 ): EstimatedField<K> {
   const params = resolveParams(name, overrides);
-  const entry = ESTIMATORS[name] as EstimatorEntry<EstimatorParams[K]>;
+  const entry = ESTIMATOR_REGISTRY[name] as EstimatorEntry<EstimatorParams[K]>;
   const flow = entry.estimate(prev, next, width, height, params, workspace, out);
   return { estimator: name, params, flow };
 }

@@ -1,5 +1,5 @@
-import { Pairset } from '../../server/models';
-import { reportJobProgress, type Lease } from '../jobs/claim';
+import { Pairset } from '../../server/core/models';
+import { reportJobProgress, type Lease } from '../../server/core/jobs/claim';
 
 /** The pairset stopped being built while we worked (cancelled or deleted); the build cleans up and stops. */
 export class BuildStoppedError extends Error {

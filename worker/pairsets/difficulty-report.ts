@@ -8,9 +8,9 @@ import type { ViewName, ViewPair } from '../../shared/pairing/pairing-graph';
 import { mulberry32, shuffleInPlace } from '../../shared/pairing/seeded-random';
 import { viewPlane, type ViewData } from '../../shared/pairing/view-plane';
 import type { PairsetDifficulty } from '../../shared/types/pairsets';
-import type { StoragePaths } from '../../server/storage/paths';
+import type { StoragePaths } from '../../server/core/storage/paths';
 import { readRgbImage } from '../media/frame-images';
-import { decodeFlo } from '../motion/flo';
+import { decodeFlo } from '../motion/formats/flo';
 import { viewFrame, viewSourceFile } from './pair-members';
 
 /** Batch sizes of the report (1 positive + K − 1 negatives); a K is reported when the sample fills a batch. */

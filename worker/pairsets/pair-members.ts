@@ -2,17 +2,17 @@ import fs from 'node:fs';
 import sharp from 'sharp';
 import { viewReach, type ViewName } from '../../shared/pairing/pairing-graph';
 import type { MotionFormat } from '../../shared/schemas/pairsets';
-import type { StoragePaths } from '../../server/storage/paths';
-import { decodeFlo, encodeFlo } from '../motion/flo';
-import { encodeKittiFlow } from '../motion/kitti-png';
-import { resizeFlow } from './resize-flow';
+import type { StoragePaths } from '../../server/core/storage/paths';
+import { decodeFlo, encodeFlo } from '../motion/formats/flo';
+import { encodeKittiFlow } from '../motion/formats/kitti-png';
+import { areaResizeFlow } from './resize-flow';
 
 /**
  * The file a view of a moment becomes in a shard (DESIGN §7). Without conversion it is the clip's own file,
  * copied byte for byte: frames and neighbours as 8-bit RGB PNG, luma as 8-bit grey PNG, chroma as 16-bit RGB PNG,
  * motion as Middlebury .flo. With an output size, images are resized with sharp (its default Lanczos-3 kernel,
  * stretched to exactly the computed size, keeping each view's channels and depth) and motion fields with
- * resizeFlow; motion in the KITTI 2015 format is written as a 16-bit RGB PNG (R = u, G = v, B = valid).
+ * areaResizeFlow; motion in the KITTI 2015 format is written as a 16-bit RGB PNG (R = u, G = v, B = valid).
  */
 
 export interface MemberOptions {
@@ -95,7 +95,7 @@ async function motionMember(source: string, options: MemberOptions): Promise<Uin
   const out = dims && outputDims(dims, options.outputSize);
   if (!out && options.motionFormat === 'flo') return null;
   const field = decodeFlo(await fs.promises.readFile(source));
-  const flow = out ? resizeFlow(field.flow, field.width, field.height, out.width, out.height) : field.flow;
+  const flow = out ? areaResizeFlow(field.flow, field.width, field.height, out.width, out.height) : field.flow;
   const size = out ?? field;
   if (options.motionFormat === 'flo') return encodeFlo(flow, size.width, size.height);
   return sharp(encodeKittiFlow(flow), { raw: { width: size.width, height: size.height, channels: 3 } })

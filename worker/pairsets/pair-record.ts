@@ -1,7 +1,7 @@
 import type { PlannedPair } from '../../shared/pairing/pair-plan';
 import { viewReach, type ViewName } from '../../shared/pairing/pairing-graph';
 import type { MotionFormat } from '../../shared/schemas/pairsets';
-import type { SourceClip, SourceFrame } from '../../server/services/pairset-sources';
+import type { SourceClip, SourceFrame } from '../../server/core/pairsets/pairset-sources';
 import { viewExtension, viewFrame } from './pair-members';
 
 const ID_DIGITS = 6;

@@ -4,7 +4,7 @@ import { SPLIT_ORDER, type PlannedPair } from '../../shared/pairing/pair-plan';
 import { shardFileName } from '../../shared/pairing/shard-name';
 import type { SplitName } from '../../shared/pairing/split';
 import type { ShardSummary } from '../../shared/types/pairsets';
-import type { SourceClip, SourceFrame } from '../../server/services/pairset-sources';
+import type { SourceClip, SourceFrame } from '../../server/core/pairsets/pairset-sources';
 import { viewMember, type MemberFile, type MemberOptions } from './pair-members';
 import { memberNames, pairFolder, pairKey, pairRecord } from './pair-record';
 import { openShard } from './shard-writer';

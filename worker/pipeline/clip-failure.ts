@@ -1,8 +1,8 @@
 import type { Transaction } from 'sequelize';
 import type { ClipState } from '../../shared/clip-states';
-import { queueMail } from '../../server/mail/outbox';
-import { Clip, User } from '../../server/models';
-import { recordAudit } from '../../server/services/audit';
+import { queueMail } from '../../server/core/mail/outbox';
+import { Clip, User } from '../../server/core/models';
+import { recordAudit } from '../../server/core/audit/audit';
 import type { ClaimedJob, JobContext, JobFailure } from '../jobs/handler';
 
 /**

@@ -1,4 +1,4 @@
-import { CutMark } from '../../server/models';
+import { CutMark } from '../../server/core/models';
 import type { CutEvidence } from '../../shared/types/cuts';
 import { splitRuns } from './motion-runs';
 import type { FrameMeasurement } from '../pool/frame-tasks';
@@ -23,21 +23,27 @@ export interface ClipCuts {
  * curators' marks override the detector frame by frame (so processing a clip again keeps them).
  */
 export async function detectClipCuts(
-  clipId: number, measured: readonly FrameMeasurement[], histogramThreshold: number,
+  clipId: number,
+  measured: readonly FrameMeasurement[],
+  histogramThreshold: number,
   context: Pick<StageContext, 'pool' | 'signal'>,
 ): Promise<ClipCuts> {
   const thumbs = measured.map((m) => m.cutThumb);
   const runs = thumbs.length > 1 ? splitRuns([{ first: 0, pairs: thumbs.length - 1 }], context.pool.threads) : [];
-  const evidence = await forEachFrame(runs.length, { signal: context.signal, progress: () => undefined },
+  const evidence = await forEachFrame(
+    runs.length,
+    { signal: context.signal, progress: () => undefined },
     (r, signal) => {
       const { first, pairs } = runs[r]!;
       return context.pool.measureCutPairs({ thumbs: thumbs.slice(first, first + pairs + 1) }, signal);
-    });
-  const histogram = (a: number, b: number) =>
-    1 - histogramCorrelation(measured[a]!.histogram, measured[b]!.histogram);
+    },
+  );
+  const histogram = (a: number, b: number) => 1 - histogramCorrelation(measured[a]!.histogram, measured[b]!.histogram);
   const pairs: PairMeasures[] = evidence.flat().map((pair, p) => ({ ...pair, histogramDistance: histogram(p, p + 1) }));
-  const compare = (a: number, b: number): PairMeasures =>
-    ({ ...pairEvidence(thumbs[a]!, thumbs[b]!), histogramDistance: histogram(a, b) });
+  const compare = (a: number, b: number): PairMeasures => ({
+    ...pairEvidence(thumbs[a]!, thumbs[b]!),
+    histogramDistance: histogram(a, b),
+  });
   const decision = decideCuts(pairs, compare, { histogramThreshold });
   const marks = await CutMark.findAll({ where: { clipId }, attributes: ['frameIndex', 'value'] });
   const cutBefore = [...decision.cutBefore];
@@ -45,6 +51,8 @@ export async function detectClipCuts(
     if (mark.frameIndex > 0 && mark.frameIndex < cutBefore.length) cutBefore[mark.frameIndex] = mark.value === 'cut';
   }
   return {
-    cutBefore, evidence: decision.evidence, histogramDistances: [null, ...pairs.map((pair) => pair.histogramDistance)],
+    cutBefore,
+    evidence: decision.evidence,
+    histogramDistances: [null, ...pairs.map((pair) => pair.histogramDistance)],
   };
 }

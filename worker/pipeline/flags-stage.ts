@@ -1,8 +1,7 @@
 import type { ClipState } from '../../shared/clip-states';
 import type { ClipFlagDetail } from '../../shared/types/clips';
-import { Clip, Frame, MotionField } from '../../server/models';
-import { recordAudit } from '../../server/services/audit';
-import { listFrames } from '../../server/services/clip-media';
+import { Clip, Frame, MotionField } from '../../server/core/models';
+import { recordAudit } from '../../server/core/audit/audit';
 import { clipReviewSignals } from '../../shared/review/clip-signals';
 import { clipFlags, type FlagFieldMotion, type FlagFrameSignals } from '../signals/flags';
 import { bestNearDuplicate, hexToHash, type NearDuplicateMatch } from '../signals/perceptual-hash';
@@ -21,10 +20,11 @@ export const flagsStage: PipelineStage = {
     const hashes = frames.map((frame) => hexToHash(measured(frame.dhash, frame.index)));
     const duplicate = await nearestDuplicate(clip.projectId, clip.id, hashes,
       settings.flagThresholds.duplicateHashDistance);
+    const motion = await forwardMotion(clip.id, frames.length);
     const raised = clipFlags({
       durationS: clip.durationS,
       frames: frames.map(flagSignals),
-      motion: await forwardMotion(clip.id, frames.length),
+      motion,
       duplicateShare: duplicate?.share ?? null,
     }, settings.flagThresholds);
     const flagDetails: ClipFlagDetail[] = raised.map((flag) => (flag.flag === 'duplicate' && duplicate
@@ -32,7 +32,8 @@ export const flagsStage: PipelineStage = {
       : { ...flag }));
     const flags = flagDetails.map((detail) => detail.flag);
     // What the review queue sorts by: mean motion, consistent share, usable pairs (shared/review/clip-signals.ts).
-    const review = clipReviewSignals((await listFrames(clip.id)).items, context.project.deltas);
+    const moments = frames.map((frame) => ({ index: frame.index, cutBefore: frame.cutBefore, motion: motion[frame.index] }));
+    const review = clipReviewSignals(moments, context.project.deltas);
     await context.commit(async (transaction) => {
       await Clip.update({
         flags, flagDetails, ...review, state: stateAfterProcessing(clip.state), stage: null, error: null,
@@ -63,11 +64,14 @@ export function stateAfterProcessing(state: ClipState): ClipState {
 }
 
 /** motion[t]: the field t → t+1, null where a cut or the clip's end leaves none (the Motion stage ran before). */
-async function forwardMotion(clipId: number, frameCount: number): Promise<(FlagFieldMotion | null)[]> {
-  const motion: (FlagFieldMotion | null)[] = Array.from({ length: frameCount }, () => null);
+type ForwardMotion = FlagFieldMotion & { consistentShare: number };
+
+/** Per frame, the summary of the forward field from it (null where there is none): for flags and review signals. */
+async function forwardMotion(clipId: number, frameCount: number): Promise<(ForwardMotion | null)[]> {
+  const motion: (ForwardMotion | null)[] = Array.from({ length: frameCount }, () => null);
   for (const field of await MotionField.forwardOfClip(clipId)) {
-    const { meanMagnitude, medianU, medianV } = field;
-    if (field.fromIndex < frameCount) motion[field.fromIndex] = { meanMagnitude, medianU, medianV };
+    const { meanMagnitude, medianU, medianV, consistentShare } = field;
+    if (field.fromIndex < frameCount) motion[field.fromIndex] = { meanMagnitude, medianU, medianV, consistentShare };
   }
   return motion;
 }

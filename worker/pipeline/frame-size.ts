@@ -1,4 +1,4 @@
-import type { FrameSize } from '../media/ffmpeg';
+import type { FrameSize } from '../../server/core/media/ffmpeg';
 
 /**
  * The working size of a clip's frames: the longest side of the upright picture (rotation applied) becomes the

@@ -1,8 +1,8 @@
 import fs from 'node:fs';
-import { Frame, MotionField } from '../../server/models';
+import { Frame, MotionField } from '../../server/core/models';
 import { clipMotionScale } from '../../shared/motion/motion-scale';
 import type { PairMotion } from '../pool/motion-tasks';
-import type { FieldSummary } from '../motion/field-summary';
+import type { FieldSummary } from '../motion/fields/field-summary';
 import { forEachFrame } from './each-frame';
 import { motionSettings } from './motion-settings';
 import { neighbourRuns, splitRuns } from './motion-runs';

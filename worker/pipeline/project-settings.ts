@@ -1,5 +1,7 @@
 import { DEFAULT_FLAG_THRESHOLDS, type FlagThresholds } from '../../shared/flag-thresholds';
-import type { Project } from '../../server/models';
+import type { ProjectSettings } from '../../shared/schemas/project-settings';
+import type { Project } from '../../server/core/models';
+import { readProjectSettings } from '../../server/core/projects/project-settings';
 import { FinalJobError } from '../jobs/job-errors';
 import { DEFAULT_CUT_BINS, DEFAULT_CUT_THRESHOLD } from '../signals/cuts';
 
@@ -14,19 +16,24 @@ export interface PipelineSettings {
   flagThresholds: FlagThresholds;
 }
 
-/** Project settings are stored with the flag thresholds; the cut threshold sits among them as `cutThreshold`. */
-export const CUT_THRESHOLD_SETTING = 'cutThreshold';
-const MAX_CUT_SCORE = 2;
+const FIX = 'An admin can change it in the project settings and process the clip again.';
+
+/**
+ * The project's settings checked by the schema every save passes (shared/schemas/project-settings.ts); only a row
+ * written before those checks can fail here, and it fails the job for good, saying what to change.
+ */
+export function checkedSettings(project: Project): ProjectSettings {
+  const read = readProjectSettings(project);
+  if ('problem' in read) throw new FinalJobError(`The project's setting ${read.problem}. ${FIX}`);
+  return read.settings;
+}
 
 export function pipelineSettings(project: Project): PipelineSettings {
-  const { [CUT_THRESHOLD_SETTING]: cutThreshold = DEFAULT_CUT_THRESHOLD, ...flagOverrides } = project.flagThresholds;
-  if (!(cutThreshold > 0 && cutThreshold <= MAX_CUT_SCORE)) {
-    throw new FinalJobError(`The project's cut threshold is ${cutThreshold}; it must be more than 0 and at most `
-      + `${MAX_CUT_SCORE}. An admin can change it in the project settings and process the clip again.`);
-  }
+  const { sampleFps, workingSize, flagThresholds } = checkedSettings(project);
+  const { cutThreshold = DEFAULT_CUT_THRESHOLD, ...flagOverrides } = flagThresholds;
   return {
-    sampleFps: project.sampleFps,
-    workingSize: project.workingSize,
+    sampleFps,
+    workingSize,
     cutBins: DEFAULT_CUT_BINS,
     cutThreshold,
     flagThresholds: { ...DEFAULT_FLAG_THRESHOLDS, ...flagOverrides },

@@ -1,9 +1,9 @@
 import fs from 'node:fs';
-import { Clip, Frame, MotionField } from '../../server/models';
+import { Clip, Frame, MotionField } from '../../server/core/models';
 import { FinalJobError } from '../jobs/job-errors';
 import {
   encodePreview, MediaError, probeMedia, sampleFrames, type RunOptions, type SampledFrames,
-} from '../media/ffmpeg';
+} from '../../server/core/media/ffmpeg';
 import { writeThumbnail } from '../media/frame-images';
 import { workingFrameSize } from './frame-size';
 import type { PipelineStage, StageContext } from './stage';

@@ -1,4 +1,4 @@
-import { Clip, Frame } from '../../server/models';
+import { Clip, Frame } from '../../server/core/models';
 import { detectClipCuts } from './cut-detection';
 import { forEachFrame } from './each-frame';
 import type { PipelineStage } from './stage';

@@ -1,7 +1,7 @@
 import type { Transaction } from 'sequelize';
 import type { ClipStage } from '../../shared/pipeline-stages';
-import type { Clip, Project } from '../../server/models';
-import type { StoragePaths } from '../../server/storage/paths';
+import type { Clip, Project } from '../../server/core/models';
+import type { StoragePaths } from '../../server/core/storage/paths';
 import type { FramePool } from '../pool/frame-pool';
 import type { PipelineSettings } from './project-settings';
 import type { WorkDir } from './work-dir';

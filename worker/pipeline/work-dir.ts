@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { derivedLayout, WORK_DIR_PREFIX, type DerivedLayout } from '../../server/storage/paths';
+import { derivedLayout, WORK_DIR_PREFIX, type DerivedLayout } from '../../server/core/storage/paths';
 
 /**
  * A stage's private folder inside the clip folder. The stage writes its outputs here under the clip's own layout,

@@ -3,7 +3,7 @@
  * of each neighbour pair out. Each thread keeps one MotionWorkspace for the coarse fields, as motion-tasks.ts does.
  */
 import { pairEvidence, type CutThumb, type PairEvidence } from '../signals/cut-evidence';
-import { MotionWorkspace } from '../motion/workspace';
+import { MotionWorkspace } from '../motion/kernels/workspace';
 
 export interface CutPairsTask {
   kind: 'cut-pairs';

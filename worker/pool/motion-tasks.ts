@@ -9,20 +9,21 @@ import fs from 'node:fs';
 import { rgbToGrey } from '../../shared/colour/grey';
 import { motionToColour } from '../../shared/motion/colour-wheel';
 import { readRgbImage, writeRgbPng } from '../media/frame-images';
-import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../motion/consistency';
-import { summariseField, type FieldSummary } from '../motion/field-summary';
-import { decodeFlo, encodeFlo } from '../motion/flo';
-import type { Estimator, EstimatorParams } from '../motion/index';
-import { NeighbourFieldRun, type NeighbourFields } from '../motion/neighbour-fields';
-import { MotionWorkspace } from '../motion/workspace';
+import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../motion/fields/consistency';
+import { summariseField, type FieldSummary } from '../motion/fields/field-summary';
+import { decodeFlo, encodeFlo } from '../motion/formats/flo';
+import type { EstimatorName } from '../../shared/estimators';
+import type { EstimatorParams } from '../motion/index';
+import { NeighbourFieldRun, type NeighbourFields } from '../motion/fields/neighbour-fields';
+import { MotionWorkspace } from '../motion/kernels/workspace';
 
 /** Frames k → k+1 of `frameFiles` (consecutive frames with no cut between them), both ways. */
 export interface MotionRunTask {
   kind: 'motion-run';
   frameFiles: string[];
-  estimator: Estimator;
+  estimator: EstimatorName;
   /** The estimator's complete parameters (resolveParams), recorded with every field. */
-  params: EstimatorParams[Estimator];
+  params: EstimatorParams[EstimatorName];
   /** Where the forward field of pair k goes (.flo), one per pair. */
   forwardFiles: string[];
   /** Where the backward field of pair k goes (.flo). */

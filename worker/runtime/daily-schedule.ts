@@ -1,7 +1,7 @@
 import { Op } from 'sequelize';
-import { Project, UsageSnapshot } from '../../server/models';
-import { requestRetentionRun, retentionCandidates } from '../../server/services/retention';
-import { requestReconcile } from '../../server/services/reconcile-requests';
+import { Project, UsageSnapshot } from '../../server/core/models';
+import { requestRetentionRun, retentionCandidates } from '../../server/core/clips/retention';
+import { requestReconcile } from '../../server/core/usage/reconcile-requests';
 import { utcDay } from '../jobs/reconcile-usage';
 
 const CHECK_EVERY_MS = 10 * 60_000;

@@ -1,4 +1,4 @@
-import { renewLease, type Lease } from '../jobs/claim';
+import { renewLease, type Lease } from '../../server/core/jobs/claim';
 
 /**
  * Renews a job's lease every third of its length while the job runs, so two renewals can fail (a busy database)

@@ -1,9 +1,9 @@
 import PQueue from 'p-queue';
 import type { JobKind } from '../../shared/jobs';
-import type { Config } from '../../server/config';
-import type { Job } from '../../server/models';
-import type { StoragePaths } from '../../server/storage/paths';
-import { claimJob, failJob, finishJob, releaseJob, retryJob, type Lease } from '../jobs/claim';
+import type { Config } from '../../server/core/config';
+import type { Job } from '../../server/core/models';
+import type { StoragePaths } from '../../server/core/storage/paths';
+import { claimJob, failJob, finishJob, releaseJob, retryJob, type Lease } from '../../server/core/jobs/claim';
 import type { ClaimedJob, Handler, Handlers, JobContext } from '../jobs/handler';
 import { HANDLERS } from '../jobs/handlers';
 import { FinalJobError, LeaseLostError, ShutdownError } from '../jobs/job-errors';

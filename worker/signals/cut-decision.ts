@@ -74,7 +74,8 @@ function localLevel(values: readonly number[], p: number): number {
 
 /** Which measures fire for one pair, with the threshold each crossed. */
 function firedMeasures(
-  pair: PairMeasures, level: Pick<PairMeasures, 'warpError' | 'histogramDistance' | 'edgeChange'>,
+  pair: PairMeasures,
+  level: Pick<PairMeasures, 'warpError' | 'histogramDistance' | 'edgeChange'>,
   histogramThreshold: number,
 ): Partial<Record<CutEvidenceName, number>> {
   const fired: Partial<Record<CutEvidenceName, number>> = {};
@@ -93,16 +94,23 @@ function firedMeasures(
 /** A hard cut: the motion fails, and strongly so or with another measure beside it. */
 function isHardCut(pair: PairMeasures, fired: Partial<Record<CutEvidenceName, number>>): boolean {
   if (fired.warp === undefined) return false;
-  return pair.warpError >= WARP_STRONG || fired.histogram !== undefined || fired.edges !== undefined
-    || fired.consistency !== undefined;
+  return (
+    pair.warpError >= WARP_STRONG ||
+    fired.histogram !== undefined ||
+    fired.edges !== undefined ||
+    fired.consistency !== undefined
+  );
 }
 
 /** Two frames far apart are two shots when the motion cannot explain them and their tones or edges differ too. */
 function differentShots(measures: PairMeasures): boolean {
-  return measures.warpError >= WARP_STRONG
-    || (measures.warpError >= WARP_FLOOR && (measures.histogramDistance >= HISTOGRAM_FLOOR
-      || measures.edgeChange >= EDGE_FLOOR
-      || (measures.motionConsistency !== null && measures.motionConsistency <= CONSISTENCY_COLLAPSE)));
+  return (
+    measures.warpError >= WARP_STRONG ||
+    (measures.warpError >= WARP_FLOOR &&
+      (measures.histogramDistance >= HISTOGRAM_FLOOR ||
+        measures.edgeChange >= EDGE_FLOOR ||
+        (measures.motionConsistency !== null && measures.motionConsistency <= CONSISTENCY_COLLAPSE)))
+  );
 }
 
 /**
@@ -119,15 +127,19 @@ export function decideCuts(
   const histogram = pairs.map((pair) => pair.histogramDistance);
   const edges = pairs.map((pair) => pair.edgeChange);
   const levels = pairs.map((_, p) => ({
-    warpError: localLevel(warp, p), histogramDistance: localLevel(histogram, p), edgeChange: localLevel(edges, p),
+    warpError: localLevel(warp, p),
+    histogramDistance: localLevel(histogram, p),
+    edgeChange: localLevel(edges, p),
   }));
   const fired = pairs.map((pair, p) => firedMeasures(pair, levels[p]!, histogramThreshold));
   const kinds: (CutKind | null)[] = pairs.map(() => null);
 
   // Gradual transitions first: runs of pairs whose warp error and tones both stand out.
-  const inRun = pairs.map((pair, p) =>
-    pair.warpError >= Math.max(GRADUAL_WARP_FLOOR, WARP_STAND_OUT * levels[p]!.warpError)
-    && fired[p]!.histogram !== undefined);
+  const inRun = pairs.map(
+    (pair, p) =>
+      pair.warpError >= Math.max(GRADUAL_WARP_FLOOR, WARP_STAND_OUT * levels[p]!.warpError) &&
+      fired[p]!.histogram !== undefined,
+  );
   for (let p = 0; p < pairs.length;) {
     if (!inRun[p]) {
       p += 1;
@@ -151,16 +163,21 @@ export function decideCuts(
     }
   }
 
-  const cutBefore = Array.from({ length: frames }, (_, k) => k > 0 && (kinds[k - 1] === 'hard'
-    || kinds[k - 1] === 'gradual'));
-  const evidence: (CutEvidence | null)[] = [null, ...pairs.map((pair, p) => ({
-    histogramDistance: pair.histogramDistance,
-    edgeChange: pair.edgeChange,
-    motionConsistency: pair.motionConsistency,
-    warpError: pair.warpError,
-    localWarpError: levels[p]!.warpError,
-    fired: fired[p]!,
-    kind: kinds[p]!,
-  }))];
+  const cutBefore = Array.from(
+    { length: frames },
+    (_, k) => k > 0 && (kinds[k - 1] === 'hard' || kinds[k - 1] === 'gradual'),
+  );
+  const evidence: (CutEvidence | null)[] = [
+    null,
+    ...pairs.map((pair, p) => ({
+      histogramDistance: pair.histogramDistance,
+      edgeChange: pair.edgeChange,
+      motionConsistency: pair.motionConsistency,
+      warpError: pair.warpError,
+      localWarpError: levels[p]!.warpError,
+      fired: fired[p]!,
+      kind: kinds[p]!,
+    })),
+  ];
   return { cutBefore, evidence };
 }

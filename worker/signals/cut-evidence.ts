@@ -15,11 +15,11 @@
  * Small copies are area averages (resizeArea), so compression noise and fine texture average out.
  */
 import { resizeArea } from '../../shared/pairing/area-resize';
-import { forwardBackwardConsistency } from '../motion/consistency';
-import { estimateFarneback, FARNEBACK_DEFAULTS, type FarnebackParams } from '../motion/farneback';
-import { warpBackward } from '../motion/resample';
+import { forwardBackwardConsistency } from '../motion/fields/consistency';
+import { estimateFarneback, FARNEBACK_DEFAULTS, type FarnebackParams } from '../motion/farneback/farneback';
+import { warpBackward } from '../motion/kernels/resample';
 import { globalShift, shiftNear } from './global-shift';
-import { MotionWorkspace } from '../motion/workspace';
+import { MotionWorkspace } from '../motion/kernels/workspace';
 
 /** Longest side of the copy the coarse motion runs on: a 320 px frame's motion shrinks fivefold. */
 export const MOTION_LONG_SIDE = 64;
@@ -50,7 +50,10 @@ const MIN_SPREAD = 2;
  * iterations a level (OpenCV's default is 3), which halves its cost.
  */
 const COARSE_FARNEBACK: Readonly<FarnebackParams> = Object.freeze({
-  ...FARNEBACK_DEFAULTS, winSize: 9, levels: 3, iterations: 2,
+  ...FARNEBACK_DEFAULTS,
+  winSize: 9,
+  levels: 3,
+  iterations: 2,
 });
 
 /** A frame reduced to what cut detection compares. */
@@ -93,7 +96,9 @@ export function cutThumb(grey: Float32Array, width: number, height: number): Cut
   const small = scaledSize(width, height, MOTION_LONG_SIDE);
   const coarse = shrink(forEdges, edgeSize.width, edgeSize.height, small.width, small.height);
   return {
-    ...small, grey: Uint8Array.from(coarse, Math.round), spread: meanDeviation(coarse),
+    ...small,
+    grey: Uint8Array.from(coarse, Math.round),
+    spread: meanDeviation(coarse),
     edgeWidth: edgeSize.width,
     edgeHeight: edgeSize.height,
     edges: packEdges(sobelEdges(forEdges, edgeSize.width, edgeSize.height)),
@@ -112,8 +117,8 @@ function shrink(src: Float32Array, width: number, height: number, outWidth: numb
     const bottom = top + width;
     for (let x = 0; x < outWidth; x += 1) {
       const left = 2 * x;
-      out[y * outWidth + x] = (src[top + left]! + src[top + left + 1]!
-        + src[bottom + left]! + src[bottom + left + 1]!) / 4;
+      out[y * outWidth + x] =
+        (src[top + left]! + src[top + left + 1]! + src[bottom + left]! + src[bottom + left + 1]!) / 4;
     }
   }
   return out;
@@ -152,10 +157,20 @@ export function sobelEdges(grey: Float32Array, width: number, height: number): U
   for (let y = 1; y < height - 1; y += 1) {
     for (let x = 1; x < width - 1; x += 1) {
       const p = y * width + x;
-      const gx = grey[p - width + 1] + 2 * grey[p + 1] + grey[p + width + 1]
-        - grey[p - width - 1] - 2 * grey[p - 1] - grey[p + width - 1];
-      const gy = grey[p + width - 1] + 2 * grey[p + width] + grey[p + width + 1]
-        - grey[p - width - 1] - 2 * grey[p - width] - grey[p - width + 1];
+      const gx =
+        grey[p - width + 1] +
+        2 * grey[p + 1] +
+        grey[p + width + 1] -
+        grey[p - width - 1] -
+        2 * grey[p - 1] -
+        grey[p + width - 1];
+      const gy =
+        grey[p + width - 1] +
+        2 * grey[p + width] +
+        grey[p + width + 1] -
+        grey[p - width - 1] -
+        2 * grey[p - width] -
+        grey[p - width + 1];
       magnitude[p] = Math.abs(gx) + Math.abs(gy);
       direction[p] = gradientDirection(gx, gy);
     }
@@ -180,7 +195,7 @@ function gradientDirection(gx: number, gy: number): number {
   // tan 22.5° ≈ 0.4142
   if (ay <= 0.4142 * ax) return 0;
   if (ax <= 0.4142 * ay) return 2;
-  return (gx > 0) === (gy > 0) ? 1 : 3;
+  return gx > 0 === gy > 0 ? 1 : 3;
 }
 
 /** Each pixel within `radius` (a square) of an edge: the dilation of Zabih et al. */
@@ -215,7 +230,11 @@ function dilate(edges: Uint8Array, width: number, height: number, radius: number
  * second has one near x + shift. Edges whose counterpart would lie outside the other frame are left out.
  */
 export function edgeChangeRatio(
-  prev: Uint8Array, next: Uint8Array, width: number, height: number, shift = { dx: 0, dy: 0 },
+  prev: Uint8Array,
+  next: Uint8Array,
+  width: number,
+  height: number,
+  shift = { dx: 0, dy: 0 },
 ): number {
   if (prev.length !== width * height || next.length !== prev.length) {
     throw new RangeError(`edge maps do not match ${width}×${height}`);
@@ -249,7 +268,10 @@ export function edgeChangeRatio(
 
 /** The motion's verdict and the edge change between two thumbs of one clip. */
 export function pairEvidence(
-  prev: CutThumb, next: CutThumb, workspace = new MotionWorkspace(), hint: { dx: number; dy: number } | null = null,
+  prev: CutThumb,
+  next: CutThumb,
+  workspace = new MotionWorkspace(),
+  hint: { dx: number; dy: number } | null = null,
 ): PairEvidence {
   if (prev.width !== next.width || prev.height !== next.height) {
     throw new RangeError(`thumbs differ in size: ${prev.width}×${prev.height} and ${next.width}×${next.height}`);
@@ -266,19 +288,31 @@ export function pairEvidence(
   const near = hint && shiftNear(prevGrey, nextGrey, width, height, hint.dx, hint.dy, HINT_RADIUS);
   const shift = near && near.error / spread <= SHIFT_EXPLAINS ? near : globalShift(prevGrey, nextGrey, width, height);
   const edgePixels = prev.edgeWidth * prev.edgeHeight;
-  const edgeChange = edgeChangeRatio(unpackEdges(prev.edges, edgePixels), unpackEdges(next.edges, edgePixels),
-    prev.edgeWidth, prev.edgeHeight, {
-    dx: Math.round(shift.dx * (prev.edgeWidth / width)), dy: Math.round(shift.dy * (prev.edgeHeight / height)),
-  });
+  const edgeChange = edgeChangeRatio(
+    unpackEdges(prev.edges, edgePixels),
+    unpackEdges(next.edges, edgePixels),
+    prev.edgeWidth,
+    prev.edgeHeight,
+    {
+      dx: Math.round(shift.dx * (prev.edgeWidth / width)),
+      dy: Math.round(shift.dy * (prev.edgeHeight / height)),
+    },
+  );
   // Most pairs of a shot are explained by the camera's shift alone: no field is needed to say so.
   if (shift.error / spread <= SHIFT_EXPLAINS) {
     return { edgeChange, motionConsistency: null, warpError: shift.error / spread, shift };
   }
   const forward = shiftedField(prevGrey, nextGrey, width, height, shift, workspace, 'cut.forward');
-  const backward = shiftedField(nextGrey, prevGrey, width, height, { dx: -shift.dx, dy: -shift.dy }, workspace,
-    'cut.backward');
-  const { mask } = forwardBackwardConsistency(forward, backward, width, height, undefined,
-    new Uint8Array(pixels));
+  const backward = shiftedField(
+    nextGrey,
+    prevGrey,
+    width,
+    height,
+    { dx: -shift.dx, dy: -shift.dy },
+    workspace,
+    'cut.backward',
+  );
+  const { mask } = forwardBackwardConsistency(forward, backward, width, height, undefined, new Uint8Array(pixels));
   const warped = workspace.float32('cut.warped', pixels);
   warpBackward(nextGrey, width, height, forward, warped);
   let inside = 0;
@@ -309,8 +343,13 @@ export function pairEvidence(
  * of the remainder is estimated, and the shift is added to it.
  */
 function shiftedField(
-  from: Float32Array, to: Float32Array, width: number, height: number, shift: { dx: number; dy: number },
-  workspace: MotionWorkspace, key: string,
+  from: Float32Array,
+  to: Float32Array,
+  width: number,
+  height: number,
+  shift: { dx: number; dy: number },
+  workspace: MotionWorkspace,
+  key: string,
 ): Float32Array {
   const pixels = width * height;
   const moved = workspace.float32('cut.moved', pixels);
@@ -320,8 +359,15 @@ function shiftedField(
       moved[y * width + x] = to[sy * width + Math.min(width - 1, Math.max(0, x + shift.dx))];
     }
   }
-  const field = estimateFarneback(from, moved, width, height, COARSE_FARNEBACK, workspace,
-    workspace.float32(key, 2 * pixels));
+  const field = estimateFarneback(
+    from,
+    moved,
+    width,
+    height,
+    COARSE_FARNEBACK,
+    workspace,
+    workspace.float32(key, 2 * pixels),
+  );
   for (let p = 0; p < pixels; p += 1) {
     field[2 * p] += shift.dx;
     field[2 * p + 1] += shift.dy;

@@ -25,7 +25,12 @@ export interface GlobalShift {
 
 /** Mean |prev(x) − next(x + (dx, dy))| over the overlap; Infinity when the overlap is too small. */
 export function shiftError(
-  prev: Float32Array, next: Float32Array, width: number, height: number, dx: number, dy: number,
+  prev: Float32Array,
+  next: Float32Array,
+  width: number,
+  height: number,
+  dx: number,
+  dy: number,
 ): number {
   const x0 = Math.max(0, -dx);
   const x1 = Math.min(width, width - dx);
@@ -44,8 +49,14 @@ export function shiftError(
 
 /** Every shift within `radius` of (cx, cy), best first; ties go to the smaller shift, so flat reads as still. */
 function searchAround(
-  prev: Float32Array, next: Float32Array, width: number, height: number, cx: number, cy: number,
-  rx: number, ry: number,
+  prev: Float32Array,
+  next: Float32Array,
+  width: number,
+  height: number,
+  cx: number,
+  cy: number,
+  rx: number,
+  ry: number,
 ): GlobalShift[] {
   const tried: GlobalShift[] = [];
   for (let dy = cy - ry; dy <= cy + ry; dy += 1) {
@@ -59,7 +70,13 @@ function searchAround(
 
 /** The best shift within `radius` of (dx, dy), at full size; null when no overlap there is large enough. */
 export function shiftNear(
-  prev: Float32Array, next: Float32Array, width: number, height: number, dx: number, dy: number, radius: number,
+  prev: Float32Array,
+  next: Float32Array,
+  width: number,
+  height: number,
+  dx: number,
+  dy: number,
+  radius: number,
 ): GlobalShift | null {
   return searchAround(prev, next, width, height, dx, dy, radius, radius)[0] ?? null;
 }
@@ -74,8 +91,16 @@ export function globalShift(prev: Float32Array, next: Float32Array, width: numbe
   const scaleY = height / halfHeight;
   const smallPrev = resizeArea(prev, width, height, halfWidth, halfHeight);
   const smallNext = resizeArea(next, width, height, halfWidth, halfHeight);
-  const coarse = searchAround(smallPrev, smallNext, halfWidth, halfHeight, 0, 0,
-    Math.floor(halfWidth * MAX_SHIFT_SHARE), Math.floor(halfHeight * MAX_SHIFT_SHARE));
+  const coarse = searchAround(
+    smallPrev,
+    smallNext,
+    halfWidth,
+    halfHeight,
+    0,
+    0,
+    Math.floor(halfWidth * MAX_SHIFT_SHARE),
+    Math.floor(halfHeight * MAX_SHIFT_SHARE),
+  );
   const kept: GlobalShift[] = [];
   for (const shift of coarse) {
     if (kept.length === CANDIDATES) break;
@@ -85,8 +110,16 @@ export function globalShift(prev: Float32Array, next: Float32Array, width: numbe
   }
   let best: GlobalShift = { dx: 0, dy: 0, error: shiftError(prev, next, width, height, 0, 0) };
   for (const candidate of kept) {
-    const refined = searchAround(prev, next, width, height, Math.round(candidate.dx * scaleX),
-      Math.round(candidate.dy * scaleY), REFINE_RADIUS, REFINE_RADIUS)[0];
+    const refined = searchAround(
+      prev,
+      next,
+      width,
+      height,
+      Math.round(candidate.dx * scaleX),
+      Math.round(candidate.dy * scaleY),
+      REFINE_RADIUS,
+      REFINE_RADIUS,
+    )[0];
     if (refined && refined.error < best.error) best = refined;
   }
   return best;

@@ -1,4 +1,4 @@
-import type { PairsetState } from '../../../shared/types/pairsets';
+import type { PairsetState } from '../../../shared/schemas/pairsets';
 
 /** Footage length from hours: minutes below an hour, hours with one decimal above. */
 export function formatHours(hours: number): string {

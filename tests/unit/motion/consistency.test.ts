@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../../../worker/motion/consistency.js';
-import { fieldStatistics, nearestRankPercentile } from '../../../worker/motion/field-statistics.js';
+import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../../../worker/motion/fields/consistency.js';
+import { fieldStatistics, nearestRankPercentile } from '../../../worker/motion/fields/field-statistics.js';
 import { UNKNOWN_FLOW } from '../../../shared/motion/unknown-flow.js';
 
 // Source: Sundaram, Brox, Keutzer, "Dense Point Trajectories by GPU-Accelerated Large Displacement Optical

@@ -4,9 +4,10 @@ import {
   estimateFarneback,
   estimateFromExpansions,
   expandFrame,
-} from '../../../worker/motion/farneback.js';
-import { ESTIMATORS, type Estimator } from '../../../worker/motion/index.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+} from '../../../worker/motion/farneback/farneback.js';
+import { ESTIMATOR_REGISTRY } from '../../../worker/motion/index.js';
+import type { EstimatorName } from '../../../shared/estimators';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 import { sameBits } from './field-difference.js';
 
@@ -17,8 +18,8 @@ import { sameBits } from './field-difference.js';
 const large = makeMotionPair(200, 150, { kind: 'rotate', degrees: 3 }, 11);
 const small = makeMotionPair(120, 90, { kind: 'shift', dx: 1.25, dy: -0.75 }, 12);
 
-describe.each(Object.keys(ESTIMATORS) as Estimator[])('%s determinism', (name) => {
-  const entry = ESTIMATORS[name];
+describe.each(Object.keys(ESTIMATOR_REGISTRY) as EstimatorName[])('%s determinism', (name) => {
+  const entry = ESTIMATOR_REGISTRY[name];
   const run = (pair: typeof small, workspace: MotionWorkspace): Float32Array =>
     entry.estimate(pair.prev, pair.next, pair.width, pair.height, entry.defaults as never, workspace);
 

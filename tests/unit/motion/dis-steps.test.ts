@@ -1,17 +1,17 @@
 import { describe, expect, it } from 'vitest';
-import { densify, densifyBufferLength } from '../../../worker/motion/dis-densify.js';
-import { inverseSearch, type PatchVectors, type SearchFrames } from '../../../worker/motion/dis-inverse-search.js';
+import { densify, densifyBufferLength } from '../../../worker/motion/dis/densify.js';
+import { inverseSearch, type PatchVectors, type SearchFrames } from '../../../worker/motion/dis/inverse-search.js';
 import {
   halveArea,
   padReplicate,
   patchSource,
   upsampleBufferLength,
   upsampleFlow,
-} from '../../../worker/motion/dis-levels.js';
-import { PATCH_TERMS, patchGrid, patchTerms } from '../../../worker/motion/dis-patch-grid.js';
-import { refineField } from '../../../worker/motion/dis-variational.js';
-import { averageErrors } from '../../../worker/motion/error-measures.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+} from '../../../worker/motion/dis/levels.js';
+import { PATCH_TERMS, patchGrid, patchTerms } from '../../../worker/motion/dis/patch-grid.js';
+import { refineField } from '../../../worker/motion/dis/variational.js';
+import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 
 // The named steps of the DIS estimator, each checked on inputs whose answer is known in closed form [C] or is

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { DIS_PRESETS, disScales, estimateDis, validateDisParams, type DisParams } from '../../../worker/motion/dis.js';
-import { averageErrors } from '../../../worker/motion/error-measures.js';
+import { DIS_PRESETS, disScales, estimateDis, validateDisParams, type DisParams } from '../../../worker/motion/dis/dis.js';
+import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
 import { resolveParams } from '../../../worker/motion/index.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 import { sameBits } from './field-difference.js';
 import { BORDER, MOTION_CASES, SEED } from './motion-cases.js';

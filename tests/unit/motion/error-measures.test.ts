@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { angularErrorDegrees, averageErrors, endpointError } from '../../../worker/motion/error-measures.js';
+import { angularErrorDegrees, averageErrors, endpointError } from '../../../worker/motion/fields/error-measures.js';
 import { UNKNOWN_FLOW } from '../../../shared/motion/unknown-flow.js';
 
 // Sources: Baker et al., "A Database and Evaluation Methodology for Optical Flow", IJCV 92(1), 2011; Barron,

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { averageErrors } from '../../../worker/motion/error-measures.js';
-import { ESTIMATORS, type Estimator } from '../../../worker/motion/index.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
+import { ESTIMATOR_REGISTRY } from '../../../worker/motion/index.js';
+import type { EstimatorName } from '../../../shared/estimators';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 import { BORDER, MOTION_CASES, SEED } from './motion-cases.js';
 
@@ -10,7 +11,7 @@ import { BORDER, MOTION_CASES, SEED } from './motion-cases.js';
 // Thresholds are about 1.5× the measured AEE with default parameters (measured values in the comments), far
 // below the AEE of a zero field (0.56 px for the smallest shift).
 
-const LIMITS: Record<Estimator, Record<string, number>> = {
+const LIMITS: Record<EstimatorName, Record<string, number>> = {
   farneback: {
     'shift (0.5, 0.25)': 0.03, // measured 0.0171
     'shift (2.5, −1.5)': 0.09, // measured 0.0614
@@ -42,8 +43,8 @@ const LIMITS: Record<Estimator, Record<string, number>> = {
   },
 };
 
-describe.each(Object.keys(LIMITS) as Estimator[])('%s on generated pairs with known motion', (name) => {
-  const entry = ESTIMATORS[name];
+describe.each(Object.keys(LIMITS) as EstimatorName[])('%s on generated pairs with known motion', (name) => {
+  const entry = ESTIMATOR_REGISTRY[name];
   const workspace = new MotionWorkspace();
   for (const motionCase of MOTION_CASES) {
     const limit = LIMITS[name][motionCase.name];

@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { averageErrors } from '../../../worker/motion/error-measures.js';
-import { FARNEBACK_DEFAULTS, estimateFarneback, type FarnebackParams } from '../../../worker/motion/farneback.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
+import { FARNEBACK_DEFAULTS, estimateFarneback, type FarnebackParams } from '../../../worker/motion/farneback/farneback.js';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 import { BORDER, MOTION_CASES, SEED } from './motion-cases.js';
 import { OPTFLOW_FARNEBACK_GAUSSIAN, loadOpenCv, withMat, type OpenCv } from './opencv-reference.js';

@@ -1,6 +1,6 @@
 // Pixel-by-pixel comparison of two motion fields (interleaved u, v): mean and largest endpoint distance.
 
-import { endpointError } from '../../../worker/motion/error-measures.js';
+import { endpointError } from '../../../worker/motion/fields/error-measures.js';
 
 export function fieldDifference(a: Float32Array, b: Float32Array): { mean: number; max: number } {
   if (a.length !== b.length) throw new Error(`fields differ in length: ${a.length} and ${b.length}`);

@@ -1,10 +1,11 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { averageErrors } from '../../../worker/motion/error-measures.js';
-import { FARNEBACK_DEFAULTS } from '../../../worker/motion/farneback.js';
-import { ESTIMATORS, type Estimator } from '../../../worker/motion/index.js';
-import { warpBackward } from '../../../worker/motion/resample.js';
+import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
+import { FARNEBACK_DEFAULTS } from '../../../worker/motion/farneback/farneback.js';
+import { ESTIMATOR_REGISTRY } from '../../../worker/motion/index.js';
+import type { EstimatorName } from '../../../shared/estimators';
+import { warpBackward } from '../../../worker/motion/kernels/resample.js';
 import { isUnknownFlow } from '../../../shared/motion/unknown-flow.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { GROVE3_FETCH_COMMAND, grove3Available, loadGrove3, type Grove3 } from '../../helpers/grove3.js';
 import { fieldDifference } from './field-difference.js';
 import { loadOpenCv, withMat } from './opencv-reference.js';
@@ -15,7 +16,7 @@ import { loadOpenCv, withMat } from './opencv-reference.js';
 // field from I0 to grove3.png is the ground truth. AEE over every pixel with known truth; limits about 1.2×
 // the measured values (in the comments).
 
-const LIMITS: Record<Estimator, number> = {
+const LIMITS: Record<EstimatorName, number> = {
   farneback: 1.45, // measured 1.2155 (OpenCV's own: 1.2155)
   'horn-schunck': 0.9, // measured 0.7300
   'lucas-kanade': 0.95, // measured 0.7874
@@ -47,9 +48,9 @@ describe('Middlebury Grove3', () => {
   });
 
   const workspace = new MotionWorkspace();
-  for (const name of Object.keys(LIMITS) as Estimator[]) {
+  for (const name of Object.keys(LIMITS) as EstimatorName[]) {
     it(`${name}: AEE < ${LIMITS[name]} px`, () => {
-      const entry = ESTIMATORS[name];
+      const entry = ESTIMATOR_REGISTRY[name];
       const flow = entry.estimate(first, grove.grey, grove.width, grove.height, entry.defaults as never, workspace);
       const { aee, aae, count } = averageErrors(flow, grove.truth, grove.width, grove.height);
       console.info(`Grove3 ${name}: AEE ${aee.toFixed(4)} px, AAE ${aae.toFixed(2)}° over ${count} pixels`);
@@ -74,7 +75,7 @@ describe('Middlebury Grove3', () => {
         }
       }),
     );
-    const ours = ESTIMATORS.farneback.estimate(first, grove.grey, width, height, p, workspace);
+    const ours = ESTIMATOR_REGISTRY.farneback.estimate(first, grove.grey, width, height, p, workspace);
     const oursAee = averageErrors(ours, grove.truth, width, height).aee;
     const referenceAee = averageErrors(reference, grove.truth, width, height).aee;
     expect(Math.abs(oursAee - referenceAee)).toBeLessThan(0.1 * referenceAee);

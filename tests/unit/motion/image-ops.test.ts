@@ -1,8 +1,8 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { gaussianKernel, reflect101 } from '../../../worker/motion/gaussian-blur.js';
-import { buildLevel, levelKernel, pyramidLevels, roundHalfEven } from '../../../worker/motion/pyramid.js';
-import { resizeBilinear, sampleBilinear, warpBackward } from '../../../worker/motion/resample.js';
-import { MotionWorkspace } from '../../../worker/motion/workspace.js';
+import { gaussianKernel, reflect101 } from '../../../worker/motion/kernels/gaussian-blur.js';
+import { buildLevel, levelKernel, pyramidLevels, roundHalfEven } from '../../../worker/motion/kernels/pyramid.js';
+import { resizeBilinear, sampleBilinear, warpBackward } from '../../../worker/motion/kernels/resample.js';
+import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 import { loadOpenCv, type OpenCv } from './opencv-reference.js';
 

@@ -1,11 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { FARNEBACK_DEFAULTS, estimateFarneback } from '../../../worker/motion/farneback.js';
-import { ESTIMATOR_NAMES, estimateMotion, isEstimator, resolveParams } from '../../../worker/motion/index.js';
+import { FARNEBACK_DEFAULTS, estimateFarneback } from '../../../worker/motion/farneback/farneback.js';
+import { estimateMotion, isEstimator, resolveParams } from '../../../worker/motion/index.js';
+import { ESTIMATORS } from '../../../shared/estimators';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 
 describe('estimator registry', () => {
   it('names the four estimators', () => {
-    expect(ESTIMATOR_NAMES).toEqual(['farneback', 'horn-schunck', 'lucas-kanade', 'dis']);
+    expect(ESTIMATORS).toEqual(['farneback', 'horn-schunck', 'lucas-kanade', 'dis']);
     expect(isEstimator('farneback')).toBe(true);
     expect(isEstimator('dis')).toBe(true);
     expect(isEstimator('rlof')).toBe(false);

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { countPlanned, planPairs, type PlanClip } from '../../../shared/pairing/pair-plan';
 import { pairKinds, type MomentFrame } from '../../../shared/pairing/pairing-graph';
 import { splitOfClip } from '../../../shared/pairing/split';
-import { histogram } from '../../../server/services/pairset-statistics';
+import { histogram } from '../../../server/core/pairsets/pairset-statistics';
 
 function clip(id: number, count: number, cutsBefore: number[] = [], motionUntil = count - 1): PlanClip {
   const frames: MomentFrame[] = Array.from({ length: count }, (_, index) => ({

@@ -34,7 +34,7 @@ describe('edge change ratio (Zabih, Miller & Mai 1995)', () => {
     expect(edgeChangeRatio(prev, prev, width, height)).toBe(0);
   });
 
-  it('marks Sobel edges where OpenCV\'s Sobel magnitude (|dx| + |dy|, 3×3) is large and the largest across', () => {
+  it("marks Sobel edges where OpenCV's Sobel magnitude (|dx| + |dy|, 3×3) is large and the largest across", () => {
     const width = 40;
     const height = 30;
     const grey = texturedGrey(width, height, 5, { mean: 128, amplitude: 100 });
@@ -65,7 +65,12 @@ describe('edge change ratio (Zabih, Miller & Mai 1995)', () => {
 describe('global shift', () => {
   it('finds a known shift of the camera window, including one a third of the width', () => {
     const base = window(80, 45, 200, 100);
-    for (const [dx, dy] of [[0, 0], [7, -3], [-26, 9], [12, 14]] as const) {
+    for (const [dx, dy] of [
+      [0, 0],
+      [7, -3],
+      [-26, 9],
+      [12, 14],
+    ] as const) {
       const moved = window(80, 45, 200 + dx, 100 + dy);
       // moved(x) = base(x + d), so base(x) = moved(x − d): the shift from base to moved is −d.
       const found = globalShift(base, moved, 80, 45);

@@ -1,0 +1,115 @@
+import fs from 'node:fs';
+import { UniqueConstraintError } from 'sequelize';
+import { HttpStatus } from '../../../shared/http-status';
+import type { ClipSummary } from '../../../shared/types/clips';
+import { AppError, conflict } from '../errors';
+import { Clip, Project, User } from '../models';
+import type { StoragePaths } from '../storage/paths';
+import { recordAudit } from '../audit/audit';
+import { probeUpload } from '../media/clip-probe';
+import { checkQuotaThresholds } from '../usage/quota-warnings';
+import { releaseUpload } from '../usage/quotas';
+import { discardUpload, type ReceivedUpload } from './received-upload';
+import { enqueueJob } from '../jobs/enqueue';
+
+const MAX_NAME_LENGTH = 255;
+
+/**
+ * The uploaded name, kept as data only: no directories, no control characters, at most 255 characters.
+ * It is shown to people and never used to build a path.
+ */
+export function cleanOriginalName(name: string | undefined): string {
+  const base = (name ?? '').split(/[/\\]/).pop() ?? '';
+  const printable = base.replace(/\p{Cc}|\p{Cf}/gu, '').trim();
+  const limited = [...printable].slice(0, MAX_NAME_LENGTH).join('');
+  return limited || 'unnamed video';
+}
+
+/**
+ * Turns a received file into a clip: refuses empty files, exact duplicates and anything ffprobe cannot use, then
+ * moves the file into the clip's folder and writes the Clip and its process-clip Job in one transaction.
+ * On any refusal or failure the file is deleted and its reserved bytes released.
+ */
+export async function admitUpload(
+  upload: ReceivedUpload,
+  uploadedName: string | undefined,
+  uploaderId: number,
+  { paths, publicUrl }: { paths: StoragePaths; publicUrl: string },
+): Promise<ClipSummary> {
+  const originalName = cleanOriginalName(uploadedName);
+  try {
+    if (upload.size === 0) {
+      throw new AppError(HttpStatus.UNPROCESSABLE_ENTITY, 'not_a_usable_video', `${originalName} is empty (0 bytes).`);
+    }
+    await refuseDuplicate(upload, originalName);
+    const { probe, ext } = await probeUpload(upload.path, originalName);
+    const clip = await commitClip(upload, { originalName, uploaderId, probe, ext }, paths, publicUrl);
+    return clip.toApi();
+  } catch (error) {
+    await discardUpload(upload);
+    if (error instanceof UniqueConstraintError) {
+      await refuseDuplicate(upload, originalName);
+    }
+    throw error;
+  }
+}
+
+async function refuseDuplicate(upload: ReceivedUpload, originalName: string): Promise<void> {
+  const existing = await Clip.findOne({ where: { projectId: upload.fields.projectId, sha256: upload.sha256 } });
+  if (existing) {
+    throw conflict('duplicate_clip',
+      `${originalName} is already in this project as clip ${existing.id} ("${existing.originalName}").`,
+      { clipId: existing.id });
+  }
+}
+
+interface ClipFacts {
+  originalName: string;
+  uploaderId: number;
+  probe: Awaited<ReturnType<typeof probeUpload>>['probe'];
+  ext: string;
+}
+
+async function commitClip(
+  upload: ReceivedUpload, facts: ClipFacts, paths: StoragePaths, publicUrl: string,
+): Promise<Clip> {
+  const { fields } = upload;
+  let clipId: number | null = null;
+  const clip = await Clip.sequelize!.transaction(async (transaction) => {
+    const created = await Clip.create({
+      projectId: fields.projectId,
+      uploaderId: facts.uploaderId,
+      originalName: facts.originalName,
+      sizeBytes: upload.size,
+      storedBytes: upload.size,
+      sha256: upload.sha256,
+      sourceExt: facts.ext,
+      state: 'queued',
+      ...facts.probe,
+      site: fields.site,
+      rig: fields.rig,
+      capturedAt: fields.capturedAt ? new Date(fields.capturedAt) : null,
+      tags: fields.tags,
+      notes: fields.notes,
+    }, { transaction });
+    clipId = created.id;
+    await enqueueJob('process-clip', { clipId: created.id }, { transaction });
+    await recordAudit({
+      actorId: facts.uploaderId, action: 'clip.upload', targetType: 'clip', targetId: created.id,
+      detail: { originalName: facts.originalName, sizeBytes: upload.size, projectId: fields.projectId },
+    }, transaction);
+    await releaseUpload(upload.reservationId, transaction);
+    await checkQuotaThresholds(fields.projectId, facts.uploaderId, publicUrl, transaction);
+    // The rename is one metadata operation on the same volume: done last inside the transaction, so the row
+    // commits only once the file is in place, and a failed rename rolls the rows back.
+    await fs.promises.mkdir(paths.clipDir(created.id), { recursive: true });
+    await fs.promises.rename(upload.path, paths.clipSource(created.id, facts.ext));
+    return created;
+  }).catch(async (error: unknown) => {
+    // The commit itself failed after the move: take the folder away so no file outlives its missing row.
+    if (clipId !== null) await fs.promises.rm(paths.clipDir(clipId), { recursive: true, force: true });
+    throw error;
+  });
+  await clip.reload({ include: [{ model: Project, as: 'project' }, { model: User, as: 'uploader' }] });
+  return clip;
+}

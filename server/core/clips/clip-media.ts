@@ -1,0 +1,108 @@
+import fs from 'node:fs';
+import { Op } from 'sequelize';
+import { HttpStatus } from '../../../shared/http-status';
+import { clipMotionScale } from '../../../shared/motion/motion-scale';
+import type { ClipStage, StoredView } from '../../../shared/pipeline-stages';
+import type { ClipFrameList, ClipProgress } from '../../../shared/types/frames';
+import { AppError, conflict, notFound } from '../errors';
+import { Clip, Frame, Job, MotionField } from '../models';
+import type { StoragePaths } from '../storage/paths';
+import { recordAudit } from '../audit/audit';
+import { enqueueJob } from '../jobs/enqueue';
+
+/**
+ * What processing made of a clip (frames, signals, views, preview, thumbnail, progress) and starting it again.
+ * Motion field files: clip-motion.ts.
+ * Files are answered as paths for the route to stream; a path is always built from ids (storage/paths.ts).
+ */
+
+/** Frames with the summary of the forward motion field from each, and the scale of the clip's motion pictures. */
+export async function listFrames(clipId: number): Promise<ClipFrameList> {
+  await existingClip(clipId);
+  const frames = await Frame.findAll({ where: { clipId }, order: [['index', 'ASC']] });
+  const fields = new Map((await MotionField.forwardOfClip(clipId)).map((field) => [field.fromIndex, field]));
+  return {
+    items: frames.map((frame) => frame.toApi(fields.get(frame.index)?.toFrameMotion() ?? null)),
+    total: frames.length,
+    motionScale: clipMotionScale([...fields.values()]),
+  };
+}
+
+export async function framePath(clipId: number, index: number, paths: StoragePaths): Promise<string> {
+  await existingFrame(clipId, index);
+  return existingFile(paths.clipDerived(clipId).frame(index), `Frame ${index} of clip ${clipId}`);
+}
+
+export async function viewPath(clipId: number, index: number, view: StoredView, paths: StoragePaths) {
+  await existingFrame(clipId, index);
+  return existingFile(paths.clipDerived(clipId).view(view, index),
+    `The ${view} view of frame ${index} of clip ${clipId} (views are made after the signals stage)`);
+}
+
+export async function thumbnailPath(clipId: number, paths: StoragePaths): Promise<string> {
+  await existingClip(clipId);
+  return existingFile(paths.clipDerived(clipId).thumbnail, `The thumbnail of clip ${clipId}`);
+}
+
+export async function previewPath(clipId: number, paths: StoragePaths): Promise<string> {
+  await existingClip(clipId);
+  return existingFile(paths.clipDerived(clipId).preview, `The preview of clip ${clipId}`);
+}
+
+/** The clip's state, the stage running or failed, and the share of that stage done (its latest job's). */
+export async function clipProgress(clipId: number): Promise<ClipProgress> {
+  const clip = await existingClip(clipId);
+  const job = await Job.findOne({ where: { clipId, kind: 'process-clip' }, order: [['id', 'DESC']] });
+  return { state: clip.state, stage: clip.stage as ClipStage | null, progress: job?.progress ?? 0 };
+}
+
+/**
+ * Queues processing of a clip again: after a failure, or after the project's settings changed. The worker replaces
+ * the derived files stage by stage (each output renamed into place) and keeps a verdict. Refused while the clip
+ * is queued or processing already, and for a clip whose footage was purged.
+ */
+export async function reprocessClip(clipId: number, actorId: number): Promise<ClipProgress> {
+  const clip = await existingClip(clipId);
+  if (clip.purgedAt) {
+    throw new AppError(HttpStatus.GONE, 'purged',
+      `Clip ${clipId}'s footage was purged on ${clip.purgedAt.toISOString()}; there is nothing to process.`);
+  }
+  await Clip.sequelize!.transaction(async (transaction) => {
+    const active = await Job.findOne({
+      where: { clipId, kind: 'process-clip', state: { [Op.in]: ['queued', 'running'] } }, transaction,
+    });
+    if (active) {
+      throw conflict('already_processing', `Clip ${clipId} is being processed already (job ${active.id}).`);
+    }
+    await enqueueJob('process-clip', { clipId }, { transaction });
+    const reviewed = clip.state === 'accepted' || clip.state === 'rejected';
+    await clip.update({ state: reviewed ? clip.state : 'queued', stage: null, error: null }, { transaction });
+    await recordAudit({
+      actorId, action: 'clip.reprocess', targetType: 'clip', targetId: clipId, detail: { previousState: clip.state },
+    }, transaction);
+  });
+  return clipProgress(clipId);
+}
+
+export async function existingClip(clipId: number): Promise<Clip> {
+  const clip = await Clip.findByPk(clipId);
+  if (!clip) throw notFound(`Clip ${clipId}`);
+  return clip;
+}
+
+async function existingFrame(clipId: number, index: number): Promise<void> {
+  await existingClip(clipId);
+  if (!(await Frame.findOne({ where: { clipId, index }, attributes: ['id'] }))) {
+    throw notFound(`Frame ${index} of clip ${clipId}`);
+  }
+}
+
+/** The file, or a 404 saying what is missing (not made yet, or removed). */
+export async function existingFile(file: string, what: string): Promise<string> {
+  try {
+    await fs.promises.access(file, fs.constants.R_OK);
+    return file;
+  } catch {
+    throw notFound(what);
+  }
+}

@@ -1,0 +1,34 @@
+import type { z } from 'zod';
+import { HttpStatus, type HttpStatusCode } from '../../shared/http-status';
+
+/** An error a person can act on: its status, a stable code for scripts and a plain message. */
+export class AppError extends Error {
+  constructor(
+    readonly status: HttpStatusCode,
+    readonly code: string,
+    message: string,
+    readonly details?: unknown,
+  ) {
+    super(message);
+    this.name = 'AppError';
+  }
+}
+
+export const notFound = (what: string) => new AppError(HttpStatus.NOT_FOUND, 'not_found', `${what} not found.`);
+export const conflict = (code: string, message: string, details?: unknown) =>
+  new AppError(HttpStatus.CONFLICT, code, message, details);
+export const badRequest = (code: string, message: string, details?: unknown) =>
+  new AppError(HttpStatus.BAD_REQUEST, code, message, details);
+
+/** A zod failure as a 400 whose message starts with the field at fault. */
+export function invalidInput(part: string, error: z.ZodError): AppError {
+  const issues = error.issues.map((issue) => {
+    const keys = 'keys' in issue && Array.isArray(issue.keys) ? issue.keys.map(String) : [];
+    // An unknown field is named by its full path (`flagThresholds.darkMeanLumma`), not by the object holding it.
+    const field = [...issue.path.map(String), ...keys.slice(0, 1)].join('.');
+    const message = keys.length > 0 ? `is not a known field${keys.length > 1 ? ` (nor ${keys.slice(1).join(', ')})` : ''}` : issue.message;
+    return { field: field || part, message };
+  });
+  const first = issues[0]!;
+  return new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', `${first.field}: ${first.message}`, { issues });
+}
