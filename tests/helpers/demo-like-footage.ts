@@ -1,16 +1,18 @@
-import sharp from 'sharp';
+import sharp, { type OverlayOptions } from 'sharp';
 import { renderTexture } from '../../server/demo/footage';
 import { DEMO_CLIPS, DEMO_PAIRSET, DEMO_VERDICTS, type DemoClipRecipe } from '../../server/demo/scenario';
 import { PROJECT_DEFAULTS } from '../../server/services/projects';
 import { rgbToGrey } from '../../shared/colour/grey';
-import { ESTIMATORS } from '../../worker/motion/index';
+import {
+  ESTIMATORS, type Estimator, type EstimatorEntry, type EstimatorParams,
+} from '../../worker/motion/index';
 
 /**
  * The demo pairset's footage without the demo's ffmpeg encode and worker pipeline: for each accepted clip of the
  * demo pairset's project, the demo's own procedural texture (server/demo/footage.ts) seen through the demo camera
  * path, sampled at the project defaults (5 frames/s, 320 px working size), the demo's picking crate drawn where the
- * recipe puts it, and the forward field of each neighbour pair from the default estimator (Farnebäck) with its
- * default parameters. Differences from a real demo start: no H.264 round trip and no scaling filter of ffmpeg,
+ * recipe puts it, and the forward field of each neighbour pair from the projects' default estimator with its default
+ * parameters. Differences from a real demo start: no H.264 round trip and no scaling filter of ffmpeg,
  * so fields and frames differ in detail, not in kind.
  */
 export interface DemoLikeClip {
@@ -51,7 +53,7 @@ export async function demoLikeClip(dir: string, recipe: DemoClipRecipe): Promise
       .raw().toBuffer({ resolveWithObject: true });
     frames.push(new Uint8Array(data));
   }
-  const estimator = ESTIMATORS[PROJECT_DEFAULTS.estimator];
+  const estimator = ESTIMATORS[PROJECT_DEFAULTS.estimator] as EstimatorEntry<EstimatorParams[Estimator]>;
   const grey = frames.map((rgb) => rgbToGrey(rgb, new Float32Array(width * height)));
   const fields = grey.slice(1).map((next, k) => estimator.estimate(grey[k]!, next, width, height,
     estimator.defaults).slice());
@@ -65,7 +67,7 @@ function pathFunction(expression: string): (t: number) => number {
 }
 
 /** The demo's picking crate as a sharp overlay, where the recipe's drawbox puts it at time t. */
-function crate(recipe: DemoClipRecipe, t: number): sharp.OverlayOptions | null {
+function crate(recipe: DemoClipRecipe, t: number): OverlayOptions | null {
   const match = recipe.look?.match(CRATE);
   if (!match) return null;
   const [, speed, period, back, top, w, h, colour] = match.map((v, i) => (i === 7 ? v : Number(v))) as number[];
