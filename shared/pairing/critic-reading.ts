@@ -22,7 +22,8 @@ export interface CriticReadingInput {
   smallestK: number;
 }
 
-const nats = (value: number) => `${value.toFixed(2)} nats`;
+/** Two decimals; a figure that rounds to zero is written 0.00, not −0.00. */
+const nats = (value: number) => `${(Math.abs(value) < 0.005 ? 0 : value).toFixed(2)} nats`;
 
 export function readCritic(input: CriticReadingInput): { reading: CriticReading; message: string } {
   if (!input.trained) {
