@@ -39,8 +39,12 @@ for (const k of KS) pairDifficulty(reference.heldOut.a, reference.heldOut.b, k);
 const fixedS = seconds(start);
 
 start = process.hrtime.bigint();
+const cpuBefore = process.cpuUsage();
 runCriticTask({ kind: 'critic', ...reference });
 const oneS = seconds(start);
+// CPU time of that one thread: what the critic costs on a core of its own, whatever else the machine runs.
+const cpu = process.cpuUsage(cpuBefore);
+const oneCpuS = (cpu.user + cpu.system) / 1e6;
 
 const pool = createFramePool(2);
 await pool.trainCritic(task(5)); // thread start and module load are not the critic's
@@ -51,6 +55,7 @@ await pool.destroy();
 
 console.log(`fixed embedding InfoNCE, ${PAIRS} pairs, K = ${KS.join(', ')}: ${fixedS.toFixed(3)} s (reference)`);
 console.log(`one critic, one thread: ${oneS.toFixed(2)} s = ${(oneS / fixedS).toFixed(0)}× the reference, `
-  + `${(oneS / BUDGET_S).toFixed(2)}× the ${BUDGET_S} s budget`);
+  + `${(oneS / BUDGET_S).toFixed(2)}× the ${BUDGET_S} s budget; CPU time ${oneCpuS.toFixed(2)} s = `
+  + `${(oneCpuS / BUDGET_S).toFixed(2)}× the budget`);
 console.log(`two view pairs in the pool (2 threads): ${twoS.toFixed(2)} s, ${(twoS / 2).toFixed(2)} s per view pair = `
   + `${(twoS / 2 / BUDGET_S).toFixed(2)}× the budget`);
