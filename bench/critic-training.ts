@@ -29,7 +29,7 @@ function pairs(seed: number): DescriptorPairs {
 
 const task = (seed: number): Omit<CriticTask, 'kind'> => ({
   train: pairs(seed), heldOut: pairs(seed + 1), ks: KS, measureSeed: 1,
-  options: { ...DEFAULT_CRITIC, temperature: 0.07, seed },
+  options: { ...DEFAULT_CRITIC, tied: false, temperature: 0.07, seed },
 });
 const seconds = (start: bigint) => Number(process.hrtime.bigint() - start) / 1e9;
 

@@ -44,10 +44,13 @@ export interface CriticOptions {
   curveEvery: number;
   /** Share of the training pairs set aside to choose which step's weights to keep (early stopping). */
   stopShare: number;
+  /** One encoder for both views (W = V), for two views of the same kind, such as a frame and its neighbour. */
+  tied: boolean;
   seed: number;
 }
 
-export const DEFAULT_CRITIC: Readonly<Omit<CriticOptions, 'temperature' | 'seed'>> = Object.freeze({
+/** The settings every critic shares; temperature, seed and tying are the view pair's. */
+export const DEFAULT_CRITIC: Readonly<Omit<CriticOptions, 'temperature' | 'seed' | 'tied'>> = Object.freeze({
   embedDims: 32,
   steps: 800,
   batch: 64,
@@ -92,6 +95,8 @@ export interface CriticTraining {
 const ADAM_BETA1 = 0.9;
 const ADAM_BETA2 = 0.999;
 const ADAM_EPSILON = 1e-8;
+/** Smallest fall of the stopping loss (nats) that counts as better. */
+const STOP_IMPROVEMENT = 1e-6;
 
 /**
  * Trains a critic on pairs (a[i], b[i]); every descriptor of both views has the same length. `groups[i]` names
@@ -144,13 +149,21 @@ export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array
     const members = draw();
     stretch += work.lossAndGradient(critic, members.map((i) => fitA[i]!), members.map((i) => fitB[i]!), gradA,
       gradB);
-    adamA.step(critic.wa, gradA, options.learningRate, options.weightDecay);
-    adamB.step(critic.wb, gradB, options.learningRate, options.weightDecay);
+    if (options.tied) {
+      // One matrix used on both sides: its gradient is the sum of the two sides' gradients.
+      for (let i = 0; i < gradA.length; i += 1) gradA[i] += gradB[i]!;
+      adamA.step(critic.wa, gradA, options.learningRate, options.weightDecay);
+      critic.wb.set(critic.wa);
+    } else {
+      adamA.step(critic.wa, gradA, options.learningRate, options.weightDecay);
+      adamB.step(critic.wb, gradB, options.learningRate, options.weightDecay);
+    }
     if (step % options.curveEvery === 0 || step === options.steps) {
       const since = step % options.curveEvery === 0 ? options.curveEvery : step % options.curveEvery;
       const point = { step, loss: stretch / since, stopLoss: stopLoss() };
       curve.push(point);
-      if (point.stopLoss < best.stopLoss) {
+      // A real improvement only: float noise on a flat stopping loss must not move the kept step.
+      if (point.stopLoss < best.stopLoss - STOP_IMPROVEMENT) {
         best = { step, stopLoss: point.stopLoss, wa: critic.wa.slice(), wb: critic.wb.slice() };
       }
       stretch = 0;

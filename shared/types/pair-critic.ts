@@ -29,6 +29,8 @@ export interface CriticTrainingSummary {
 /** The trained-critic report of one view pair. */
 export interface PairKindCritic {
   kind: PairKind;
+  /** One encoder for both views (two pictures of the same kind, such as a frame and its neighbour). */
+  tied: boolean;
   trainPairs: number;
   trainClips: number;
   heldOutPairs: number;
@@ -44,7 +46,8 @@ export interface PairKindCritic {
 export interface PairsetCritic {
   description: string;
   descriptor: { cells: number; gradientSize: number; length: number };
-  options: Omit<CriticOptions, 'temperature' | 'seed'>;
+  /** The settings every view pair's critic shares (τ is the report's; tying is per view pair). */
+  options: Omit<CriticOptions, 'temperature' | 'seed' | 'tied'>;
   /** Most pairs drawn from each split per view pair. */
   sampleLimit: number;
   kinds: PairKindCritic[];

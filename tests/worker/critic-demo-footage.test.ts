@@ -29,8 +29,8 @@ const embedded = (data: ViewData): EmbeddedView => {
 };
 
 function inputs(clips: DemoLikeClip[]): CriticInput[] {
-  const neighbour: CriticInput = { kind: 'frame~neighbour+1', train: [], heldOut: [] };
-  const motion: CriticInput = { kind: 'frame~motion', train: [], heldOut: [] };
+  const neighbour: CriticInput = { kind: 'frame~neighbour+1', tied: true, train: [], heldOut: [] };
+  const motion: CriticInput = { kind: 'frame~motion', tied: false, train: [], heldOut: [] };
   for (const clip of clips) {
     const clipId = DEMO_CLIPS.indexOf(clip.recipe) + 1;
     const split = splitOfClip(clipId, DEMO_PAIRSET.split) === 'val' ? 'heldOut' : 'train';

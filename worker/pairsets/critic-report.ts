@@ -33,6 +33,8 @@ export interface EmbeddedPair {
 
 export interface CriticInput {
   kind: PairKind;
+  /** Both views are pictures of the same kind (frame and neighbour): one encoder serves both. */
+  tied: boolean;
   train: EmbeddedPair[];
   heldOut: EmbeddedPair[];
 }
@@ -56,7 +58,10 @@ Promise<PairsetCritic> {
     train: descriptorPairs(input.train),
     heldOut: descriptorPairs(input.heldOut),
     ks: options.ks,
-    options: { ...DEFAULT_CRITIC, temperature: options.temperature, seed: fmix32(options.seed ^ fnv1a32(input.kind)) },
+    options: {
+      ...DEFAULT_CRITIC, tied: input.tied, temperature: options.temperature,
+      seed: fmix32(options.seed ^ fnv1a32(input.kind)),
+    },
     measureSeed: options.seed,
   }, options.signal)));
   const kinds = inputs.map((input, n): PairKindCritic => {
@@ -73,7 +78,7 @@ Promise<PairsetCritic> {
       heldOutPairs: input.heldOut.length, heldOutClips: new Set(input.heldOut.map((pair) => pair.clipId)).size,
     };
     return {
-      kind: input.kind, ...counts, training: outcome.training, results,
+      kind: input.kind, tied: input.tied, ...counts, training: outcome.training, results,
       ...readCritic({ results, trained: outcome.training !== null, smallestK: Math.min(...options.ks), ...counts }),
     };
   });

@@ -59,8 +59,7 @@ export async function difficultyReport(planned: readonly PlannedPair[], pairs: r
   let doneViews = 0;
   // Reading a view dominates the report; the views are read at most once and give both representations.
   const embedView = async (item: PlannedPair, view: ViewName): Promise<EmbeddedView> => {
-    const key = `${item.clipId}:${view === 'motion' ? 'motion' : view === 'luma' || view === 'chroma' ? view : 'frame'}`
-      + `:${viewFrame(view, item.moment)}`;
+    const key = `${item.clipId}:${planeKind(view)}:${viewFrame(view, item.moment)}`;
     let embedded = cache.get(key);
     if (!embedded) {
       const data = await readView(viewSourceFile(options.paths, item.clipId, item.moment, view), view);
@@ -93,8 +92,10 @@ export async function difficultyReport(planned: readonly PlannedPair[], pairs: r
     })).filter((result) => result !== null);
     kinds.push({ kind: pair.kind, sampled: embedded.length, results });
     criticInputs.push({
-      kind: pair.kind, train: await embedPairs(trainSamples[k]!, pair), heldOut: await embedPairs(heldOutSamples[k]!,
-        pair),
+      kind: pair.kind,
+      tied: planeKind(pair.a) === planeKind(pair.b),
+      train: await embedPairs(trainSamples[k]!, pair),
+      heldOut: await embedPairs(heldOutSamples[k]!, pair),
     });
   }
   const critic = await criticReport(criticInputs, {
@@ -109,6 +110,11 @@ export async function difficultyReport(planned: readonly PlannedPair[], pairs: r
     kinds,
     critic,
   };
+}
+
+/** Which stored picture a view reads: a neighbour is another frame of the same kind as the frame. */
+function planeKind(view: ViewName): 'frame' | 'luma' | 'chroma' | 'motion' {
+  return view === 'motion' || view === 'luma' || view === 'chroma' ? view : 'frame';
 }
 
 /** Up to `limit` pairs, drawn with the seed. */

@@ -36,7 +36,7 @@ function correlatedGaussians(count: number, d: number, rho: number, seed: number
 const trueMi = (d: number, rho: number) => -(d / 2) * Math.log(1 - rho * rho);
 const KS = [16, 64, 256];
 const TEMPERATURE = 0.07;
-const options = (seed: number): CriticOptions => ({ ...DEFAULT_CRITIC, temperature: TEMPERATURE, seed });
+const options = (seed: number): CriticOptions => ({ ...DEFAULT_CRITIC, tied: false, temperature: TEMPERATURE, seed });
 
 const trained = new Map<string, CriticBound[]>();
 
@@ -96,6 +96,14 @@ describe('trained critic on correlated Gaussians (known mutual information)', ()
       sample.b, 16, 2));
     const other = trainCritic(sample.a, sample.b, groups, options(4));
     expect(other.critic.wa).not.toEqual(first.critic.wa);
+  });
+
+  it('trains one matrix for both views when tied', () => {
+    const sample = correlatedGaussians(200, 6, 0.6, 22);
+    const tied = trainCritic(sample.a, sample.b, sample.a.map((_, i) => i % 4), { ...options(5), tied: true });
+    expect(tied.critic.wb).toEqual(tied.critic.wa);
+    const free = trainCritic(sample.a, sample.b, sample.a.map((_, i) => i % 4), options(5));
+    expect(free.critic.wb).not.toEqual(free.critic.wa);
   });
 
   it('refuses too few pairs and mismatched inputs with a clear message', () => {

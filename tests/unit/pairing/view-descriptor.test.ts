@@ -26,7 +26,8 @@ describe('view descriptor', () => {
 
   it('puts texture energy where the texture is', () => {
     // Left half textured, right half flat: the texture map is high in the left columns, low in the right ones.
-    const d = viewDescriptor(plane(64, 64, (x, y) => (x < 32 ? ((Math.floor(x / 2) + Math.floor(y / 2)) % 2) * 100 : 50)), 64, 64);
+    const checks = (x: number, y: number) => ((Math.floor(x / 2) + Math.floor(y / 2)) % 2) * 100;
+    const d = viewDescriptor(plane(64, 64, (x, y) => (x < 32 ? checks(x, y) : 50)), 64, 64);
     const texture = d.subarray(64);
     expect(texture[8 * 3 + 1]!).toBeGreaterThan(texture[8 * 3 + 6]!);
   });
