@@ -1,6 +1,6 @@
 import sharp, { type OverlayOptions } from 'sharp';
 import { renderTexture } from '../../server/demo/footage';
-import { DEMO_CLIPS, DEMO_PAIRSET, DEMO_VERDICTS, type DemoClipRecipe } from '../../server/demo/scenario';
+import { DEMO_CLIPS, DEMO_VERDICTS, type DemoClipRecipe } from '../../server/demo/scenario';
 import { PROJECT_DEFAULTS } from '../../server/services/projects';
 import { rgbToGrey } from '../../shared/colour/grey';
 import {
@@ -83,5 +83,3 @@ function crate(recipe: DemoClipRecipe, t: number): OverlayOptions | null {
     left: Math.round(clipped), top: top!,
   };
 }
-
-export const DEMO_PAIRSET_SPLIT = DEMO_PAIRSET.split;
