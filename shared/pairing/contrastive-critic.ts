@@ -18,9 +18,11 @@
  * column; ∂L/∂G = (∂L/∂s)H/τ and ∂L/∂H = (∂L/∂s)ᵀG/τ (the usual softmax cross-entropy gradient [M]).
  * Optimiser: Adam (Kingma & Ba, "Adam: A Method for Stochastic Optimization", 2015, Algorithm 1: β1 = 0.9,
  * β2 = 0.999, ε = 1e-8 [M]) with decoupled weight decay (Loshchilov & Hutter, "Decoupled Weight Decay
- * Regularization", 2019 [M]), for a fixed number of steps. A quarter of the training pairs is set aside as stopping
- * pairs: every `curveEvery` steps the loss on them is measured and the weights of the best step are kept (early
- * stopping, common practice), so a critic that starts to learn its few training pairs by heart is not reported.
+ * Regularization", 2019 [M]), for a fixed number of steps. About a quarter of the training pairs, whole clips
+ * where there are several, is set aside as stopping pairs: every `curveEvery` steps the loss on them is measured
+ * and the weights of the best step are kept (early stopping, common practice), so a critic that starts to learn
+ * its few training clips by heart is not reported. For two views of the same kind (a frame and its neighbour) the
+ * two encoders can be tied into one, which halves what a small sample must fit.
  *
  * Determinism: one training runs on one thread, in Float64, with every sum taken in index order and batches drawn
  * by a seeded shuffle, so the same inputs and options give the same critic bit for bit, whatever the thread count.
@@ -95,6 +97,8 @@ export interface CriticTraining {
 const ADAM_BETA1 = 0.9;
 const ADAM_BETA2 = 0.999;
 const ADAM_EPSILON = 1e-8;
+/** Fewest pairs to train on: two to fit and two to stop on. */
+export const MIN_PAIRS = 4;
 /** Smallest fall of the stopping loss (nats) that counts as better. */
 const STOP_IMPROVEMENT = 1e-6;
 
@@ -106,6 +110,9 @@ const STOP_IMPROVEMENT = 1e-6;
 export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array[], groups: readonly number[],
   options: CriticOptions): CriticTraining {
   if (a.length !== b.length || groups.length !== a.length) throw new RangeError('each pair needs both views');
+  if (a.length < MIN_PAIRS) {
+    throw new RangeError(`a critic needs at least ${MIN_PAIRS} pairs to train, got ${a.length}`);
+  }
   const inputDims = a[0]!.length;
   if ([...a, ...b].some((x) => x.length !== inputDims)) throw new RangeError('descriptors differ in length');
   if (!(options.temperature > 0)) throw new RangeError(`temperature must be positive, got ${options.temperature}`);
@@ -184,7 +191,6 @@ export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array
 function stoppingSplit(groups: readonly number[], share: number, random: RandomSource):
 { fit: number[]; stop: number[] } {
   const count = groups.length;
-  if (count < 4) throw new RangeError(`a critic needs at least 4 pairs to train, got ${count}`);
   const wanted = Math.min(count - 2, Math.max(2, Math.round(count * share)));
   const members = new Map<number, number[]>();
   groups.forEach((group, i) => members.set(group, [...(members.get(group) ?? []), i]));

@@ -4,7 +4,7 @@
  * training sample. One task runs on one thread, so a report with several view pairs uses both cores while each
  * critic stays bit-for-bit the same whatever the number of threads.
  */
-import { trainCritic, type CriticOptions } from '../../shared/pairing/contrastive-critic';
+import { MIN_PAIRS, trainCritic, type CriticOptions } from '../../shared/pairing/contrastive-critic';
 import { criticBound, type CriticBound } from '../../shared/pairing/critic-bound';
 import type { CriticTrainingSummary } from '../../shared/types/pair-critic';
 
@@ -31,11 +31,8 @@ export interface CriticOutcome {
   results: { k: number; heldOut: CriticBound | null; train: CriticBound | null }[];
 }
 
-/** Fewest training pairs a critic is trained on (its stopping split needs two pairs on each side). */
-export const MIN_TRAIN_PAIRS = 4;
-
 export function runCriticTask(task: CriticTask): CriticOutcome {
-  if (task.train.a.length < MIN_TRAIN_PAIRS) {
+  if (task.train.a.length < MIN_PAIRS) {
     return { training: null, results: task.ks.map((k) => ({ k, heldOut: null, train: null })) };
   }
   const trained = trainCritic(task.train.a, task.train.b, task.train.clips, task.options);

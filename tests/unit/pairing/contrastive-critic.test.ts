@@ -110,5 +110,6 @@ describe('trained critic on correlated Gaussians (known mutual information)', ()
     const sample = correlatedGaussians(3, 4, 0.5, 1);
     expect(() => trainCritic(sample.a, sample.b, [0, 1, 2], options(1))).toThrow(/at least 4 pairs/);
     expect(() => trainCritic(sample.a, sample.b.slice(1), [0, 1, 2], options(1))).toThrow(/both views/);
+    expect(() => trainCritic([], [], [], options(1))).toThrow(/at least 4 pairs/);
   });
 });
