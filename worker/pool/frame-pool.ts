@@ -1,5 +1,6 @@
 import os from 'node:os';
 import { Piscina } from 'piscina';
+import type { CriticOutcome, CriticTask } from './critic-tasks';
 import type { FrameMeasurement, FrameViewsTask, MeasureFrameTask } from './frame-tasks';
 import type { MotionPictureTask, MotionRunTask, PairMotion } from './motion-tasks';
 
@@ -15,6 +16,8 @@ export interface FramePool {
   /** Fields of a run of neighbouring frames; the thread keeps its motion buffers from one run to the next. */
   estimateMotionRun(task: Omit<MotionRunTask, 'kind'>, signal?: AbortSignal): Promise<PairMotion[]>;
   writeMotionPicture(task: Omit<MotionPictureTask, 'kind'>, signal?: AbortSignal): Promise<void>;
+  /** Trains one view pair's critic for the pair-difficulty report and measures its bounds. */
+  trainCritic(task: Omit<CriticTask, 'kind'>, signal?: AbortSignal): Promise<CriticOutcome>;
   /** Threads at most, so a stage can split its work into enough pieces to keep each one busy. */
   threads: number;
   destroy(): Promise<void>;
@@ -41,6 +44,7 @@ export function createFramePool(threads = os.availableParallelism()): FramePool 
     writeFrameViews: (task, signal) => pool.run({ kind: 'views', ...task }, { signal }),
     estimateMotionRun: (task, signal) => pool.run({ kind: 'motion-run', ...task }, { signal }),
     writeMotionPicture: (task, signal) => pool.run({ kind: 'motion-picture', ...task }, { signal }),
+    trainCritic: (task, signal) => pool.run({ kind: 'critic', ...task }, { signal }),
     threads: maxThreads,
     destroy: () => pool.destroy(),
   };

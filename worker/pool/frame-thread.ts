@@ -4,12 +4,14 @@
  * thread.
  */
 import sharp from 'sharp';
+import { runCriticTask, type CriticOutcome, type CriticTask } from './critic-tasks';
 import { measureFrame, writeFrameViews, type FrameMeasurement, type FrameTask } from './frame-tasks';
 import { estimateMotionRun, writeMotionPicture, type MotionTask, type PairMotion } from './motion-tasks';
 
 sharp.concurrency(1);
 
-export default function runFrameTask(task: FrameTask | MotionTask): Promise<FrameMeasurement | PairMotion[] | void> {
+export default function runFrameTask(task: FrameTask | MotionTask | CriticTask):
+Promise<FrameMeasurement | PairMotion[] | CriticOutcome | void> {
   switch (task.kind) {
     case 'measure':
       return measureFrame(task);
@@ -19,5 +21,7 @@ export default function runFrameTask(task: FrameTask | MotionTask): Promise<Fram
       return estimateMotionRun(task);
     case 'motion-picture':
       return writeMotionPicture(task);
+    case 'critic':
+      return Promise.resolve(runCriticTask(task));
   }
 }
