@@ -6,6 +6,9 @@ import {
   bulkBodySchema, noQuerySchema, rejectReasonsBodySchema, reviewQueueQuerySchema, verdictBodySchema, type BulkBody,
   type RejectReasonsBody, type ReviewQueueQuery, type VerdictBody,
 } from '../../shared/schemas/review';
+import {
+  reviewNextQuerySchema, undoVerdictBodySchema, type ReviewNextQuery, type UndoVerdictBody,
+} from '../../shared/schemas/review-flow';
 import type { ClipDetail } from '../../shared/types/clips';
 import type {
   BulkResponse, ClipClaim, RejectReasonList, ReviewFacets, ReviewQueueItem,
@@ -16,12 +19,15 @@ import { bulkDecide } from '../services/review-bulk';
 import { claimClip, releaseClaim } from '../services/review-claims';
 import { listReviewQueue, reviewFacets } from '../services/review-queue';
 import { listRejectReasons, replaceRejectReasons } from '../services/review-reasons';
+import { clipsAfter } from '../services/review-next';
+import { undoVerdict } from '../services/review-undo';
 import { decideClip } from '../services/review-verdicts';
 
 /** Under /api/review: the queue, its filter lists and bulk decisions. Curators (and admins). */
 export function createReviewRouter(): Router {
   const router = Router();
   router.get('/queue', requireRole('curator'), validate({ query: reviewQueueQuerySchema }), getQueue);
+  router.get('/queue/next', requireRole('curator'), validate({ query: reviewNextQuerySchema }), getNext);
   router.get('/facets', requireRole('curator'), validate({ query: noQuerySchema }), getFacets);
   router.post('/bulk', requireRole('curator'), validate({ body: bulkBodySchema }), postBulk);
   return router;
@@ -35,6 +41,8 @@ export function createClipReviewRouter(): Router {
   router.delete('/:id/claim', requireRole('curator'), byId, deleteClaim);
   router.post('/:id/verdict', requireRole('curator'), validate({ params: idParamSchema, body: verdictBodySchema }),
     postVerdict);
+  router.post('/:id/verdict/undo', requireRole('curator'),
+    validate({ params: idParamSchema, body: undoVerdictBodySchema }), postUndo);
   return router;
 }
 
@@ -48,6 +56,10 @@ export function createReviewSettingsRouter(): Router {
 
 async function getQueue(req: Request, res: Response<ListPage<ReviewQueueItem>>): Promise<void> {
   res.json(await listReviewQueue(req.valid.query as ReviewQueueQuery));
+}
+
+async function getNext(req: Request, res: Response<{ items: ReviewQueueItem[] }>): Promise<void> {
+  res.json({ items: await clipsAfter(req.valid.query as ReviewNextQuery, currentUser(req)) });
 }
 
 async function getFacets(_req: Request, res: Response<ReviewFacets>): Promise<void> {
@@ -70,6 +82,11 @@ async function deleteClaim(req: Request, res: Response): Promise<void> {
 async function postVerdict(req: Request, res: Response<ClipDetail>): Promise<void> {
   const { id } = req.valid.params as IdParam;
   res.json(await decideClip(id, req.valid.body as VerdictBody, currentUser(req)));
+}
+
+async function postUndo(req: Request, res: Response<ClipDetail>): Promise<void> {
+  const { id } = req.valid.params as IdParam;
+  res.json(await undoVerdict(id, req.valid.body as UndoVerdictBody, currentUser(req)));
 }
 
 async function getReasons(_req: Request, res: Response<RejectReasonList>): Promise<void> {
