@@ -3,7 +3,7 @@
  * disagree. Kinefold's own choice of keys: letters named after what they do, arrows for frames.
  */
 export type ReviewAction =
-  | 'accept' | 'reject' | 'next' | 'back' | 'frame-earlier' | 'frame-later' | 'frame-first' | 'frame-last'
+  | 'accept' | 'reject' | 'undo' | 'next' | 'back' | 'frame-earlier' | 'frame-later' | 'frame-first' | 'frame-last'
   | 'overlay' | 'play' | 'comment' | 'queue' | 'help' | 'close';
 
 export interface KeyBinding {
@@ -18,6 +18,7 @@ export interface KeyBinding {
 export const REVIEW_KEYS: readonly KeyBinding[] = [
   { action: 'accept', keys: ['a'], shown: 'A', words: 'Accept this clip, then open the next one' },
   { action: 'reject', keys: ['r'], shown: 'R', words: 'Reject: show the numbered reasons' },
+  { action: 'undo', keys: ['u'], shown: 'U', words: 'Undo the verdict just given, while the screen offers it' },
   { action: 'next', keys: ['n'], shown: 'N', words: 'Next clip in the queue, leaving this one undecided' },
   { action: 'back', keys: ['b'], shown: 'B', words: 'Back to the clip opened before' },
   { action: 'frame-earlier', keys: ['ArrowLeft'], shown: '←', words: 'One frame earlier' },
