@@ -131,18 +131,43 @@ describe('flow through the queue', () => {
 });
 
 describe('the queue at 1440 × 900', () => {
-  it('needs no sideways scrolling', async () => {
+  /** [scroll width, client width] of the page and of the table's scroller. */
+  const widths = () => page.evaluate(() => {
+    const table = document.querySelector('[data-test="queue-table"] .p-datatable-table-container');
+    return [document.documentElement.scrollWidth - document.documentElement.clientWidth,
+      (table?.scrollWidth ?? 0) - (table?.clientWidth ?? 0)];
+  });
+
+  it('needs no sideways scrolling, with rows of one line at either density', async () => {
+    for (const [layout, tallest] of [['', 56], ['compact', 36]] as const) {
+      await page.goto(`${server.baseUrl}/review${layout ? `?layout=${layout}` : ''}`);
+      await page.waitForSelector(`[data-test="queue-open-${processedId}"]`);
+      expect(await widths()).toEqual([0, 0]);
+      const heights = await page.locator('[data-test="queue-table"] tbody tr').evaluateAll(
+        (rows) => rows.map((row) => row.getBoundingClientRect().height));
+      expect(heights.length).toBe(11);
+      expect(Math.max(...heights), layout).toBeLessThanOrEqual(tallest);
+      await screenshot(page, `review-queue-${layout || 'rows'}`);
+    }
+  });
+
+  it('pins the selection bar in view when a row near the bottom is picked', async () => {
     await page.goto(`${server.baseUrl}/review`);
     await page.waitForSelector(`[data-test="queue-open-${processedId}"]`);
-    const widths = await page.evaluate(() => {
-      const table = document.querySelector('[data-test="queue-table"] .p-datatable-table-container');
-      return {
-        page: [document.documentElement.scrollWidth, document.documentElement.clientWidth],
-        table: [table?.scrollWidth ?? 0, table?.clientWidth ?? 0],
-      };
-    });
-    expect(widths.page[0]).toBeLessThanOrEqual(widths.page[1]!);
-    expect(widths.table[0]).toBeLessThanOrEqual(widths.table[1]!);
-    await screenshot(page, 'review-queue-dense');
+    await page.locator('[data-test="queue-table"] tbody tr').last().locator('.p-checkbox').click();
+    await expectInView('[data-test="bulk-bar"]');
+  });
+
+  it('shows the queue as pictures that run through the clip under the pointer', async () => {
+    await page.goto(`${server.baseUrl}/review?layout=grid`);
+    const picture = page.locator(`[data-test="grid-picture-${processedId}"]`);
+    await picture.waitFor();
+    expect(await widths()).toEqual([0, 0]);
+    expect(await picture.getAttribute('src')).toBe(`/api/clips/${processedId}/thumbnail`);
+    const box = (await page.locator(`[data-test="grid-open-${processedId}"]`).boundingBox())!;
+    // 15 frames across the picture: a pointer 70 % of the way across shows frame ⌊0.7 × 15⌋ = 10.
+    await page.mouse.move(box.x + box.width * 0.7, box.y + box.height / 2);
+    await expect.poll(() => picture.getAttribute('src')).toBe(`/api/clips/${processedId}/frames/10`);
+    await screenshot(page, 'review-queue-grid');
   });
 });
