@@ -7,14 +7,17 @@ import {
   type RejectReasonsBody, type ReviewQueueQuery, type VerdictBody,
 } from '../../shared/schemas/review';
 import {
-  reviewNextQuerySchema, undoVerdictBodySchema, type ReviewNextQuery, type UndoVerdictBody,
+  compareParamSchema, reviewNextQuerySchema, undoVerdictBodySchema, type CompareParam, type ReviewNextQuery,
+  type UndoVerdictBody,
 } from '../../shared/schemas/review-flow';
+import type { DuplicateComparison } from '../../shared/types/duplicate-comparison';
 import type { ClipDetail } from '../../shared/types/clips';
 import type {
   BulkResponse, ClipClaim, RejectReasonList, ReviewFacets, ReviewQueueItem,
 } from '../../shared/types/review';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { validate } from '../middlewares/validate';
+import { compareClips } from '../services/clip-compare';
 import { bulkDecide } from '../services/review-bulk';
 import { claimClip, releaseClaim } from '../services/review-claims';
 import { listReviewQueue, reviewFacets } from '../services/review-queue';
@@ -33,7 +36,7 @@ export function createReviewRouter(): Router {
   return router;
 }
 
-/** Under /api/clips: claiming a clip for review and deciding it. */
+/** Under /api/clips: claiming a clip for review, deciding it, undoing that, and comparing it with a near-duplicate. */
 export function createClipReviewRouter(): Router {
   const router = Router();
   const byId = validate({ params: idParamSchema });
@@ -43,6 +46,7 @@ export function createClipReviewRouter(): Router {
     postVerdict);
   router.post('/:id/verdict/undo', requireRole('curator'),
     validate({ params: idParamSchema, body: undoVerdictBodySchema }), postUndo);
+  router.get('/:id/compare/:otherId', requireRole('curator'), validate({ params: compareParamSchema }), getCompare);
   return router;
 }
 
@@ -87,6 +91,11 @@ async function postVerdict(req: Request, res: Response<ClipDetail>): Promise<voi
 async function postUndo(req: Request, res: Response<ClipDetail>): Promise<void> {
   const { id } = req.valid.params as IdParam;
   res.json(await undoVerdict(id, req.valid.body as UndoVerdictBody, currentUser(req)));
+}
+
+async function getCompare(req: Request, res: Response<DuplicateComparison>): Promise<void> {
+  const { id, otherId } = req.valid.params as CompareParam;
+  res.json(await compareClips(id, otherId));
 }
 
 async function getReasons(_req: Request, res: Response<RejectReasonList>): Promise<void> {

@@ -21,3 +21,10 @@ export const undoVerdictBodySchema = z.strictObject({
   verdictId: z.number({ message: 'verdictId must be a verdict id' }).int().positive('verdictId must be a verdict id'),
 });
 export type UndoVerdictBody = z.infer<typeof undoVerdictBodySchema>;
+
+/** `/:id/compare/:otherId`: the clip under review and the one its frames match. */
+export const compareParamSchema = z.strictObject({
+  id: z.coerce.number().int().positive('id must be a positive number'),
+  otherId: z.coerce.number().int().positive('otherId must be a positive number'),
+});
+export type CompareParam = z.infer<typeof compareParamSchema>;

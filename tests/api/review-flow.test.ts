@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Project, Verdict, type User } from '../../server/models';
+import { AuditEvent, Clip, Frame, Project, Verdict, type User } from '../../server/models';
 import { UNDO_SECONDS } from '../../shared/review/rules';
 import { castForReview } from '../helpers/review-cast';
 import { insertReviewClip } from '../helpers/review-clips';
@@ -144,5 +144,40 @@ describe('POST /api/clips/:id/verdict/undo', () => {
     const { id, verdictId } = await decided(curator);
     await undo(admin, id, { verdictId }).expect(200);
     expect((await Clip.findByPk(id))!.state).toBe('awaiting_review');
+  });
+});
+
+describe('GET /api/clips/:id/compare/:otherId', () => {
+  const compare = (as: SignedIn, id: number | string, otherId: number | string) =>
+    as.agent.get(`/api/clips/${id}/compare/${otherId}`);
+  /** Frames with the given hashes (16 hex digits each). */
+  const withFrames = async (hashes: string[]) => {
+    const clip = await insertReviewClip({ projectId, uploaderId: uploader.id });
+    await Frame.bulkCreate(hashes.map((dhash, index) => ({ clipId: clip.id, index, timeS: index / 5, dhash })));
+    return clip.id;
+  };
+
+  it('is for curators and validates the ids', async () => {
+    const id = await withFrames(['0000000000000000']);
+    await (await agentWithCsrf(server)).agent.get(`/api/clips/${id}/compare/${id}`).expect(401);
+    await compare(operator, id, id).expect(403);
+    const same = await compare(curator, id, id).expect(400);
+    expect(same.body.error.message).toMatch(/itself/);
+    await compare(curator, id, 'x').expect(400);
+    await compare(curator, id, 999_999).expect(404);
+  });
+
+  it("puts both clips' frames in step with the hash distance of each pair", async () => {
+    const frames = ['00000000000000ff', '000000000000ff00', '0000000000ff0000', '00000000ff000000'];
+    const original = await withFrames(frames);
+    // The copy starts one frame later and its second frame in step differs in one bit (0xff00 → 0xfe00).
+    const copy = await withFrames(['ffffffffffffffff', frames[0]!, '000000000000fe00', frames[2]!, frames[3]!]);
+    const { body } = await compare(curator, original, copy).expect(200);
+    expect(body).toMatchObject({
+      shift: 1, maxDistance: 5,
+      clip: { id: original, frameCount: 4, state: 'awaiting_review' }, other: { id: copy, frameCount: 5 },
+    });
+    expect(body.steps.map((step: { otherIndex: number; distance: number }) => [step.otherIndex, step.distance]))
+      .toEqual([[1, 0], [2, 1], [3, 0], [4, 0]]);
   });
 });
