@@ -3,6 +3,7 @@ import type { RejectReason } from '../../shared/review/reject-reasons';
 import type { BulkBodyInput, ReviewQueueQuery, VerdictBody } from '../../shared/schemas/review';
 import type { ReviewNextQuery } from '../../shared/schemas/review-flow';
 import type { ClipDetail } from '../../shared/types/clips';
+import type { DuplicateComparison } from '../../shared/types/duplicate-comparison';
 import type {
   BulkResponse, ClipClaim, RejectReasonList, ReviewFacets, ReviewQueueItem,
 } from '../../shared/types/review';
@@ -22,6 +23,8 @@ export const decideClip = (clipId: number, body: VerdictBody) =>
   http.post<ClipDetail>(`/clips/${clipId}/verdict`, body);
 export const undoVerdict = (clipId: number, verdictId: number) =>
   http.post<ClipDetail>(`/clips/${clipId}/verdict/undo`, { verdictId });
+export const compareClips = (clipId: number, otherId: number) =>
+  http.get<DuplicateComparison>(`/clips/${clipId}/compare/${otherId}`);
 export const bulkDecide = (body: BulkBodyInput) => http.post<BulkResponse>('/review/bulk', body);
 export const getRejectReasons = () => http.get<RejectReasonList>('/settings/reject-reasons');
 export const putRejectReasons = (reasons: RejectReason[]) =>

@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Project, User } from '../../server/models';
+import { AuditEvent, Clip, Project, User, Verdict } from '../../server/models';
 import { DEMO_ACCOUNTS } from '../../server/services/demo-accounts';
 import { launchBrowser, screenshot, signInThroughForm } from '../helpers/browser';
 import { makeTestClip } from '../helpers/media-fixtures';
@@ -19,6 +19,8 @@ let browser: Browser;
 let runtime: TestRuntime;
 let page: Page;
 let processedId: number;
+/** The same footage uploaded again (one byte more), flagged as a duplicate of the processed clip. */
+let copyId: number;
 let sortedProjectId: number;
 /** The blurry clips of the sorted project, sharpest first: the queue's order under the test's filter and sort. */
 let blurrySharpestFirst: number[];
@@ -38,6 +40,13 @@ beforeAll(async () => {
   processedId = (await insertClip(server, file, orchard.id, operator.id)).clip.id;
   expect(await runtime.drain()).toBe(1);
   expect((await Clip.findByPk(processedId))!.state).toBe('awaiting_review');
+  const copy = path.join(media, 'terrace-row-4-again.mp4');
+  fs.copyFileSync(file, copy);
+  fs.appendFileSync(copy, Buffer.from([0]));
+  copyId = (await insertClip(server, copy, orchard.id, operator.id)).clip.id;
+  expect(await runtime.drain()).toBe(1);
+  const flagged = (await Clip.findByPk(copyId))!;
+  expect(flagged.flagDetails.find((flag) => flag.flag === 'duplicate')?.matchClipId).toBe(processedId);
 
   const sorted = await Project.create({ name: 'Creek-side block', deltas: [1], ...settings });
   const row = { projectId: sorted.id, uploaderId: operator.id, site: 'Creek bend' };
@@ -145,7 +154,7 @@ describe('the queue at 1440 × 900', () => {
       expect(await widths()).toEqual([0, 0]);
       const heights = await page.locator('[data-test="queue-table"] tbody tr').evaluateAll(
         (rows) => rows.map((row) => row.getBoundingClientRect().height));
-      expect(heights.length).toBe(11);
+      expect(heights.length).toBe(12);
       expect(Math.max(...heights), layout).toBeLessThanOrEqual(tallest);
       await screenshot(page, `review-queue-${layout || 'rows'}`);
     }
@@ -169,5 +178,36 @@ describe('the queue at 1440 × 900', () => {
     await page.mouse.move(box.x + box.width * 0.7, box.y + box.height / 2);
     await expect.poll(() => picture.getAttribute('src')).toBe(`/api/clips/${processedId}/frames/10`);
     await screenshot(page, 'review-queue-grid');
+  });
+});
+
+describe('a duplicate side by side', () => {
+  it('shows both clips in step with their hash distance and rejects as a duplicate in one action', async () => {
+    await page.goto(`${server.baseUrl}/review/${copyId}`);
+    await shownClip(copyId);
+    await page.waitForSelector('[data-test="claim-mine"]');
+    await page.keyboard.press('d');
+    await page.waitForSelector('[data-test="compare-summary"]');
+    // The copy is the same footage: every one of its 15 frames has a partner within the threshold.
+    expect(await page.textContent('[data-test="compare-summary"]')).toContain('15 of 15 frames lie within 5');
+    for (const side of ['compare-this', 'compare-other']) {
+      const loaded = await page.locator(`[data-test="${side}"] img`).evaluate(
+        (image: HTMLImageElement) => image.complete && image.naturalWidth > 0);
+      expect(loaded, side).toBe(true);
+    }
+    expect(await page.getAttribute('[data-test="compare-other"] img', 'src'))
+      .toBe(`/api/clips/${processedId}/frames/0`);
+    await page.keyboard.press('ArrowRight');
+    await expect.poll(() => page.getAttribute('[data-test="compare-other"] img', 'src'))
+      .toBe(`/api/clips/${processedId}/frames/1`);
+    expect(await page.textContent('[data-test="compare-distance"]')).toContain('near-identical');
+    await screenshot(page, 'review-duplicate-compare');
+    await page.click('[data-test="reject-duplicate"]');
+    await page.waitForURL((url) => !url.pathname.endsWith(`/review/${copyId}`));
+    const rejected = (await Clip.findByPk(copyId))!;
+    expect(rejected.state).toBe('rejected');
+    const verdict = await Verdict.findOne({ where: { clipId: copyId, supersededAt: null } });
+    expect([verdict!.reason, verdict!.comment])
+      .toEqual(['duplicate', `Duplicate of clip ${processedId} (terrace-row-4.mp4).`]);
   });
 });

@@ -4,7 +4,7 @@
  */
 export type ReviewAction =
   | 'accept' | 'reject' | 'undo' | 'next' | 'back' | 'frame-earlier' | 'frame-later' | 'frame-first' | 'frame-last'
-  | 'overlay' | 'play' | 'comment' | 'queue' | 'help' | 'close';
+  | 'overlay' | 'compare' | 'play' | 'comment' | 'queue' | 'help' | 'close';
 
 export interface KeyBinding {
   action: ReviewAction;
@@ -26,11 +26,12 @@ export const REVIEW_KEYS: readonly KeyBinding[] = [
   { action: 'frame-first', keys: ['Home'], shown: 'Home', words: 'First frame' },
   { action: 'frame-last', keys: ['End'], shown: 'End', words: 'Last frame' },
   { action: 'overlay', keys: ['m'], shown: 'M', words: 'Motion picture over the frame: on or off' },
+  { action: 'compare', keys: ['d'], shown: 'D', words: 'A flagged duplicate beside the clip it matches: show or hide' },
   { action: 'play', keys: ['v'], shown: 'V', words: 'Play or pause the preview video' },
   { action: 'comment', keys: ['c'], shown: 'C', words: 'Write a comment; Enter brings the keys back' },
   { action: 'queue', keys: ['q'], shown: 'Q', words: 'Back to the queue' },
   { action: 'help', keys: ['?'], shown: '?', words: 'Show or hide this list' },
-  { action: 'close', keys: ['Escape'], shown: 'Esc', words: 'Close the reasons or this list' },
+  { action: 'close', keys: ['Escape'], shown: 'Esc', words: 'Close the reasons, the comparison or this list' },
 ];
 
 /** With the reasons shown, 1–9 and 0 pick the first ten reasons and reject at once. */
