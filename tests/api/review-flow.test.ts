@@ -116,7 +116,9 @@ describe('POST /api/clips/:id/verdict/undo', () => {
     expect(body).toMatchObject({ state: 'awaiting_review', verdict: null, claim: { holderId: curatorUser.id } });
     expect(body.verdicts).toHaveLength(1);
     expect(body.verdicts[0].supersededAt).not.toBeNull();
-    const events = await AuditEvent.findAll({ where: { targetType: 'clip', targetId: String(id) }, order: [['id', 'ASC']] });
+    const events = await AuditEvent.findAll({
+      where: { targetType: 'clip', targetId: String(id) }, order: [['id', 'ASC']],
+    });
     const actions = events.map((event) => event.action);
     expect(actions).toEqual(['clip.verdict', 'clip.verdict_undo']);
     // Back in the queue and decidable again at once.
