@@ -8,6 +8,7 @@ import * as motion from './migrations/0005-motion';
 import * as review from './migrations/0006-review';
 import * as pairsets from './migrations/0007-pairsets';
 import * as admin from './migrations/0008-admin';
+import * as motionScale from './migrations/0010-motion-scale';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -24,6 +25,7 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0006-review', review],
   ['0007-pairsets', pairsets],
   ['0008-admin', admin],
+  ['0010-motion-scale', motionScale],
 ];
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */
