@@ -7,7 +7,12 @@ import {
   bulkBodySchema, noQuerySchema, rejectReasonsBodySchema, reviewQueueQuerySchema, verdictBodySchema, type BulkBody,
   type RejectReasonsBody, type ReviewQueueQuery, type VerdictBody,
 } from '../../shared/schemas/review';
+import {
+  compareParamSchema, reviewNextQuerySchema, undoVerdictBodySchema, type CompareParam, type ReviewNextQuery,
+  type UndoVerdictBody,
+} from '../../shared/schemas/review-flow';
 import type { ClipDetail } from '../../shared/types/clips';
+import type { DuplicateComparison } from '../../shared/types/duplicate-comparison';
 import type {
   BulkResponse, ClipClaim, RejectReasonList, ReviewFacets, ReviewQueueItem,
 } from '../../shared/types/review';
@@ -18,6 +23,9 @@ import { claimClip, releaseClaim } from '../core/review/review-claims';
 import { listReviewQueue, reviewFacets } from '../core/review/review-queue';
 import { listRejectReasons, replaceRejectReasons } from '../core/review/review-reasons';
 import { decideClip } from '../core/review/review-verdicts';
+import { compareClips } from '../core/clips/clip-compare';
+import { clipsAfter } from '../core/review/review-next';
+import { undoVerdict } from '../core/review/review-undo';
 
 /** The shared schemas name no type for an empty query; this one follows the schema. */
 type NoQuery = z.output<typeof noQuerySchema>;
@@ -26,12 +34,13 @@ type NoQuery = z.output<typeof noQuerySchema>;
 export function createReviewRouter(): Router {
   const router = Router();
   router.get('/queue', requireRole('curator'), validated({ query: reviewQueueQuerySchema }, getQueue));
+  router.get('/queue/next', requireRole('curator'), validated({ query: reviewNextQuerySchema }, getNext));
   router.get('/facets', requireRole('curator'), validated({ query: noQuerySchema }, getFacets));
   router.post('/bulk', requireRole('curator'), validated({ body: bulkBodySchema }, postBulk));
   return router;
 }
 
-/** Under /api/clips: claiming a clip for review and deciding it. */
+/** Under /api/clips: claiming a clip for review, deciding it, undoing that, and comparing it with a near-duplicate. */
 export function createClipReviewRouter(): Router {
   const router = Router();
   const byId = { params: idParamSchema };
@@ -42,6 +51,12 @@ export function createClipReviewRouter(): Router {
     requireRole('curator'),
     validated({ params: idParamSchema, body: verdictBodySchema }, postVerdict),
   );
+  router.post(
+    '/:id/verdict/undo',
+    requireRole('curator'),
+    validated({ params: idParamSchema, body: undoVerdictBodySchema }, postUndo),
+  );
+  router.get('/:id/compare/:otherId', requireRole('curator'), validated({ params: compareParamSchema }, getCompare));
   return router;
 }
 
@@ -59,6 +74,14 @@ async function getQueue(
   res: Response<ListPage<ReviewQueueItem>>,
 ): Promise<void> {
   res.json(await listReviewQueue(query));
+}
+
+async function getNext(
+  { query }: { query: ReviewNextQuery },
+  req: Request,
+  res: Response<{ items: ReviewQueueItem[] }>,
+): Promise<void> {
+  res.json({ items: await clipsAfter(query, currentUser(req)) });
 }
 
 async function getFacets(_input: { query: NoQuery }, _req: Request, res: Response<ReviewFacets>): Promise<void> {
@@ -84,6 +107,18 @@ async function postVerdict(
   res: Response<ClipDetail>,
 ): Promise<void> {
   res.json(await decideClip(params.id, body, currentUser(req)));
+}
+
+async function postUndo(
+  { params, body }: { params: IdParam; body: UndoVerdictBody },
+  req: Request,
+  res: Response<ClipDetail>,
+): Promise<void> {
+  res.json(await undoVerdict(params.id, body, currentUser(req)));
+}
+
+async function getCompare({ params }: { params: CompareParam }, _req: Request, res: Response<DuplicateComparison>) {
+  res.json(await compareClips(params.id, params.otherId));
 }
 
 async function getReasons(_input: { query: NoQuery }, _req: Request, res: Response<RejectReasonList>): Promise<void> {

@@ -20,3 +20,10 @@ export const MAX_BULK_CLIPS = 1000;
 
 export const VERDICT_DECISIONS = ['accept', 'reject'] as const;
 export type VerdictDecision = (typeof VERDICT_DECISIONS)[number];
+
+/**
+ * A verdict can be undone (the clip goes back to the queue) for this long after it was given, by whoever gave it;
+ * the review screen offers it for UNDO_OFFER_SECONDS, and the rest is slack for a slow network.
+ */
+export const UNDO_SECONDS = 30;
+export const UNDO_OFFER_SECONDS = 8;

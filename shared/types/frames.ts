@@ -1,4 +1,5 @@
 import type { ClipState } from '../clip-states';
+import type { MotionScale } from '../motion/motion-scale';
 import type { ClipStage } from '../pipeline-stages';
 
 /**
@@ -27,8 +28,8 @@ export interface ClipFrame {
 export interface ClipFrameList {
   items: ClipFrame[];
   total: number;
-  /** Motion (px per frame step) at full colour in this clip's motion pictures (motion-scale.ts); null: no fields. */
-  motionScale: number | null;
+  /** Motion at full colour in this clip's pictures and what it was taken from (motion-scale.ts); null: no fields. */
+  motionScale: MotionScale | null;
 }
 
 /** Where processing of a clip stands: its state, the stage running (or that failed) and that stage's progress. */

@@ -1,6 +1,7 @@
 import type { PairDifficulty } from '../pairing/pair-difficulty';
 import type { PairKind, ViewName } from '../pairing/pairing-graph';
 import type { SplitName } from '../pairing/split';
+import type { PairsetCritic } from './pair-critic';
 import type { PairsetDefinition, PairsetState } from '../schemas/pairsets';
 
 
@@ -73,6 +74,8 @@ export interface PairsetDifficulty {
   sampleLimit: number;
   embedding: { description: string; thumbSize: number; dims: number; seed: number };
   kinds: PairKindDifficulty[];
+  /** A small critic trained per view pair, with held-out bounds; absent from pairsets built before it existed. */
+  critic?: PairsetCritic;
 }
 
 export interface PairsetSummary {

@@ -5,6 +5,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Clip, Frame, MotionField } from '../../server/core/models';
 import { decodeFlo } from '../../worker/motion/formats/flo';
+import { MIN_CONSISTENT_SHARE } from '../../shared/motion/motion-scale';
 import { CROP, cropFilter, makeCutClip, makeTexture, textureFileIn } from '../helpers/motion-clips';
 import { addProject, insertClip } from '../helpers/pipeline-clips';
 import { startTestRuntime } from '../helpers/pipeline-runtime';
@@ -155,11 +156,33 @@ describe('GET /api/clips/:id/frames with motion', () => {
     const withoutField = body.items.filter((item: { motion: unknown }) => item.motion === null)
       .map((item: { index: number }) => item.index);
     expect(withoutField).toEqual([...cutBefore.map((index) => index - 1), processed.frameCount! - 1]);
-    expect(body.motionScale).toBe(Math.max(...forward.map((field) => field.p95Magnitude)));
     // The pan's content moves 2 source px a frame × 5 frames a step × 320/640 = 5 px a step [C]; 0.2 px is the
     // tolerance measured in tests/worker/motion-stage.test.ts.
     const panStep = 2 * 5 * (WORKING.width / CROP.width);
     expect(Math.abs(body.items[1].motion.meanMagnitude - panStep)).toBeLessThan(0.2);
+    // The scale is the pan's speed: the moving test pattern between the cuts gives mostly inconsistent fields
+    // (measured 34–48 % consistent), which are left out; no field crosses a cut (the pipeline made none).
+    const inconsistent = forward.filter((field) => field.consistentShare < MIN_CONSISTENT_SHARE).length;
+    expect(inconsistent).toBeGreaterThan(0);
+    expect(body.motionScale).toMatchObject({ acrossCut: 0, inconsistent, consistentOnly: true });
+    expect(body.motionScale.fieldCount + body.motionScale.outliers).toBe(forward.length - inconsistent);
+    expect(Math.abs(body.motionScale.pxPerStep - panStep)).toBeLessThan(0.2);
+  });
+
+  it('leaves a field across a cut of the frames table out of the scale and says so', async () => {
+    // As when a cut is marked after the fields were estimated: a wild field into the frame after the first cut.
+    const across = await MotionField.create({
+      clipId: processed.id, fromIndex: cutBefore[0]! - 1, toIndex: cutBefore[0]!, direction: 'forward',
+      estimator: 'farneback', params: {}, meanMagnitude: 40, p95Magnitude: 67.3, consistentP95Magnitude: 55,
+      consistentShare: 0.9, medianU: 40, medianV: 0, maxMagnitude: 90,
+    });
+    try {
+      const { body } = await (await agentOf('curator')).get(`/api/clips/${processed.id}/frames`).expect(200);
+      expect(body.motionScale.acrossCut).toBe(1);
+      expect(body.motionScale.pxPerStep).toBeLessThan(10);
+    } finally {
+      await across.destroy();
+    }
   });
 
   it('has no motion and no scale for a clip not processed yet', async () => {

@@ -106,6 +106,17 @@ describe('an engineer and pairsets', () => {
         ['frame~motion', '16'], ['frame~motion', '64'],
       ]);
       for (const row of readings) expect(row[5]).toMatch(/^(trivial|informative|unrelated)/);
+      // The trained critic's report: one panel per view pair, each with its reading and its two charts.
+      const critics = await page.$$eval('[data-test="critic-report"] article', (panels) => panels.map((panel) => ({
+        kind: panel.querySelector('h3')?.textContent?.trim(),
+        message: panel.querySelector('.kf-critic__message')?.textContent ?? '',
+        charts: panel.querySelectorAll('canvas').length,
+      })));
+      expect(critics.map((panel) => panel.kind)).toEqual(['frame~neighbour+2', 'frame~luma', 'frame~motion']);
+      for (const panel of critics) {
+        expect(panel.message).toMatch(/held-out|val split/);
+        expect(panel.charts).toBe(2);
+      }
       const detail = await getPairsetDetail(id);
       expect(await page.textContent('[data-test="pairset-curl"]'))
         .toContain(`/api/pairsets/${id}/shards/${detail.shards.length - 1}"`);

@@ -23,12 +23,14 @@ describe('global motion (median vector)', () => {
 });
 
 describe('field summary', () => {
-  it('gives mean, nearest-rank p95, consistent share, median vector and largest magnitude', () => {
+  it('gives mean, nearest-rank p95 (all and consistent pixels), consistent share, median vector, maximum', () => {
     // Magnitudes 5 (3-4-5 triangle), 0, 10 (6-8-10) and 5: mean 5, p95 = ⌈0.95·4⌉ = 4th smallest = 10, max 10 [C].
+    // The 10 is inconsistent: over 5, 0, 5 the p95 is the ⌈0.95·3⌉ = 3rd smallest, 5 [C].
     const flow = field([[3, 4], [0, 0], [6, 8], [-3, -4]]);
     const summary = summariseField(flow, Uint8Array.from([1, 1, 0, 1]), new Float32Array(4));
     expect(summary).toEqual({
-      meanMagnitude: 5, p95Magnitude: 10, consistentShare: 0.75, medianU: 0, medianV: 0, maxMagnitude: 10,
+      meanMagnitude: 5, p95Magnitude: 10, consistentP95Magnitude: 5, consistentShare: 0.75,
+      medianU: 0, medianV: 0, maxMagnitude: 10,
     });
   });
 });

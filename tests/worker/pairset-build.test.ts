@@ -180,6 +180,10 @@ describe('a built pairset', () => {
       expect(fs.readFileSync(shardPath(rebuilt, index)).equals(fs.readFileSync(shardPath(built, index)))).toBe(true);
     }
     expect(rebuilt.stats).toEqual(built.stats);
+    // The difficulty report, trained critics included, is the same: seeded sampling, training and batch order.
+    const report = async (id: number) => (await Pairset.findByPk(id))!.difficulty!;
+    expect((await report(again.id)).critic).toBeDefined();
+    expect(await report(again.id)).toEqual(await report(built.id));
   });
 
   it('counts statistics per view pair, split, site and project', () => {
@@ -276,6 +280,38 @@ describe('pair difficulty during the build', () => {
         expect(result.bound).toBeCloseTo(result.logK - result.meanLoss, 12);
         expect(result.anchors).toBe(2 * result.batches * result.k);
       }
+    });
+  });
+
+  it('trains a critic per view pair on train pairs and measures it on held-out val pairs', async () => {
+    const critic = (await Pairset.findByPk(built.id))!.difficulty!.critic!;
+    expect(critic.kinds.map((kind) => kind.kind)).toEqual(built.stats!.kinds.map((kind) => kind.kind));
+    expect(critic.sampleLimit).toBe(512);
+    critic.kinds.forEach((kind, k) => {
+      const counts = built.stats!.kinds[k]!;
+      expect(kind.trainPairs).toBe(Math.min(counts.train, 512));
+      expect(kind.heldOutPairs).toBe(Math.min(counts.val, 512));
+      expect(kind.heldOutPairs).toBeGreaterThanOrEqual(16);
+      const training = kind.training!;
+      // The fixed budget: every curveEvery steps one point, whatever the sample size.
+      expect(training.steps).toBe(critic.options.steps);
+      expect(training.curve.map((point) => point.step))
+        .toEqual(Array.from({ length: critic.options.steps / critic.options.curveEvery },
+          (_, i) => (i + 1) * critic.options.curveEvery));
+      expect(training.keptStep).toBeLessThanOrEqual(training.steps);
+      expect(training.fitPairs + training.stopPairs).toBe(kind.trainPairs);
+      expect(kind.results.map((result) => result.k)).toEqual([16, 64, 256]);
+      for (const result of kind.results) {
+        const fills = kind.heldOutPairs >= result.k;
+        expect(result.heldOut !== null).toBe(fills);
+        expect(result.floor !== null).toBe(fills);
+        if (!result.heldOut) continue;
+        // InfoNCE can never exceed log K (van den Oord et al. 2018, Eq. 4 [V2]).
+        expect(result.heldOut.bound).toBeLessThanOrEqual(result.logK);
+        expect(result.heldOut.anchors).toBe(2 * Math.floor(kind.heldOutPairs / result.k) * result.k);
+      }
+      expect(['trivial', 'shared', 'nothing-found']).toContain(kind.reading);
+      expect(kind.message).toMatch(/held-out/);
     });
   });
 });

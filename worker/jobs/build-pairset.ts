@@ -79,7 +79,7 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
     progress: (share) => progress(share * SHARDS_SHARE),
   });
   const difficulty = await difficultyReport(planned, pairs, {
-    paths, temperature: definition.temperature, seed: definition.split.seed,
+    paths, pool: context.pool, signal, temperature: definition.temperature, seed: definition.split.seed,
     progress: (share) => progress(SHARDS_SHARE + share * (1 - SHARDS_SHARE)),
   });
   const statistics = pairsetStatistics(planned, pairs, sources);

@@ -6,11 +6,14 @@ import { pairDifficulty } from '../../shared/pairing/pair-difficulty';
 import type { PlannedPair } from '../../shared/pairing/pair-plan';
 import type { ViewName, ViewPair } from '../../shared/pairing/pairing-graph';
 import { mulberry32, shuffleInPlace } from '../../shared/pairing/seeded-random';
+import { viewDescriptor } from '../../shared/pairing/view-descriptor';
 import { viewPlane, type ViewData } from '../../shared/pairing/view-plane';
 import type { PairsetDifficulty } from '../../shared/types/pairsets';
 import type { StoragePaths } from '../../server/core/storage/paths';
 import { readRgbImage } from '../media/frame-images';
 import { decodeFlo } from '../motion/formats/flo';
+import type { FramePool } from '../pool/frame-pool';
+import { criticReport, CRITIC_SAMPLE, type EmbeddedPair, type EmbeddedView } from './critic-report';
 import { viewFrame, viewSourceFile } from './pair-members';
 
 /** Batch sizes of the report (1 positive + K − 1 negatives); a K is reported when the sample fills a batch. */
@@ -24,6 +27,9 @@ const EMBEDDING_DESCRIPTION = 'Each view becomes one grey plane (frames: BT.601 
 
 export interface DifficultyOptions {
   paths: StoragePaths;
+  /** Trains the critics, one view pair per task. */
+  pool: FramePool;
+  signal?: AbortSignal;
   temperature: number;
   /** The pairset's split seed: the same pairset always draws the same sample. */
   seed: number;
@@ -33,55 +39,87 @@ export interface DifficultyOptions {
 
 /**
  * The pair-difficulty report of a build (DESIGN §2): for each view pair, a seeded sample of its pairs, each view
- * embedded with the fixed embedding, and InfoNCE at each K the sample fills (shared/pairing/pair-difficulty.ts).
- * Views are read from the clips' stored files at the working size, so the output size does not change the report.
+ * embedded with the fixed embedding, and InfoNCE at each K the sample fills (shared/pairing/pair-difficulty.ts);
+ * then a critic trained per view pair on a sample of the train split and measured on one of the val split
+ * (critic-report.ts). Views are read from the clips' stored files at the working size, so the output size does
+ * not change the report.
  */
 export async function difficultyReport(planned: readonly PlannedPair[], pairs: readonly ViewPair[],
   options: DifficultyOptions): Promise<PairsetDifficulty> {
   const embed = createFixedEmbedder(DEFAULT_FIXED_EMBEDDING);
-  const cache = new Map<string, Float32Array>();
-  const samples = pairs.map((pair) => sample(planned.filter((item) => item.pair.kind === pair.kind), options.seed));
-  const totalViews = 2 * samples.reduce((sum, items) => sum + items.length, 0);
+  const cache = new Map<string, EmbeddedView>();
+  const ofKind = pairs.map((pair) => planned.filter((item) => item.pair.kind === pair.kind));
+  const samples = ofKind.map((items) => sample(items, options.seed, DIFFICULTY_SAMPLE));
+  const trainSamples = ofKind.map((items) => sample(items.filter((item) => item.split === 'train'), options.seed,
+    CRITIC_SAMPLE));
+  const heldOutSamples = ofKind.map((items) => sample(items.filter((item) => item.split === 'val'), options.seed,
+    CRITIC_SAMPLE));
+  const totalViews = 2 * [...samples, ...trainSamples, ...heldOutSamples].reduce((sum, items) => sum + items.length,
+    0);
   let doneViews = 0;
-  const embedView = async (item: PlannedPair, view: ViewName) => {
-    const key = `${item.clipId}:${view === 'motion' ? 'motion' : view === 'luma' || view === 'chroma' ? view : 'frame'}`
-      + `:${viewFrame(view, item.moment)}`;
-    let vector = cache.get(key);
-    if (!vector) {
+  // Reading a view dominates the report; the views are read at most once and give both representations.
+  const embedView = async (item: PlannedPair, view: ViewName): Promise<EmbeddedView> => {
+    const key = `${item.clipId}:${planeKind(view)}:${viewFrame(view, item.moment)}`;
+    let embedded = cache.get(key);
+    if (!embedded) {
       const data = await readView(viewSourceFile(options.paths, item.clipId, item.moment, view), view);
-      vector = embed(viewPlane(data), data.width, data.height);
-      cache.set(key, vector);
+      const plane = viewPlane(data);
+      embedded = { fixed: embed(plane, data.width, data.height), descriptor: viewDescriptor(plane, data.width,
+        data.height) };
+      cache.set(key, embedded);
     }
     doneViews += 1;
     await options.progress(doneViews / totalViews);
-    return vector;
+    return embedded;
+  };
+  const embedPairs = async (items: PlannedPair[], pair: ViewPair): Promise<EmbeddedPair[]> => {
+    const out: EmbeddedPair[] = [];
+    for (const item of items) {
+      const a = await embedView(item, pair.a);
+      const b = await embedView(item, pair.b);
+      out.push({ clipId: item.clipId, a, b });
+    }
+    return out;
   };
   const kinds = [];
+  const criticInputs = [];
   for (const [k, pair] of pairs.entries()) {
-    const items = samples[k]!;
-    const a: Float32Array[] = [];
-    const b: Float32Array[] = [];
-    for (const item of items) {
-      a.push(await embedView(item, pair.a));
-      b.push(await embedView(item, pair.b));
-    }
+    const embedded = await embedPairs(samples[k]!, pair);
+    const a = embedded.map((item) => item.a.fixed);
+    const b = embedded.map((item) => item.b.fixed);
     const results = DIFFICULTY_KS.map((size) => pairDifficulty(a, b, size, {
       temperature: options.temperature, seed: options.seed,
     })).filter((result) => result !== null);
-    kinds.push({ kind: pair.kind, sampled: items.length, results });
+    kinds.push({ kind: pair.kind, sampled: embedded.length, results });
+    criticInputs.push({
+      kind: pair.kind,
+      tied: planeKind(pair.a) === planeKind(pair.b),
+      train: await embedPairs(trainSamples[k]!, pair),
+      heldOut: await embedPairs(heldOutSamples[k]!, pair),
+    });
   }
+  const critic = await criticReport(criticInputs, {
+    pool: options.pool, signal: options.signal, temperature: options.temperature, seed: options.seed,
+    ks: [...DIFFICULTY_KS],
+  });
   return {
     temperature: options.temperature,
     ks: [...DIFFICULTY_KS],
     sampleLimit: DIFFICULTY_SAMPLE,
     embedding: { description: EMBEDDING_DESCRIPTION, ...DEFAULT_FIXED_EMBEDDING },
     kinds,
+    critic,
   };
 }
 
-/** Up to DIFFICULTY_SAMPLE pairs, drawn with the seed. */
-function sample(items: PlannedPair[], seed: number): PlannedPair[] {
-  return shuffleInPlace([...items], mulberry32(seed)).slice(0, DIFFICULTY_SAMPLE);
+/** Which stored picture a view reads: a neighbour is another frame of the same kind as the frame. */
+function planeKind(view: ViewName): 'frame' | 'luma' | 'chroma' | 'motion' {
+  return view === 'motion' || view === 'luma' || view === 'chroma' ? view : 'frame';
+}
+
+/** Up to `limit` pairs, drawn with the seed. */
+function sample(items: PlannedPair[], seed: number, limit: number): PlannedPair[] {
+  return shuffleInPlace([...items], mulberry32(seed)).slice(0, limit);
 }
 
 /** Decodes a stored view file into the pixels view-plane.ts takes. */

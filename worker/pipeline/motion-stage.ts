@@ -45,7 +45,9 @@ export const motionStage: PipelineStage = {
       }, signal);
     });
     const fields = runs.flatMap((run, r) => estimated[r]!.map((pair, k) => ({ fromIndex: run.first + k, ...pair })));
-    const maxMotion = clipMotionScale(fields.map((field) => field.forward)) ?? 0;
+    const cuts = new Set(frames.filter((frame) => frame.cutBefore).map((frame) => frame.index));
+    const maxMotion = clipMotionScale(fields.map((f) => ({ fromIndex: f.fromIndex, ...f.forward })), cuts)?.pxPerStep
+      ?? 0;
     await forEachFrame(fields.length, share(context, FIELDS_SHARE, 1 - FIELDS_SHARE), (i, signal) => {
       const { fromIndex } = fields[i]!;
       return pool.writeMotionPicture({

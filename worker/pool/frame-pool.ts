@@ -1,5 +1,6 @@
 import os from 'node:os';
 import { Piscina } from 'piscina';
+import type { CriticOutcome, CriticTask } from './critic-tasks';
 import type { FrameMeasurement, FrameViewsTask, MeasureFrameTask } from './frame-tasks';
 import type { PairEvidence } from '../signals/cut-evidence';
 import type { CutPairsTask } from './cut-tasks';
@@ -19,6 +20,8 @@ export interface FramePool {
   writeMotionPicture(task: Omit<MotionPictureTask, 'kind'>, signal?: AbortSignal): Promise<void>;
   /** The cut detector's motion and edge evidence of consecutive thumbs, pair by pair. */
   measureCutPairs(task: Omit<CutPairsTask, 'kind'>, signal?: AbortSignal): Promise<PairEvidence[]>;
+  /** Trains one view pair's critic for the pair-difficulty report and measures its bounds. */
+  trainCritic(task: Omit<CriticTask, 'kind'>, signal?: AbortSignal): Promise<CriticOutcome>;
   /** Threads at most, so a stage can split its work into enough pieces to keep each one busy. */
   threads: number;
   destroy(): Promise<void>;
@@ -46,6 +49,7 @@ export function createFramePool(threads = os.availableParallelism()): FramePool 
     estimateMotionRun: (task, signal) => pool.run({ kind: 'motion-run', ...task }, { signal }),
     writeMotionPicture: (task, signal) => pool.run({ kind: 'motion-picture', ...task }, { signal }),
     measureCutPairs: (task, signal) => pool.run({ kind: 'cut-pairs', ...task }, { signal }),
+    trainCritic: (task, signal) => pool.run({ kind: 'critic', ...task }, { signal }),
     threads: maxThreads,
     destroy: () => pool.destroy(),
   };

@@ -5,14 +5,15 @@
  */
 import sharp from 'sharp';
 import type { PairEvidence } from '../signals/cut-evidence';
+import { runCriticTask, type CriticOutcome, type CriticTask } from './critic-tasks';
 import { measureFrame, writeFrameViews, type FrameMeasurement, type FrameTask } from './frame-tasks';
 import { measureCutPairs, type CutPairsTask } from './cut-tasks';
 import { estimateMotionRun, writeMotionPicture, type MotionTask, type PairMotion } from './motion-tasks';
 
 sharp.concurrency(1);
 
-export default function runFrameTask(task: FrameTask | MotionTask | CutPairsTask):
-  Promise<FrameMeasurement | PairMotion[] | PairEvidence[] | void> {
+export default function runFrameTask(task: FrameTask | MotionTask | CutPairsTask | CriticTask):
+Promise<FrameMeasurement | PairMotion[] | PairEvidence[] | CriticOutcome | void> {
   switch (task.kind) {
     case 'measure':
       return measureFrame(task);
@@ -24,5 +25,7 @@ export default function runFrameTask(task: FrameTask | MotionTask | CutPairsTask
       return writeMotionPicture(task);
     case 'cut-pairs':
       return Promise.resolve(measureCutPairs(task));
+    case 'critic':
+      return Promise.resolve(runCriticTask(task));
   }
 }

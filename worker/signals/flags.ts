@@ -21,9 +21,9 @@
 
 import type { FlagName, FlagThresholds } from '../../shared/flag-thresholds';
 import { DEFAULT_FLAG_THRESHOLDS, FLAG_NAMES } from '../../shared/flag-thresholds';
+import { flagSentence } from '../../shared/review/flag-words';
 
 const SECONDS_PER_MINUTE = 60;
-const DECIMALS = 3;
 
 export interface FlagFrameSignals {
   meanLuma: number;
@@ -128,17 +128,15 @@ function cutsPerMinute(input: ClipFlagInput): number {
 
 /** NaN (nothing to measure) never raises a flag, since every comparison with NaN is false. */
 function below(flag: FlagName, measure: string, value: number, threshold: number, lead: string): RaisedFlag | null {
-  return value < threshold ? raised(flag, measure, value, threshold, lead, 'below') : null;
+  return value < threshold ? raised(flag, measure, value, threshold, lead) : null;
 }
 
 function above(flag: FlagName, measure: string, value: number, threshold: number, lead: string): RaisedFlag | null {
-  return value > threshold ? raised(flag, measure, value, threshold, lead, 'above') : null;
+  return value > threshold ? raised(flag, measure, value, threshold, lead) : null;
 }
 
-function raised(flag: FlagName, measure: string, value: number, threshold: number, lead: string,
-  side: 'below' | 'above'): RaisedFlag {
-  const message = `${lead}: ${measure} is ${fmt(value)}, ${side} ${fmt(threshold)}.`;
-  return { flag, measure, value, threshold, message };
+function raised(flag: FlagName, measure: string, value: number, threshold: number, lead: string): RaisedFlag {
+  return { flag, measure, value, threshold, message: flagSentence(lead, { measure, value, threshold }) };
 }
 
 function medianOf(input: ClipFlagInput, signal: Exclude<keyof FlagFrameSignals, 'cutBefore'>): number {
@@ -150,8 +148,4 @@ function median(values: readonly number[]): number {
   const sorted = [...values].sort((x, y) => x - y);
   const mid = sorted.length >> 1;
   return sorted.length % 2 === 1 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-}
-
-function fmt(v: number): string {
-  return Number(v.toFixed(DECIMALS)).toString();
 }

@@ -24,7 +24,8 @@ export async function listFrames(clipId: number): Promise<ClipFrameList> {
   return {
     items: frames.map((frame) => frame.toApi(fields.get(frame.index)?.toFrameMotion() ?? null)),
     total: frames.length,
-    motionScale: clipMotionScale([...fields.values()]),
+    motionScale: clipMotionScale([...fields.values()],
+      new Set(frames.filter((frame) => frame.cutBefore).map((frame) => frame.index))),
   };
 }
 

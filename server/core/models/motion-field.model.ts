@@ -21,8 +21,10 @@ export class MotionField extends Model<InferAttributes<MotionField>, InferCreati
   /** Every parameter the estimator ran with: its defaults merged with the project's overrides. */
   declare params: Record<string, number | string | boolean>;
   declare meanMagnitude: number;
-  /** Nearest-rank 95th percentile of the magnitude; the clip's largest forward one scales its motion pictures. */
+  /** Nearest-rank 95th percentile of the magnitude over every known pixel. */
   declare p95Magnitude: number;
+  /** The same over consistent pixels only; null on fields stored before migration 0010. Sets the colour scale. */
+  declare consistentP95Magnitude: CreationOptional<number | null>;
   /** Share of pixels that pass the forward–backward check. */
   declare consistentShare: number;
   /** The median vector: the global motion, robust to moving objects (the shaky flag reads it). */
@@ -52,6 +54,7 @@ export class MotionField extends Model<InferAttributes<MotionField>, InferCreati
       params: { type: DataTypes.JSON, allowNull: false },
       meanMagnitude: { type: DataTypes.FLOAT, allowNull: false },
       p95Magnitude: { type: DataTypes.FLOAT, allowNull: false },
+      consistentP95Magnitude: { type: DataTypes.FLOAT, allowNull: true },
       consistentShare: { type: DataTypes.FLOAT, allowNull: false },
       medianU: { type: DataTypes.FLOAT, allowNull: false },
       medianV: { type: DataTypes.FLOAT, allowNull: false },

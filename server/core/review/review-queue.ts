@@ -13,14 +13,14 @@ import { Clip } from '../models';
  * flag masks that pass (at most 256 values of the `flagMask` column, bit i = FLAG_NAMES[i]), which an index seeks.
  */
 
-const SORT_KEYS: Record<ReviewSortField, string> = {
+export const SORT_KEYS: Record<ReviewSortField, string> = {
   createdAt: 'createdAt', capturedAt: 'capturedAt', durationS: 'durationS', medianSharpness: 'medianSharpness',
   meanLuma: 'meanLuma', meanMotion: 'meanMotion', consistentShare: 'consistentShare', cutCount: 'cutCount',
   usablePairs: 'usablePairs', flagCount: 'flagCount',
 };
 
 /** Oldest first: clips that have waited longest come up first unless the curator sorts otherwise. */
-const DEFAULT_SORT = 'createdAt';
+export const DEFAULT_SORT = 'createdAt';
 const ALL_MASKS = 2 ** FLAG_NAMES.length;
 
 export function flagBits(flags: readonly FlagName[]): number {
@@ -84,6 +84,17 @@ function countIndex(filter: ReviewFilter): string {
   return 'clips_queue_flags';
 }
 
+/** A queue row's columns and the joins they need, for the clips a subquery `chosen` picked (`:now` given). */
+export const ITEM_COLUMNS = `c.id, c.originalName, c.projectId, p.name AS projectName, c.site, c.uploaderId,
+      u.name AS uploaderName, c.durationS, c.capturedAt, c.createdAt, c.hasThumbnail, c.flags, c.frameCount,
+      c.medianSharpness, c.meanLuma, c.meanMotion, c.consistentShare, c.cutCount, c.usablePairs,
+      CASE WHEN c.claimExpiresAt > :now THEN c.claimedBy END AS claimHolderId, h.name AS claimHolderName,
+      c.claimExpiresAt`;
+export const ITEM_JOINS = `JOIN clips c ON c.id = chosen.id
+    JOIN projects p ON p.id = c.projectId
+    JOIN users u ON u.id = c.uploaderId
+    LEFT JOIN users h ON h.id = c.claimedBy AND c.claimExpiresAt > :now`;
+
 /** The page and count statements for a queue query (the benchmark times the same statements raw). */
 export function queueSql(query: ReviewQueueQuery, now: Date): QueueSql {
   const replacements: Record<string, unknown> = {
@@ -95,24 +106,17 @@ export function queueSql(query: ReviewQueueQuery, now: Date): QueueSql {
   const key = SORT_KEYS[sort.replace(/^-/, '') as ReviewSortField];
   const order = (alias: string) => `${alias}.${key} ${direction}, ${alias}.id ${direction}`;
   const page = `
-    SELECT c.id, c.originalName, c.projectId, p.name AS projectName, c.site, c.uploaderId, u.name AS uploaderName,
-      c.durationS, c.capturedAt, c.createdAt, c.hasThumbnail, c.flags, c.frameCount, c.medianSharpness, c.meanLuma,
-      c.meanMotion, c.consistentShare, c.cutCount, c.usablePairs,
-      CASE WHEN c.claimExpiresAt > :now THEN c.claimedBy END AS claimHolderId, h.name AS claimHolderName,
-      c.claimExpiresAt
+    SELECT ${ITEM_COLUMNS}
     FROM (SELECT c.id FROM clips c INDEXED BY clips_queue_by_${key} WHERE ${where}
           ORDER BY ${order('c')} LIMIT :limit OFFSET :offset) chosen
-    JOIN clips c ON c.id = chosen.id
-    JOIN projects p ON p.id = c.projectId
-    JOIN users u ON u.id = c.uploaderId
-    LEFT JOIN users h ON h.id = c.claimedBy AND c.claimExpiresAt > :now
+    ${ITEM_JOINS}
     ORDER BY ${order('c')}`;
   const count = `SELECT COUNT(*) AS total FROM clips c INDEXED BY ${countIndex(query)} WHERE ${where}`;
   return { page, count, replacements };
 }
 
 /** A queue row as SQLite answers it: the item's fields, with the stored forms of those the API reshapes. */
-type QueueRow = Omit<ReviewQueueItem, 'hasThumbnail' | 'flags' | 'claim'> & {
+export type QueueRow = Omit<ReviewQueueItem, 'hasThumbnail' | 'flags' | 'claim'> & {
   hasThumbnail: number;
   /** JSON array of flag names. */
   flags: string;
@@ -123,7 +127,7 @@ type QueueRow = Omit<ReviewQueueItem, 'hasThumbnail' | 'flags' | 'claim'> & {
 
 const iso = (stored: string) => new Date(stored).toISOString();
 
-function toItem(row: QueueRow): ReviewQueueItem {
+export function toItem(row: QueueRow): ReviewQueueItem {
   const { claimHolderId, claimHolderName, claimExpiresAt, ...fields } = row;
   return {
     ...fields,

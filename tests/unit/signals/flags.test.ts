@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { DEFAULT_FLAG_THRESHOLDS, FLAG_NAMES } from '../../../shared/flag-thresholds';
+import { flagNumber } from '../../../shared/review/flag-words';
 import {
   clipFlags,
   type ClipFlagInput,
@@ -63,7 +64,7 @@ describe('clip flags', () => {
     expect(flag.flag).toBe('dark');
     expect(flag.threshold).toBe(DEFAULT_FLAG_THRESHOLDS.darkMeanLuma);
     expect(flag.value).toBeLessThan(25);
-    expect(flag.message).toContain('below 40');
+    expect(flag.message).toMatch(/is \d+(\.\d+)?, under the limit of 40\.$/);
   });
 
   it('raises overexposed on generated blown-out footage (highlight share above 0.10)', () => {
@@ -153,7 +154,11 @@ describe('clip flags', () => {
     const flags = clipFlags(all);
     expect(flags.map((f) => f.flag)).toEqual([...FLAG_NAMES]);
     for (const f of flags) {
-      expect(f.message).toContain(String(f.threshold));
+      // The value and the limit each appear once, in the units the curator reads (shares in per cent).
+      const limit = flagNumber(f.measure, f.threshold);
+      expect(f.message.split(`limit of ${limit}`)).toHaveLength(2);
+      expect(f.message.split(` is ${flagNumber(f.measure, f.value)},`)).toHaveLength(2);
+      expect(f.message).not.toContain('threshold');
       expect(Number.isFinite(f.value)).toBe(true);
     }
   });

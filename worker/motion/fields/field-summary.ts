@@ -6,6 +6,7 @@
 
 import { maxMotionRadius } from '../../../shared/motion/colour-wheel.js';
 import { isUnknownFlow } from '../../../shared/motion/unknown-flow.js';
+import { consistentP95Magnitude } from './consistent-magnitude.js';
 import { fieldStatistics, nearestRankPercentile } from './field-statistics.js';
 
 const MEDIAN = 0.5;
@@ -13,6 +14,8 @@ const MEDIAN = 0.5;
 export interface FieldSummary {
   meanMagnitude: number;
   p95Magnitude: number;
+  /** The same percentile over consistent pixels only (consistent-magnitude.ts); it sets the colour scale. */
+  consistentP95Magnitude: number;
   consistentShare: number;
   medianU: number;
   medianV: number;
@@ -39,6 +42,7 @@ export function summariseField(flow: Float32Array, mask: Uint8Array, scratch: Fl
   return {
     meanMagnitude: statistics.meanMagnitude,
     p95Magnitude: statistics.p95Magnitude,
+    consistentP95Magnitude: consistentP95Magnitude(flow, mask, scratch),
     consistentShare: statistics.consistentShare ?? 0,
     ...medianMotion(flow, scratch),
     maxMagnitude: maxMotionRadius(flow),

@@ -1,0 +1,148 @@
+/**
+ * Review-flow benchmark in a browser (not a test). A clip processed by the real pipeline is copied (rows and files)
+ * into the first clips of a 2,000-clip queue; the rest are seeded rows. At 1440 × 900, it times:
+ * - the queue page with 2,000 clips awaiting review, from navigation to the first rows on screen (goal ≤ 1 s);
+ * - deciding clips by keyboard alone: from the key press to the next clip fully shown (its evidence pictures
+ *   loaded and the claim taken), summed over the run (goal ≤ 2 s for 50 clips);
+ * - the reference, in the same run: opening the same kind of clip page afresh (a full page load), so the flow's
+ *   time per clip is reported as a share of it.
+ *   npm run bench:review-flow [-- --clips 2000 --decide 50]
+ * Needs the built client (npx vite build) and Chromium at /usr/bin/chromium.
+ */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { parseArgs } from 'node:util';
+import type { Page } from 'playwright-core';
+import { Clip, Frame, MotionField, Project, User } from '../server/core/models';
+import { DEMO_ACCOUNTS } from '../server/core/people/demo-accounts';
+import { storagePaths } from '../server/core/storage/paths';
+import { launchBrowser, signInThroughForm } from '../tests/helpers/browser';
+import { makeTestClip } from '../tests/helpers/media-fixtures';
+import { insertClip } from '../tests/helpers/pipeline-clips';
+import { startTestRuntime } from '../tests/helpers/pipeline-runtime';
+import { reviewClipRow } from '../tests/helpers/review-clips';
+import { startRunningServer } from '../tests/helpers/running-server';
+
+const { values } = parseArgs({ options: { clips: { type: 'string', default: '2000' },
+  decide: { type: 'string', default: '50' } } });
+const CLIPS = Number(values.clips);
+const DECIDE = Number(values.decide);
+/** Clips with real evidence: every clip the run decides, the reference opens, and a few to spare. */
+const FULL = DECIDE + 12;
+const VIEWPORT = { width: 1440, height: 900 };
+const BATCH = 500;
+const curator = DEMO_ACCOUNTS.find((account) => account.role === 'curator')!;
+
+const server = await startRunningServer();
+const browser = await launchBrowser();
+const media = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-review-flow-'));
+try {
+  const operator = (await User.findByEmail('operator@kinefold.test'))!;
+  const project = await Project.create({ name: 'Benchmark rows', estimator: 'farneback', estimatorParams: {},
+    sampleFps: 5, workingSize: 320, deltas: [1, 2], flagThresholds: {} });
+  const file = await makeTestClip(media, 'bench-row.mp4', { seconds: 3, size: '320x180', seed: 5 });
+  const sourceId = (await insertClip(server, file, project.id, operator.id)).clip.id;
+  const runtime = startTestRuntime(server);
+  await runtime.drain();
+  await runtime.close();
+  const ids = await seedQueue(sourceId, project.id, operator.id);
+  console.log(`Seeded ${CLIPS} clips awaiting review (${FULL} with the evidence of clip ${sourceId}).`);
+
+  const page = await (await browser.newContext({ viewport: VIEWPORT })).newPage();
+  await signInThroughForm(page, server.baseUrl, curator.email, curator.password);
+  await page.waitForSelector('[data-test="signed-in-user"]');
+
+  const queueTimes: number[] = [];
+  for (let run = 0; run < 5; run += 1) {
+    const started = performance.now();
+    await page.goto(`${server.baseUrl}/review?sort=createdAt`);
+    await page.waitForSelector(`[data-test="queue-open-${ids[0]}"]`);
+    queueTimes.push(performance.now() - started);
+  }
+
+  // Reference: the clip page opened afresh, as a curator following a link would.
+  const reference: number[] = [];
+  for (const id of ids.slice(DECIDE + 2, DECIDE + 7)) {
+    const started = performance.now();
+    await page.goto(`${server.baseUrl}/review/${id}?sort=createdAt`);
+    await fullyShown(page, id);
+    reference.push(performance.now() - started);
+    await page.keyboard.press('n');
+  }
+  await Clip.update({ claimedBy: null, claimExpiresAt: null }, { where: { id: ids } });
+
+  // The flow: from the queue, open the first clip, then accept each one by keyboard.
+  await page.goto(`${server.baseUrl}/review?sort=createdAt`);
+  await page.click(`[data-test="queue-open-${ids[0]}"]`);
+  await fullyShown(page, ids[0]!);
+  const waits: number[] = [];
+  for (let n = 0; n < DECIDE; n += 1) {
+    const started = performance.now();
+    await page.keyboard.press('a');
+    await fullyShown(page, ids[n + 1]!);
+    waits.push(performance.now() - started);
+  }
+
+  const sum = (list: number[]) => list.reduce((a, b) => a + b, 0);
+  const median = (list: number[]) => [...list].sort((a, b) => a - b)[Math.floor(list.length / 2)]!;
+  const p95 = (list: number[]) => [...list].sort((a, b) => a - b)[Math.ceil(0.95 * list.length) - 1]!;
+  const ms = (value: number) => `${value.toFixed(0)} ms`;
+  // The machine is shared: the load says how much of the waiting is other work's.
+  console.log(`\nLoad average (1, 5, 15 min): ${os.loadavg().map((load) => load.toFixed(1)).join(', ')} on `
+    + `${os.cpus().length} cores`);
+  console.log(`Queue page, ${CLIPS} clips waiting: median ${ms(median(queueTimes))}, worst `
+    + `${ms(Math.max(...queueTimes))} (goal ≤ 1000 ms)`);
+  console.log(`Clip page opened afresh (reference): median ${ms(median(reference))}`);
+  console.log(`Accept → next clip fully shown, ${DECIDE} clips: total ${ms(sum(waits))} (goal ≤ 2000 ms), median `
+    + `${ms(median(waits))}, p95 ${ms(p95(waits))}, worst ${ms(Math.max(...waits))}; median as a share of the `
+    + `reference: ${(median(waits) / median(reference)).toFixed(2)}`);
+} finally {
+  await browser.close();
+  await server.close();
+  fs.rmSync(media, { recursive: true, force: true });
+}
+
+/**
+ * The queue: FULL copies of the processed clip (rows, frames, fields and files) waiting longest, then seeded rows
+ * up to CLIPS. Returns the ids in the queue's default order (oldest first).
+ */
+async function seedQueue(sourceId: number, projectId: number, uploaderId: number): Promise<number[]> {
+  const paths = storagePaths(server.storageDir);
+  const source = (await Clip.findByPk(sourceId))!;
+  const frames = await Frame.findAll({ where: { clipId: sourceId }, raw: true });
+  const fields = await MotionField.findAll({ where: { clipId: sourceId }, raw: true });
+  const start = Date.now() - 10 * 86_400_000;
+  const { id: _id, sha256: _sha, createdAt: _created, updatedAt: _updated, ...copied } = source.get({ plain: true });
+  const ids: number[] = [];
+  for (let n = 0; n < FULL; n += 1) {
+    const clip = await Clip.create({ ...copied, originalName: `bench-row-${n}.mp4`,
+      sha256: reviewClipRow({ projectId, uploaderId }).sha256 });
+    await Clip.sequelize!.query('UPDATE clips SET createdAt = :at WHERE id = :id',
+      { replacements: { at: new Date(start + n * 1000), id: clip.id } });
+    await Frame.bulkCreate(frames.map(({ id: _f, ...frame }) => ({ ...frame, clipId: clip.id })));
+    await MotionField.bulkCreate(fields.map(({ id: _m, ...field }) => ({ ...field, clipId: clip.id })));
+    fs.cpSync(paths.clipDir(sourceId), paths.clipDir(clip.id), { recursive: true });
+    ids.push(clip.id);
+  }
+  for (let done = FULL; done < CLIPS; done += BATCH) {
+    const rows = Array.from({ length: Math.min(BATCH, CLIPS - done) },
+      () => reviewClipRow({ projectId, uploaderId }));
+    await Clip.bulkCreate(rows);
+  }
+  return ids;
+}
+
+/** The clip's page with its claim taken and every evidence picture on screen loaded. */
+async function fullyShown(page: Page, id: number): Promise<void> {
+  await page.waitForSelector(`[data-test="review-clip"][data-clip-id="${id}"] [data-test="claim-mine"]`);
+  // Pictures the strip has scrolled out of sight load lazily, so only those in sight count.
+  await page.waitForFunction(() => {
+    const strip = document.querySelector('[data-test="frame-strip"]')!.getBoundingClientRect();
+    const pictures = [...document.querySelectorAll<HTMLImageElement>('[data-panel] img')].filter((image) => {
+      const box = image.getBoundingClientRect();
+      return !image.closest('[data-test="frame-strip"]') || box.left < strip.right;
+    });
+    return pictures.length > 0 && pictures.every((image) => image.complete);
+  });
+}
