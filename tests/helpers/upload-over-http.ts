@@ -14,7 +14,7 @@ export function paddedCopy(source: string, target: string, padBytes: number, fil
 }
 
 /** One multipart upload body: projectId first (the server reads the fields before the file), then the file. */
-export function uploadBody(projectId: number, file: string): { body: Uint8Array; type: string } {
+export function uploadBody(projectId: number, file: string): { body: Uint8Array<ArrayBuffer>; type: string } {
   const boundary = `----kinefold${Math.random().toString(16).slice(2)}`;
   const head = `--${boundary}\r\nContent-Disposition: form-data; name="projectId"\r\n\r\n${projectId}\r\n`
     + `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${path.basename(file)}"\r\n`
