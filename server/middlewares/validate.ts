@@ -18,10 +18,18 @@ interface Schemas {
   params?: z.ZodType;
 }
 
-/** Validates body, query and params with zod; the first problem becomes a 400 naming the field. */
+/**
+ * Validates body, query and params with zod; the first problem becomes a 400 naming the field. A route that
+ * declares no query takes none: `?file=…` or any other unknown field is refused, not ignored.
+ */
 export function validate(schemas: Schemas) {
   return (req: Request, _res: Response, next: NextFunction) => {
     req.valid = {};
+    const unknownField = schemas.query ? undefined : Object.keys(req.query ?? {})[0];
+    if (unknownField !== undefined) {
+      throw new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', `${unknownField}: this address takes no query fields.`,
+        { issues: [{ field: unknownField, message: 'unknown query field' }] });
+    }
     for (const part of ['params', 'query', 'body'] as const) {
       const schema = schemas[part];
       if (!schema) continue;

@@ -3,6 +3,7 @@ import { pairKinds, viewNames, type ViewKind, type ViewName } from '../pairing/p
 import { PAIRSET_STATES } from '../types/pairsets';
 import { MAX_TAG_LENGTH } from './clips';
 import { listQuerySchema } from './list-query';
+import { pathNumber } from './path-number';
 
 /** The views a definition may choose per moment (DESIGN §2), in the form's order. */
 export const PAIRSET_VIEW_KINDS = ['frame', 'neighbour', 'motion', 'luma', 'chroma'] as const satisfies ViewKind[];
@@ -106,7 +107,7 @@ export type PairsetListQuery = z.infer<typeof pairsetListQuerySchema>;
 
 /** `/:id/shards/:index`: the shard's place in the pairset's one sequence, from 0. */
 export const shardParamSchema = z.strictObject({
-  id: z.coerce.number().int().positive('id must be a positive number'),
-  index: z.coerce.number().int().min(0, 'index must be 0 or more'),
+  id: pathNumber('id', { min: 1 }),
+  index: pathNumber('index', { min: 0 }),
 });
 export type ShardParam = z.infer<typeof shardParamSchema>;
