@@ -1,4 +1,3 @@
-import fs from 'node:fs';
 import { Op, literal, type Order, type WhereOptions } from 'sequelize';
 import type { ListPage } from '../../shared/api-types';
 import { UNREVIEWED_STATES } from '../../shared/clip-states';
@@ -8,6 +7,7 @@ import type { ClipDetail, ClipSummary } from '../../shared/types/clips';
 import { AppError, notFound } from '../errors';
 import { AuditEvent, Clip, Project, User, Verdict } from '../models';
 import type { StoragePaths } from '../storage/paths';
+import { removeFolder } from '../storage/remove-folder';
 import { recordAudit } from './audit';
 import { claimOf } from './review-claims';
 import { verdictHistory } from './review-history';
@@ -126,7 +126,7 @@ export async function removeClip(id: number, viewer: Viewer, paths: StoragePaths
     }, transaction);
     await clip.destroy({ transaction });
   });
-  await fs.promises.rm(paths.clipDir(id), { recursive: true, force: true });
+  await removeFolder(paths.clipDir(id));
 }
 
 /** The stored source file of a clip, for streaming with Range support. */
