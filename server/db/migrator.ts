@@ -8,6 +8,7 @@ import * as motion from './migrations/0005-motion';
 import * as review from './migrations/0006-review';
 import * as pairsets from './migrations/0007-pairsets';
 import * as admin from './migrations/0008-admin';
+import * as clipListOrder from './migrations/0009-clip-list-order';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -24,6 +25,7 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0006-review', review],
   ['0007-pairsets', pairsets],
   ['0008-admin', admin],
+  ['0009-clip-list-order', clipListOrder],
 ];
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */

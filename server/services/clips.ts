@@ -42,14 +42,19 @@ export async function listClips(query: ClipListQuery): Promise<ListPage<ClipSumm
   const order: Order = query.sort
     ? [[query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'DESC']]
     : [['createdAt', 'DESC'], ['id', 'DESC']];
-  const { rows, count } = await Clip.findAndCountAll({
-    where: { [Op.and]: conditions },
-    include: INCLUDE,
-    order,
-    limit: query.pageSize,
-    offset: (query.page - 1) * query.pageSize,
-  });
-  return { items: rows.map((clip) => clip.toApi()), total: count, page: query.page, pageSize: query.pageSize };
+  const where = { [Op.and]: conditions };
+  // The page is chosen and counted on clips alone (indexes apply), and only its rows are joined to their project,
+  // uploader and verdict: joining first made SQLite sort and count the whole joined table on every request.
+  const [ids, count] = await Promise.all([
+    Clip.findAll({
+      attributes: ['id'], where, order, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, raw: true,
+    }),
+    Clip.count({ where }),
+  ]);
+  const rows = await Clip.findAll({ where: { id: ids.map((row) => row.id) }, include: INCLUDE });
+  const byId = new Map(rows.map((clip) => [clip.id, clip]));
+  const items = ids.flatMap((row) => byId.get(row.id)?.toApi() ?? []);
+  return { items, total: count, page: query.page, pageSize: query.pageSize };
 }
 
 export async function findClip(id: number): Promise<Clip> {

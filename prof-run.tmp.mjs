@@ -1,0 +1,12 @@
+import autocannon from 'autocannon';
+const base = process.argv[2];
+const path = process.argv[3];
+const first = await fetch(`${base}/api/auth/csrf`);
+let cookie = first.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+const { token } = await first.json();
+const r = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { cookie, 'content-type': 'application/json', 'x-csrf-token': token }, body: JSON.stringify({ email: 'admin@kinefold.test', password: 'quota-keeper-admin-04' }) });
+const jar = new Map(cookie.split('; ').filter(Boolean).map((p) => [p.split('=')[0], p]));
+for (const c of r.headers.getSetCookie()) jar.set(c.split('=')[0], c.split(';')[0]);
+cookie = [...jar.values()].join('; ');
+const res = await autocannon({ url: base + path, connections: 50, duration: 8, headers: { cookie } });
+console.log(path, 'rps', res.requests.average, 'p50', res.latency.p50, 'p97.5', res.latency.p97_5, 'non2xx', res.non2xx);
