@@ -2,6 +2,7 @@ import { AsyncLocalStorage } from 'node:async_hooks';
 import { setTimeout as sleep } from 'node:timers/promises';
 import PQueue from 'p-queue';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import { noteWrite } from './count-cache';
 
 /**
  * How long one statement may let SQLite's busy handler wait inside a libuv pool thread. Kept tiny: a waiting
@@ -52,7 +53,8 @@ export function queueWrites(sequelize: Sequelize): void {
       && (options as { transaction?: unknown }).transaction;
     // Unmanaged and nested transactions keep Sequelize's own behaviour: their end is not ours to see.
     if (!managed || nested) return transaction(options, callback);
-    return inTurn(() => transaction(options, callback));
+    // Its writes become visible at commit: counts made meanwhile must not outlive it.
+    return inTurn(() => transaction(options, callback)).finally(noteWrite);
   };
 
   const queryInterface = sequelize.getQueryInterface();
@@ -62,8 +64,9 @@ export function queueWrites(sequelize: Sequelize): void {
 
   const query = sequelize.query.bind(sequelize) as (sql: unknown, options?: QueryOptions) => Promise<unknown>;
   (sequelize as unknown as { query: unknown }).query = (sql: unknown, options?: QueryOptions) => {
-    if (options?.transaction || !isWrite(sql, options)) return query(sql, options);
-    return inTurn(() => whileBusy(() => query(sql, options)));
+    if (!isWrite(sql, options)) return query(sql, options);
+    const write = options?.transaction ? query(sql, options) : inTurn(() => whileBusy(() => query(sql, options)));
+    return write.finally(noteWrite);
   };
 }
 

@@ -4,6 +4,7 @@ import { UNREVIEWED_STATES } from '../../shared/clip-states';
 import { HttpStatus } from '../../shared/http-status';
 import type { ClipListQuery, ClipPatch } from '../../shared/schemas/clips';
 import type { ClipDetail, ClipSummary } from '../../shared/types/clips';
+import { reusedCount } from '../db/count-cache';
 import { AppError, notFound } from '../errors';
 import { AuditEvent, Clip, Project, User, Verdict } from '../models';
 import type { StoragePaths } from '../storage/paths';
@@ -49,7 +50,8 @@ export async function listClips(query: ClipListQuery): Promise<ListPage<ClipSumm
     Clip.findAll({
       attributes: ['id'], where, order, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, raw: true,
     }),
-    Clip.count({ where }),
+    // The filter is all of the query but its page and order.
+    reusedCount(`clips ${JSON.stringify({ ...query, page: 0, pageSize: 0, sort: '' })}`, () => Clip.count({ where })),
   ]);
   const rows = await Clip.findAll({ where: { id: ids.map((row) => row.id) }, include: INCLUDE });
   const byId = new Map(rows.map((clip) => [clip.id, clip]));
