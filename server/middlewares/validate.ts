@@ -27,7 +27,8 @@ export function validate(schemas: Schemas) {
     req.valid = {};
     const unknownField = schemas.query ? undefined : Object.keys(req.query ?? {})[0];
     if (unknownField !== undefined) {
-      throw new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', `${unknownField}: this address takes no query fields.`,
+      throw new AppError(HttpStatus.BAD_REQUEST, 'invalid_input',
+        `${unknownField}: this address takes no query fields.`,
         { issues: [{ field: unknownField, message: 'unknown query field' }] });
     }
     for (const part of ['params', 'query', 'body'] as const) {

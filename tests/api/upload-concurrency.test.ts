@@ -46,7 +46,7 @@ afterAll(async () => {
 });
 
 describe('many uploads at once', () => {
-  it('answers only 201 or 413 to 24 uploads from 4 sessions, never exceeds the quota, leaves nothing behind', async () => {
+  it('answers only 201 or 413 to 24 uploads from 4 sessions, stays within the quota, leaves nothing', async () => {
     const requestBytes = uploadBody(0, files[0]!).body.length;
     // Room for ten reservations (a reservation is the request's whole Content-Length), so fourteen must be refused.
     const quotaBytes = FITTING * requestBytes + requestBytes / 2;

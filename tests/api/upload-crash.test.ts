@@ -33,7 +33,9 @@ async function halfUpload(baseUrl: string, session: { cookie: string; csrf: stri
   const { body, type } = uploadBody(projectId, file);
   const request = http.request(`${baseUrl}/api/clips`, {
     method: 'POST',
-    headers: { cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-type': type, 'content-length': body.length },
+    headers: {
+      cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-type': type, 'content-length': body.length,
+    },
   });
   request.on('error', () => undefined);
   request.write(body.subarray(0, Math.floor(body.length / 3)));
