@@ -8,6 +8,7 @@ import * as motion from './migrations/0005-motion';
 import * as review from './migrations/0006-review';
 import * as pairsets from './migrations/0007-pairsets';
 import * as admin from './migrations/0008-admin';
+import * as clipListOrder from './migrations/0009-clip-list-order';
 import * as motionScale from './migrations/0010-motion-scale';
 
 interface MigrationModule {
@@ -25,6 +26,7 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0006-review', review],
   ['0007-pairsets', pairsets],
   ['0008-admin', admin],
+  ['0009-clip-list-order', clipListOrder],
   ['0010-motion-scale', motionScale],
 ];
 
