@@ -13,7 +13,9 @@ const config = loadConfig();
 const sequelize = await openKinefoldDatabase(config);
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
 const kinefold = createApp({ config, sequelize, clientDir });
-const cleaned = await cleanStaleUploads(storagePaths(config.storageDir));
+// Only the server receives uploads, one server per storage folder, and it has not listened yet: nothing begun
+// before this moment can still be in flight, so a crash mid-upload holds no quota past the restart.
+const cleaned = await cleanStaleUploads(storagePaths(config.storageDir), { before: Date.now() });
 if (cleaned.files + cleaned.reservations > 0) {
   console.log(`Kinefold server: removed ${cleaned.files} stale partial uploads, released ${cleaned.reservations} reservations.`);
 }

@@ -8,8 +8,10 @@ export class AppError extends Error {
     readonly code: string,
     message: string,
     readonly details?: unknown,
+    /** What went wrong underneath (a tool's output, a path): logged with the request id, never sent. */
+    cause?: unknown,
   ) {
-    super(message);
+    super(message, { cause });
     this.name = 'AppError';
   }
 }

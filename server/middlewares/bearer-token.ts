@@ -22,6 +22,23 @@ const TOKEN_ROUTES: readonly RegExp[] = [
   /^\/pairsets\/[^/]+\/shards\/[^/]+\/?$/,
 ];
 
+/**
+ * The routes open to anyone, relative to /api: they need no one signed in, so an Authorization header there
+ * (a script's default header, a proxy's) is none of their business and is ignored rather than refused.
+ */
+const ANYONE_ROUTES: readonly [method: string, route: RegExp][] = [
+  ['GET', /^\/health\/?$/],
+  ['GET', /^\/auth\/csrf\/?$/],
+  ['POST', /^\/auth\/(?:sign-in|reset-request|reset)\/?$/],
+  ['GET', /^\/invitations\/[^/]+\/?$/],
+  ['POST', /^\/invitations\/[^/]+\/accept\/?$/],
+];
+
+export function openToAnyone(method: string, path: string): boolean {
+  const asGet = method === 'HEAD' ? 'GET' : method;
+  return ANYONE_ROUTES.some(([routeMethod, route]) => routeMethod === asGet && route.test(path));
+}
+
 /** True for the requests a token may make: reading and downloading pairsets. */
 export function tokenMayOpen(method: string, path: string): boolean {
   return READ_METHODS.has(method) && TOKEN_ROUTES.some((route) => route.test(path));
@@ -30,11 +47,12 @@ export function tokenMayOpen(method: string, path: string): boolean {
 /**
  * `Authorization: Bearer <token>` for scripts. On a pairset read or download route the token's user becomes the
  * request's user (in place of any session) and CSRF is skipped, since no cookie is involved; on any other route a
- * token is refused with 403, so a leaked token can only read pairsets. Mounted under /api before CSRF.
+ * token is refused with 403, so a leaked token can only read pairsets; on the routes open to anyone it is ignored.
+ * Mounted under /api before CSRF.
  */
 export async function bearerToken(req: Request, _res: Response, next: NextFunction): Promise<void> {
   const header = req.headers.authorization;
-  if (header === undefined) return next();
+  if (header === undefined || openToAnyone(req.method, req.path)) return next();
   const match = /^Bearer +(\S+) *$/i.exec(header);
   if (!match) {
     throw new AppError(HttpStatus.UNAUTHORIZED, 'token_invalid', 'Authorization must be "Bearer <token>".');

@@ -28,6 +28,10 @@ export function errorHandler(error: unknown, req: Request, res: Response, _next:
   // A client that hung up mid-request (a cancelled upload) gets no answer and is not a server fault.
   if (!res.socket || res.socket.destroyed) return;
   if (error instanceof AppError) {
+    if (error.cause !== undefined) {
+      console.warn(`[${res.locals.requestId ?? '-'}] ${req.method} ${req.originalUrl} ${error.status} ${error.code}:`,
+        error.cause);
+    }
     send(res, error.status, { error: { code: error.code, message: error.message, details: error.details } });
     return;
   }

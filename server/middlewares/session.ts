@@ -2,6 +2,7 @@ import connectSessionSequelize from 'connect-session-sequelize';
 import session from 'express-session';
 import type { Sequelize } from 'sequelize';
 import type { Config } from '../core/config';
+import { throttleTouches } from './session-touch';
 
 export const SESSION_COOKIE = 'kinefold.sid';
 const EXPIRED_SESSION_SWEEP_MS = 15 * 60_000;
@@ -24,6 +25,7 @@ export function createSessionMiddleware(config: Config, sequelize: Sequelize, se
       userId: data.passport?.user ?? null,
     }),
   });
+  throttleTouches(store);
   const middleware = session({
     name: SESSION_COOKIE,
     secret,

@@ -1,6 +1,7 @@
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import type { z } from 'zod';
-import { invalidInput } from '../core/errors';
+import { HttpStatus } from '../../shared/http-status';
+import { AppError, invalidInput } from '../core/errors';
 
 type InputPart = 'params' | 'query' | 'body';
 type Schemas = { [P in InputPart]?: z.ZodType };
@@ -18,7 +19,7 @@ export type ValidatedHandler<S extends Schemas, ResBody> = (
 
 /**
  * Parses params, query and body with their zod schemas and hands the results to the handler; the first problem
- * becomes a 400 naming the field. The schemas alone decide the input type (NoInfer), so a handler that declares
+ * becomes a 400 naming the field, and a query on a route that declares none is refused. The schemas alone decide the input type (NoInfer), so a handler that declares
  * an input its schemas do not produce fails to compile.
  */
 export function validated<S extends Schemas, ResBody>(
@@ -26,6 +27,12 @@ export function validated<S extends Schemas, ResBody>(
   handler: ValidatedHandler<NoInfer<S>, ResBody>,
 ): RequestHandler {
   return (req, res, next) => {
+    // A route that declares no query takes none: `?file=…` or any other unknown field is refused, not ignored.
+    const unknownField = schemas.query ? undefined : Object.keys(req.query ?? {})[0];
+    if (unknownField !== undefined) {
+      throw new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', `${unknownField}: this address takes no query fields.`,
+        { issues: [{ field: unknownField, message: 'unknown query field' }] });
+    }
     const input: { [P in InputPart]?: unknown } = {};
     for (const part of ['params', 'query', 'body'] as const) {
       const schema = schemas[part];

@@ -1,8 +1,9 @@
 import { z } from 'zod';
 import { STORED_VIEWS } from '../pipeline-stages';
+import { pathNumber } from './path-number';
 
-const clipId = z.coerce.number().int().positive('id must be a positive number');
-const frameIndex = z.coerce.number().int().min(0, 'index must be 0 or more').max(2 ** 31 - 1);
+const clipId = pathNumber('id', { min: 1 });
+const frameIndex = pathNumber('index', { min: 0 });
 
 /** `/:id/frames/:index` in a path. */
 export const frameParamSchema = z.strictObject({ id: clipId, index: frameIndex });

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { pairKinds, viewNames, type ViewKind, type ViewName } from '../pairing/pairing-graph';
 import { MAX_TAG_LENGTH } from './clips';
 import { listQuerySchema } from './list-query';
+import { pathNumber } from './path-number';
 
 /** A pairset's life (DESIGN §2): a draft is built once; a built pairset never changes. */
 export const PAIRSET_STATES = ['draft', 'building', 'built', 'failed', 'cancelled'] as const;
@@ -109,7 +110,7 @@ export type PairsetListQuery = z.infer<typeof pairsetListQuerySchema>;
 
 /** `/:id/shards/:index`: the shard's place in the pairset's one sequence, from 0. */
 export const shardParamSchema = z.strictObject({
-  id: z.coerce.number().int().positive('id must be a positive number'),
-  index: z.coerce.number().int().min(0, 'index must be 0 or more'),
+  id: pathNumber('id', { min: 1 }),
+  index: pathNumber('index', { min: 0 }),
 });
 export type ShardParam = z.infer<typeof shardParamSchema>;

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { User } from '../../server/core/models';
+import { Session, User } from '../../server/core/models';
 import {
   TEST_PASSWORD, addUser, agentWithCsrf, appWith, signedInAgent, startTestServer, type TestServer,
 } from '../helpers/test-server';
@@ -117,6 +117,25 @@ describe('CSRF', () => {
       .set('x-csrf-token', other.csrf)
       .send({ email: 'operator@example.test', password: TEST_PASSWORD })
       .expect(403);
+  });
+
+  it('stores nothing for a signed-out visitor however often the token is asked for', async () => {
+    const before = await Session.count();
+    for (let i = 0; i < 200; i += 1) await request(server.app).get('/api/auth/csrf').expect(200);
+    expect(await Session.count()).toBe(before);
+    const visitor = await agentWithCsrf(server);
+    await visitor.agent.get('/api/auth/csrf').expect(200);
+    expect(await Session.count()).toBe(before);
+  });
+
+  it('writes a signed-in session\'s rolling expiry back at most once a minute, not on every request', async () => {
+    const { agent } = await signedInAgent(server, 'admin@example.test');
+    const rows = await Session.findAll({ where: { userId: (await User.findByEmail('admin@example.test'))!.id } });
+    const newest = rows.sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime())[0]!;
+    const written = newest.updatedAt.getTime();
+    for (let i = 0; i < 10; i += 1) await agent.get('/api/me').expect(200);
+    await newest.reload();
+    expect(newest.updatedAt.getTime()).toBe(written);
   });
 
   it('protects sign-out too', async () => {

@@ -103,6 +103,25 @@ describe('GET /api/clips/:id/frames/:index and /views/:index/:view', () => {
       .toMatch(/^view/);
   });
 
+  it('are 400 for a number written any other way than decimal digits, never another frame', async () => {
+    const { agent } = await curator();
+    for (const index of ['0x1', '1e0', '1.0', '+1', '%201']) {
+      const response = await agent.get(`/api/clips/${processed.id}/frames/${index}`).expect(400);
+      expect(response.body.error.message).toMatch(/^index/);
+    }
+    expect((await agent.get(`/api/clips/0x${processed.id.toString(16)}/preview`).expect(400)).body.error.message)
+      .toMatch(/^id/);
+  });
+
+  it('refuse query fields the address does not take', async () => {
+    const { agent } = await curator();
+    for (const url of ['preview?file=../../db/kinefold.sqlite', 'frames/0?size=9999', 'thumbnail?x=1']) {
+      const response = await agent.get(`/api/clips/${processed.id}/${url}`).expect(400);
+      expect(response.body.error.code).toBe('invalid_input');
+      expect(response.body.error.message).toMatch(/this address takes no query fields/);
+    }
+  });
+
   it('are 404 for a frame the clip does not have', async () => {
     const { agent } = await curator();
     await agent.get(`/api/clips/${processed.id}/frames/${processed.frameCount}`).expect(404);

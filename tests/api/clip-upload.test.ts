@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { Clip, Job, Project, UploadReservation } from '../../server/core/models';
 import { storagePaths } from '../../server/core/storage/paths';
 import {
@@ -40,6 +40,9 @@ afterAll(async () => {
   await server.close();
   fs.rmSync(media, { recursive: true, force: true });
 });
+
+/** Paths, tool names and the addresses ffmpeg prints (`[mov,mp4 @ 0x…]`) must never reach the operator. */
+const INTERNALS = /\/|\\|ffprobe|ffmpeg|@ 0x|moov|\.part\b|incoming/i;
 
 type SignedIn = Awaited<ReturnType<typeof signedInAgent>>;
 
@@ -97,7 +100,7 @@ describe('POST /api/clips', () => {
     ['a text file renamed .mp4', 'text', /report\.mp4 is not a video file/],
     ['an image file', 'still', /still\.png is a still image, not a video/],
     ['an audio-only file', 'audio', /voice-note\.m4a holds only sound: it has no video stream/],
-    ['the first half of a real MP4', 'truncated', /cut-short\.mp4 is (damaged|not a video file)/],
+    ['the first half of a real MP4', 'truncated', /cut-short\.mp4 is damaged or incomplete/],
     ['a 1×1 px video', 'onePixel', /1×1 px; Kinefold takes videos between 16 and 8192 px/],
   ];
   for (const [what, key, message] of refusals) {
@@ -105,9 +108,23 @@ describe('POST /api/clips', () => {
       const before = await Clip.count();
       const response = await upload(files[key]!).expect(422);
       expect(response.body.error.message).toMatch(message);
+      expect(response.body.error.message).not.toMatch(INTERNALS);
       await expectNothingLeft(before);
     });
   }
+
+  it('logs what the tools said, with the request id, and sends none of it', async () => {
+    const warn = vi.spyOn(console, 'warn').mockImplementation(() => undefined);
+    try {
+      const response = await upload(files.truncated!).expect(422);
+      expect(JSON.stringify(response.body)).not.toMatch(INTERNALS);
+      const logged = warn.mock.calls.map((call) => call.map(String).join(' ')).join('\n');
+      expect(logged).toContain(response.headers['x-request-id']);
+      expect(logged).toMatch(/moov atom not found/);
+    } finally {
+      warn.mockRestore();
+    }
+  });
 
   it('keeps a hostile file name as data only', async () => {
     const hostile = `../../etc/${'\u0007'}passwd/${'片'.repeat(300)}.mp4`;

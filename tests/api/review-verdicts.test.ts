@@ -151,7 +151,11 @@ describe('verdicts on the clip API', () => {
       .expect(200);
     const list = await operator.agent.get('/api/clips?state=rejected&pageSize=200').expect(200);
     const row = list.body.items.find((item: { id: number }) => item.id === id);
-    expect(row.verdict).toMatchObject({ reasonLabel: 'Privacy concern', comment: 'faces at the gate' });
+    expect(row.verdict).toMatchObject({
+      reasonLabel: 'Privacy concern', comment: 'faces at the gate', curatorName: 'Test curator',
+    });
+    expect(row.uploaderName).toBe(uploader.name);
+    expect(row.projectName).not.toBe('');
     const detail = await operator.agent.get(`/api/clips/${id}`).expect(200);
     expect(detail.body.verdicts).toHaveLength(1);
     expect(detail.body.history.at(-1)).toMatchObject({

@@ -6,7 +6,9 @@ import { addPairsetClip } from '../helpers/pairset-clips';
 import { buildPairsetNow } from '../helpers/pairset-build';
 import { addProject } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
-import { addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+import {
+  addUser, agentWithCsrf, signedInAgent, startTestServer, TEST_PASSWORD, type TestServer,
+} from '../helpers/test-server';
 
 let server: TestServer;
 let runtime: TestRuntime;
@@ -133,6 +135,26 @@ describe('Authorization: Bearer', () => {
       const response = await send();
       expect([what, response.status, response.body.error.code]).toEqual([what, 403, 'token_not_allowed']);
     }
+  });
+
+  it('is ignored on the routes open to anyone, which answer as they do without it', async () => {
+    const { token } = await newToken(engineer, 'default header');
+    await bearer(token).get('/api/health').expect(200);
+    const anonymous = await agentWithCsrf(server);
+    const withToken = (test: request.Test) => test.set('Authorization', `Bearer ${token}`);
+    const csrf = (await withToken(anonymous.agent.get('/api/auth/csrf')).expect(200)).body.token as string;
+    const signIn = await withToken(anonymous.agent.post('/api/auth/sign-in').set('x-csrf-token', csrf))
+      .send({ email: 'second@example.test', password: TEST_PASSWORD }).expect(200);
+    expect(signIn.body.email).toBe('second@example.test');
+    const other = await agentWithCsrf(server);
+    await withToken(other.agent.post('/api/auth/reset-request').set('x-csrf-token', other.csrf))
+      .send({ email: 'nobody@example.test' }).expect(202);
+    const unknownCode = 'A'.repeat(43);
+    expect((await withToken(other.agent.get(`/api/invitations/${unknownCode}`))).status).not.toBe(403);
+    // Ignored means ignored: the token signs no one in there, and CSRF still guards the writes.
+    await withToken(request(server.app).post('/api/auth/sign-in'))
+      .send({ email: 'second@example.test', password: TEST_PASSWORD }).expect(403);
+    expect((await bearer(token).get('/api/me')).status).toBe(403);
   });
 
   it('is 401 for an unknown, malformed or revoked token, and revoking twice is 409', async () => {

@@ -39,8 +39,10 @@ export const sampleStage: PipelineStage = {
       onProgress: (done) => context.progress(from + done * share),
     });
 
+    // A clip shorter than one sampling step (a single frame, a blink of the trigger) still gives its first frame.
+    const keepLast = clip.durationS * settings.sampleFps < 1;
     const sampled = await readable(() => sampleFrames(source, work.layout.framePattern,
-      { fps: settings.sampleFps, size }, media(0, FRAMES_SHARE)));
+      { fps: settings.sampleFps, size, keepLast }, media(0, FRAMES_SHARE)));
     const timesS = await checkFrames(sampled, work.layout.framesDir, await videoDurationS(source, clip), context);
     await readable(() => encodePreview(source, work.layout.preview, size, media(FRAMES_SHARE, 1 - FRAMES_SHARE)));
     await writeThumbnail(work.layout.frame(Math.floor(timesS.length / 2)), work.layout.thumbnail);

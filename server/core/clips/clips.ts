@@ -1,13 +1,14 @@
-import fs from 'node:fs';
 import { Op, literal, type Order, type WhereOptions } from 'sequelize';
 import type { ListPage } from '../../../shared/api-types';
 import { UNREVIEWED_STATES } from '../../../shared/clip-states';
 import { HttpStatus } from '../../../shared/http-status';
 import type { ClipListQuery, ClipPatch } from '../../../shared/schemas/clips';
 import type { ClipDetail, ClipSummary } from '../../../shared/types/clips';
+import { reusedCount } from '../db/count-cache';
 import { AppError, notFound } from '../errors';
 import { AuditEvent, Clip, Project, User, Verdict } from '../models';
 import type { StoragePaths } from '../storage/paths';
+import { removeFolder } from '../storage/remove-folder';
 import { recordAudit } from '../audit/audit';
 import { claimOf } from '../review/review-claims';
 import { verdictHistory } from '../review/review-history';
@@ -38,14 +39,45 @@ export async function listClips(query: ClipListQuery): Promise<ListPage<ClipSumm
   const order: Order = query.sort
     ? [[query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'DESC']]
     : [['createdAt', 'DESC'], ['id', 'DESC']];
-  const { rows, count } = await Clip.findAndCountAll({
-    where: { [Op.and]: conditions },
-    include: INCLUDE,
-    order,
-    limit: query.pageSize,
-    offset: (query.page - 1) * query.pageSize,
-  });
-  return { items: rows.map((clip) => clip.toApi()), total: count, page: query.page, pageSize: query.pageSize };
+  const where = { [Op.and]: conditions };
+  // The page is chosen and counted on clips alone (indexes apply), and only its rows are joined to their project,
+  // uploader and verdict: joining first made SQLite sort and count the whole joined table on every request.
+  const [ids, count] = await Promise.all([
+    Clip.findAll({
+      attributes: ['id'], where, order, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, raw: true,
+    }),
+    // The filter is all of the query but its page and order.
+    reusedCount(`clips ${JSON.stringify({ ...query, page: 0, pageSize: 0, sort: '' })}`, () => Clip.count({ where })),
+  ]);
+  const rows = await withPageRelations(await Clip.findAll({ where: { id: ids.map((row) => row.id) } }));
+  const byId = new Map(rows.map((clip) => [clip.id, clip]));
+  const items = ids.flatMap((row) => byId.get(row.id)?.toApi() ?? []);
+  return { items, total: count, page: query.page, pageSize: query.pageSize };
+}
+
+/**
+ * The page's projects, uploaders and verdicts in force, fetched by id and attached to their clips. Sequelize's
+ * joined include made building 50 clips cost 8–16 ms of the server's main thread, three times these lookups.
+ */
+async function withPageRelations(clips: Clip[]): Promise<Clip[]> {
+  const unique = (values: number[]) => [...new Set(values)];
+  const [projects, uploaders, verdicts] = await Promise.all([
+    Project.findAll({ where: { id: unique(clips.map((clip) => clip.projectId)) }, attributes: ['id', 'name'] }),
+    User.findAll({ where: { id: unique(clips.map((clip) => clip.uploaderId)) }, attributes: ['id', 'name'] }),
+    Verdict.findAll({
+      where: { clipId: clips.map((clip) => clip.id), supersededAt: null },
+      include: [{ model: User, as: 'curator', attributes: ['id', 'name'] }],
+    }),
+  ]);
+  const projectById = new Map(projects.map((project) => [project.id, project]));
+  const uploaderById = new Map(uploaders.map((user) => [user.id, user]));
+  const verdictByClip = new Map(verdicts.map((verdict) => [verdict.clipId, verdict]));
+  for (const clip of clips) {
+    clip.project = projectById.get(clip.projectId);
+    clip.uploader = uploaderById.get(clip.uploaderId);
+    clip.verdict = verdictByClip.get(clip.id) ?? null;
+  }
+  return clips;
 }
 
 export async function findClip(id: number): Promise<Clip> {
@@ -122,7 +154,7 @@ export async function removeClip(id: number, viewer: Viewer, paths: StoragePaths
     }, transaction);
     await clip.destroy({ transaction });
   });
-  await fs.promises.rm(paths.clipDir(id), { recursive: true, force: true });
+  await removeFolder(paths.clipDir(id));
 }
 
 /** The stored source file of a clip, for streaming with Range support. */

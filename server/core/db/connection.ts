@@ -2,14 +2,13 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { Sequelize, Transaction } from 'sequelize';
 import type { Database } from 'sqlite3';
-
-/** How long a connection waits for another process's write lock before giving up (server and worker share the file). */
-export const BUSY_TIMEOUT_MS = 10_000;
+import { POOL_BUSY_WAIT_MS, queueWrites } from './write-queue';
 
 /**
  * Opens the SQLite database that server and worker processes share (DESIGN §4):
- * WAL so readers never wait for the writer, foreign keys on, busy_timeout on every connection,
- * and IMMEDIATE transactions so a writer takes the write lock up front instead of failing on upgrade.
+ * WAL so readers never wait for the writer, foreign keys on, a short busy_timeout on every connection,
+ * IMMEDIATE transactions so a writer takes the write lock up front instead of failing on upgrade, and writes
+ * that take turns in the process and wait for other processes on timers (write-queue.ts).
  */
 export async function openDatabase(file: string): Promise<Sequelize> {
   fs.mkdirSync(path.dirname(file), { recursive: true });
@@ -21,6 +20,7 @@ export async function openDatabase(file: string): Promise<Sequelize> {
     define: { underscored: false, freezeTableName: false },
   });
   configureEveryConnection(sequelize);
+  queueWrites(sequelize);
   await sequelize.query('PRAGMA journal_mode = WAL');
   await sequelize.query('PRAGMA synchronous = NORMAL');
   return sequelize;
@@ -39,7 +39,7 @@ function configureEveryConnection(sequelize: Sequelize): void {
   manager.getConnection = async (options) => {
     const connection = await getConnection(options);
     if (!configured.has(connection)) {
-      connection.configure('busyTimeout', BUSY_TIMEOUT_MS);
+      connection.configure('busyTimeout', POOL_BUSY_WAIT_MS);
       configured.add(connection);
     }
     return connection;

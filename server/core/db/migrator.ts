@@ -8,6 +8,7 @@ import * as motion from './migrations/0005-motion';
 import * as review from './migrations/0006-review';
 import * as pairsets from './migrations/0007-pairsets';
 import * as admin from './migrations/0008-admin';
+import * as clipListOrder from './migrations/0009-clip-list-order';
 import * as motionScale from './migrations/0010-motion-scale';
 import * as cutMarks from './migrations/0011-cut-marks';
 
@@ -26,6 +27,7 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0006-review', review],
   ['0007-pairsets', pairsets],
   ['0008-admin', admin],
+  ['0009-clip-list-order', clipListOrder],
   ['0010-motion-scale', motionScale],
   ['0011-cut-marks', cutMarks],
 ];

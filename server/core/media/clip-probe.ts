@@ -2,6 +2,7 @@ import type { ClipProbe } from '../../../shared/types/clips';
 import { HttpStatus } from '../../../shared/http-status';
 import { AppError } from '../errors';
 import { decodeFirstFrame, MediaError, probeMedia, type ProbeResult, type ProbeStream } from './ffmpeg';
+import { startsLikeVideo } from './video-signature';
 
 export const MIN_SIDE_PX = 16;
 export const MAX_SIDE_PX = 8192;
@@ -28,7 +29,17 @@ export interface ProbedSource {
   ext: string;
 }
 
-const refused = (message: string) => new AppError(HttpStatus.UNPROCESSABLE_ENTITY, 'not_a_usable_video', message);
+/** A refusal in the operator's words; the tool's own output (paths, addresses) goes only to the server log. */
+const refused = (message: string, cause?: unknown) =>
+  new AppError(HttpStatus.UNPROCESSABLE_ENTITY, 'not_a_usable_video', message, undefined, cause);
+
+/** What to say of a file the tools could not read: damaged when it starts like a video, else not a video. */
+async function unreadable(file: string, displayName: string, cause: unknown): Promise<AppError> {
+  return await startsLikeVideo(file)
+    ? refused(`${displayName} is damaged or incomplete (perhaps cut off while copying): Kinefold cannot read it. `
+      + 'Copy or export it again from the camera.', cause)
+    : refused(`${displayName} is not a video file.`, cause);
+}
 
 /** Probes an upload and says in plain words why it cannot be used, or what it is. */
 export async function probeUpload(file: string, displayName: string): Promise<ProbedSource> {
@@ -36,13 +47,13 @@ export async function probeUpload(file: string, displayName: string): Promise<Pr
   try {
     result = await probeMedia(file, PROBE_TIMEOUT_MS);
   } catch (error) {
-    if (error instanceof MediaError) throw refused(`${displayName} is not a video file (${error.message}).`);
+    if (error instanceof MediaError) throw await unreadable(file, displayName, error);
     throw error;
   }
   const formatName = result.format.format_name ?? '';
   // A text file can pass for "tty" (ANSI art) or, with a low score, for some rare format; neither is footage.
   if (TEXT_FORMATS.test(formatName) || (result.format.probe_score ?? 100) < MIN_PROBE_SCORE) {
-    throw refused(`${displayName} is not a video file (ffprobe could not recognise its format).`);
+    throw refused(`${displayName} is not a video file.`, `format ${formatName}, score ${result.format.probe_score}`);
   }
   const video = result.streams.find((stream) => stream.codec_type === 'video' && !stream.disposition?.attached_pic);
   if (!video) {
@@ -68,7 +79,10 @@ export async function probeUpload(file: string, displayName: string): Promise<Pr
   try {
     await decodeFirstFrame(file, PROBE_TIMEOUT_MS);
   } catch (error) {
-    if (error instanceof MediaError) throw refused(`${displayName} is damaged: no decodable video stream.`);
+    if (error instanceof MediaError) {
+      throw refused(`${displayName} is damaged or incomplete: not one of its pictures can be decoded. `
+        + 'Copy or export it again from the camera.', error);
+    }
     throw error;
   }
   return {

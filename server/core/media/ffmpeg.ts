@@ -131,18 +131,22 @@ export async function encodePreview(source: string, output: string, size: FrameS
  * Frames at `fps` per second of the input's timeline as RGB PNG files named by `pattern` (`%06d` numbered from 0).
  * The fps filter picks frames by their timestamps, so variable-frame-rate input is sampled evenly in time;
  * showinfo reports the time of each frame written, and passthrough keeps the muxer from adding or dropping any.
+ * `keepLast` is for footage shorter than one step, which would otherwise give no frame.
  */
 export async function sampleFrames(
   source: string,
   pattern: string,
-  { fps, size }: { fps: number; size: FrameSize },
+  { fps, size, keepLast = false }: { fps: number; size: FrameSize; keepLast?: boolean },
   options: RunOptions,
 ): Promise<SampledFrames> {
   const timesS: number[] = [];
   const problems: string[] = [];
+  // The fps filter rounds the end of the input to its own steps, so footage shorter than half a step yields no
+  // frame at all; `eof_action=pass` lets the last (here: only) frame through (FFmpeg filters manual, fps).
+  const fpsFilter = keepLast ? `fps=${fps}:eof_action=pass` : `fps=${fps}`;
   const command = ffmpeg(source, { timeout: options.timeoutMs / 1000 })
     .inputOptions(['-nostdin'])
-    .videoFilters([`fps=${fps}`, `scale=${size.width}:${size.height}`, 'setsar=1', 'showinfo'])
+    .videoFilters([fpsFilter, `scale=${size.width}:${size.height}`, 'setsar=1', 'showinfo'])
     .outputOptions([...COMMON_OUTPUT, '-vsync', 'passthrough', '-pix_fmt', 'rgb24', '-start_number', '0'])
     .format('image2')
     .output(pattern);

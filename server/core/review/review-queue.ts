@@ -3,6 +3,7 @@ import type { ListPage } from '../../../shared/api-types';
 import { FLAG_NAMES, type FlagName } from '../../../shared/flag-thresholds';
 import type { ReviewFilter, ReviewQueueQuery, ReviewSortField } from '../../../shared/schemas/review';
 import type { ReviewFacets, ReviewQueueItem } from '../../../shared/types/review';
+import { reusedCount } from '../db/count-cache';
 import { Clip } from '../models';
 
 /**
@@ -142,11 +143,13 @@ export function toItem(row: QueueRow): ReviewQueueItem {
 export async function listReviewQueue(query: ReviewQueueQuery, now = new Date()): Promise<ListPage<ReviewQueueItem>> {
   const sql = queueSql(query, now);
   const sequelize = Clip.sequelize!;
-  const [rows, counted] = await Promise.all([
+  const countValues = Object.entries(sql.replacements).filter(([name]) => sql.count.includes(`:${name}`));
+  const [rows, total] = await Promise.all([
     sequelize.query<QueueRow>(sql.page, { replacements: sql.replacements, type: QueryTypes.SELECT }),
-    sequelize.query<{ total: number }>(sql.count, { replacements: sql.replacements, type: QueryTypes.SELECT }),
+    reusedCount(`${sql.count} ${JSON.stringify(countValues)}`, async () => (await sequelize.query<{ total: number }>(
+      sql.count, { replacements: sql.replacements, type: QueryTypes.SELECT }))[0]?.total ?? 0),
   ]);
-  return { items: rows.map(toItem), total: counted[0]?.total ?? 0, page: query.page, pageSize: query.pageSize };
+  return { items: rows.map(toItem), total, page: query.page, pageSize: query.pageSize };
 }
 
 /** Ids of the queue's clips matching a filter, at most `limit`, for a bulk action (in its transaction). */

@@ -8,11 +8,13 @@ import type { StoragePaths } from '../storage/paths';
 export const STALE_UPLOAD_MS = 60 * 60_000;
 
 /**
- * At server start: removes partial uploads older than an hour from `incoming/` and releases the bytes their
- * reservations still hold, so a crash mid-upload costs neither disk nor quota.
+ * Removes partial uploads begun before `before` (by default an hour ago) from `incoming/` and releases the bytes
+ * their reservations still hold, so a crash mid-upload costs neither disk nor quota.
  */
-export async function cleanStaleUploads(paths: StoragePaths, now = Date.now()): Promise<{ files: number; reservations: number }> {
-  const cutoff = now - STALE_UPLOAD_MS;
+export async function cleanStaleUploads(
+  paths: StoragePaths, { before = Date.now() - STALE_UPLOAD_MS }: { before?: number } = {},
+): Promise<{ files: number; reservations: number }> {
+  const cutoff = before;
   let files = 0;
   const entries = await fs.promises.readdir(paths.incomingDir).catch(() => [] as string[]);
   for (const entry of entries) {
