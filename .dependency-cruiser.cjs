@@ -23,7 +23,10 @@ module.exports = {
       severity: 'error',
       comment: 'The back-end core takes plain arguments; it knows nothing of Express, routes or middlewares.',
       from: { path: '^server/core/' },
-      to: { path: ['^server/', '^node_modules/(express|multer|passport|express-session|cookie-parser)/'], pathNot: '^server/core/' },
+      to: {
+        path: ['^server/', '^node_modules/(express|multer|passport|express-session|cookie-parser)/'],
+        pathNot: '^server/core/',
+      },
     },
     {
       name: 'server-not-worker',
@@ -84,7 +87,11 @@ module.exports = {
     doNotFollow: { path: 'node_modules' },
     tsPreCompilationDeps: true,
     tsConfig: { fileName: 'tsconfig.json' },
-    enhancedResolveOptions: { exportsFields: ['exports'], conditionNames: ['import', 'require', 'node', 'default'], extensions: ['.ts', '.mjs', '.js', '.vue', '.json'] },
+    enhancedResolveOptions: {
+      exportsFields: ['exports'],
+      conditionNames: ['import', 'require', 'node', 'default'],
+      extensions: ['.ts', '.mjs', '.js', '.vue', '.json'],
+    },
     exclude: { path: '(^|/)(node_modules|dist)/' },
   },
 };

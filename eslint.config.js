@@ -34,10 +34,13 @@ export default tseslint.config(
     files: ['server/**/*.ts', 'worker/**/*.ts'],
     ignores: ['server/core/jobs/enqueue.ts'],
     rules: {
-      'no-restricted-syntax': ['error', {
-        selector: "CallExpression[callee.object.name='Job'][callee.property.name=/^(create|bulkCreate|upsert)$/]",
-        message: 'Create jobs with enqueueJob(kind, payload, { transaction }) from server/core/jobs/enqueue.ts.',
-      }],
+      'no-restricted-syntax': [
+        'error',
+        {
+          selector: "CallExpression[callee.object.name='Job'][callee.property.name=/^(create|bulkCreate|upsert)$/]",
+          message: 'Create jobs with enqueueJob(kind, payload, { transaction }) from server/core/jobs/enqueue.ts.',
+        },
+      ],
     },
   },
   {

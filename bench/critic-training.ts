@@ -21,14 +21,18 @@ const KS = [16, 64, 256];
 /** Descriptor pairs that share a little: b = 0.3·a + noise, both of the report's descriptor length. */
 function pairs(seed: number): DescriptorPairs {
   const random = mulberry32(seed);
-  const a = Array.from({ length: PAIRS }, () => Float32Array.from({ length: DESCRIPTOR_LENGTH },
-    () => standardNormal(random)));
+  const a = Array.from({ length: PAIRS }, () =>
+    Float32Array.from({ length: DESCRIPTOR_LENGTH }, () => standardNormal(random)),
+  );
   const b = a.map((x) => x.map((value) => 0.3 * value + standardNormal(random)));
   return { a, b, clips: a.map((_, i) => i % CLIPS) };
 }
 
 const task = (seed: number): Omit<CriticTask, 'kind'> => ({
-  train: pairs(seed), heldOut: pairs(seed + 1), ks: KS, measureSeed: 1,
+  train: pairs(seed),
+  heldOut: pairs(seed + 1),
+  ks: KS,
+  measureSeed: 1,
   options: { ...DEFAULT_CRITIC, tied: false, temperature: 0.07, seed },
 });
 const seconds = (start: bigint) => Number(process.hrtime.bigint() - start) / 1e9;
@@ -54,8 +58,12 @@ const twoS = seconds(start);
 await pool.destroy();
 
 console.log(`fixed embedding InfoNCE, ${PAIRS} pairs, K = ${KS.join(', ')}: ${fixedS.toFixed(3)} s (reference)`);
-console.log(`one critic, one thread: ${oneS.toFixed(2)} s = ${(oneS / fixedS).toFixed(0)}× the reference, `
-  + `${(oneS / BUDGET_S).toFixed(2)}× the ${BUDGET_S} s budget; CPU time ${oneCpuS.toFixed(2)} s = `
-  + `${(oneCpuS / BUDGET_S).toFixed(2)}× the budget`);
-console.log(`two view pairs in the pool (2 threads): ${twoS.toFixed(2)} s, ${(twoS / 2).toFixed(2)} s per view pair = `
-  + `${(twoS / 2 / BUDGET_S).toFixed(2)}× the budget`);
+console.log(
+  `one critic, one thread: ${oneS.toFixed(2)} s = ${(oneS / fixedS).toFixed(0)}× the reference, ` +
+    `${(oneS / BUDGET_S).toFixed(2)}× the ${BUDGET_S} s budget; CPU time ${oneCpuS.toFixed(2)} s = ` +
+    `${(oneCpuS / BUDGET_S).toFixed(2)}× the budget`,
+);
+console.log(
+  `two view pairs in the pool (2 threads): ${twoS.toFixed(2)} s, ${(twoS / 2).toFixed(2)} s per view pair = ` +
+    `${(twoS / 2 / BUDGET_S).toFixed(2)}× the budget`,
+);

@@ -23,8 +23,10 @@ import { paddedCopy } from '../tests/helpers/upload-over-http';
 
 const { values } = parseArgs({
   options: {
-    storage: { type: 'string' }, seconds: { type: 'string', default: '10' },
-    connections: { type: 'string', default: '50' }, uploads: { type: 'string', default: '24' },
+    storage: { type: 'string' },
+    seconds: { type: 'string', default: '10' },
+    connections: { type: 'string', default: '50' },
+    uploads: { type: 'string', default: '24' },
     mb: { type: 'string', default: '50' },
   },
 });
@@ -44,8 +46,11 @@ const media = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-load-media-'));
 /** The review-queue benchmark seeds 100,000 clips into <work>/storage when it finds none; one short run of it. */
 async function seed(): Promise<void> {
   console.log(`seeding (or reusing) 100,000 clips in ${work} …`);
-  await promisify(execFile)(process.execPath, ['--import', 'tsx', 'bench/review-queue.ts', '--storage', work,
-    '--runs', '1'], { maxBuffer: 16 * 1024 * 1024 });
+  await promisify(execFile)(
+    process.execPath,
+    ['--import', 'tsx', 'bench/review-queue.ts', '--storage', work, '--runs', '1'],
+    { maxBuffer: 16 * 1024 * 1024 },
+  );
 }
 
 interface Row {
@@ -68,14 +73,20 @@ function quantile(sorted: number[], q: number): number {
 async function load(name: string, requests: autocannon.Request[], baseUrl: string): Promise<Row> {
   const times: number[] = [];
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const instance = autocannon({ url: baseUrl, connections: CONNECTIONS, duration: SECONDS, requests },
-      (error, done) => (error ? reject(error) : resolve(done)));
+    const instance = autocannon(
+      { url: baseUrl, connections: CONNECTIONS, duration: SECONDS, requests },
+      (error, done) => (error ? reject(error) : resolve(done)),
+    );
     instance.on('response', (_client, _status, _bytes, ms) => times.push(ms));
   });
   times.sort((a, b) => a - b);
   return {
-    name, rps: result.requests.average, p50: quantile(times, 0.5), p95: quantile(times, 0.95),
-    p99: quantile(times, 0.99), errors: result.errors + result.timeouts + result.non2xx,
+    name,
+    rps: result.requests.average,
+    p50: quantile(times, 0.5),
+    p95: quantile(times, 0.95),
+    p99: quantile(times, 0.99),
+    errors: result.errors + result.timeouts + result.non2xx,
   };
 }
 
@@ -99,22 +110,27 @@ async function uploads(app: RunningApp, sessions: Session[]): Promise<string> {
   const projectId = ((await created.json()) as { id: number }).id;
   const base = await makeTestClip(media, 'base.mp4', { seconds: 1 });
   const files = Array.from({ length: UPLOADS }, (_, index) =>
-    paddedCopy(base, path.join(media, `load-${index}.mp4`), UPLOAD_MB * 1024 * 1024, index));
+    paddedCopy(base, path.join(media, `load-${index}.mp4`), UPLOAD_MB * 1024 * 1024, index),
+  );
   // Operators and admins may upload; the four sessions' uploads go as the operator and the admin.
   const uploaders = [sessions[ROLES.indexOf('operator')]!, admin];
   const pid = app.server.pid!;
   const before = rssMb(pid);
   let peak = before;
-  const sampler = setInterval(() => { peak = Math.max(peak, rssMb(pid)); }, 100);
+  const sampler = setInterval(() => {
+    peak = Math.max(peak, rssMb(pid));
+  }, 100);
   const begin = performance.now();
   const answers = await Promise.all(files.map((file, index) => app.upload(uploaders[index % 2]!, file, projectId)));
   const seconds = (performance.now() - begin) / 1000;
   clearInterval(sampler);
   const errors = answers.filter((answer) => answer.status !== 201);
   for (const error of errors.slice(0, 3)) console.log(`  upload answered ${error.status}: ${error.body.slice(0, 200)}`);
-  return `| ${UPLOADS} concurrent ${UPLOAD_MB} MB uploads | ${seconds.toFixed(1)} s in all | `
-    + `${(UPLOADS * UPLOAD_MB / seconds).toFixed(0)} MB/s | errors ${errors.length} | `
-    + `server RSS ${before.toFixed(0)} → peak ${peak.toFixed(0)} MB (growth ${(peak - before).toFixed(0)} MB) |`;
+  return (
+    `| ${UPLOADS} concurrent ${UPLOAD_MB} MB uploads | ${seconds.toFixed(1)} s in all | ` +
+    `${((UPLOADS * UPLOAD_MB) / seconds).toFixed(0)} MB/s | errors ${errors.length} | ` +
+    `server RSS ${before.toFixed(0)} → peak ${peak.toFixed(0)} MB (growth ${(peak - before).toFixed(0)} MB) |`
+  );
 }
 
 await seed();
@@ -125,22 +141,32 @@ try {
   const health = await load('GET /api/health (floor)', [{ method: 'GET', path: '/api/health' }], app.baseUrl);
   const idle = await load('queue + clip list, worker idle', listRequests(sessions), app.baseUrl);
 
-  const busySources = await Promise.all(Array.from({ length: BUSY_CLIPS }, (_, index) =>
-    makePatternClip(path.join(media, `busy-${index}.mp4`), BUSY_CLIP_S, `hue=h=${index * 40}`)));
+  const busySources = await Promise.all(
+    Array.from({ length: BUSY_CLIPS }, (_, index) =>
+      makePatternClip(path.join(media, `busy-${index}.mp4`), BUSY_CLIP_S, `hue=h=${index * 40}`),
+    ),
+  );
   const admin = sessions[ROLES.indexOf('admin')]!;
   const project = await app.api(admin, 'POST', '/api/projects', { name: `Busy worker ${Date.now()}` });
   const busyProject = ((await project.json()) as { id: number }).id;
   for (const file of busySources) await app.upload(admin, file, busyProject);
   const busy = await load('queue + clip list, worker busy', listRequests(sessions), app.baseUrl);
 
-  console.log(`\n${CONNECTIONS} connections, ${SECONDS} s each, ${os.cpus().length} cores, load average before: `
-    + `${os.loadavg().map((value) => value.toFixed(1)).join(' ')}\n`);
+  console.log(
+    `\n${CONNECTIONS} connections, ${SECONDS} s each, ${os.cpus().length} cores, load average before: ` +
+      `${os
+        .loadavg()
+        .map((value) => value.toFixed(1))
+        .join(' ')}\n`,
+  );
   console.log('| run | requests/s | p50 | p95 | p99 | errors | requests/s vs. floor |');
   console.log('|---|---|---|---|---|---|---|');
   for (const row of [health, idle, busy]) {
-    console.log(`| ${row.name} | ${row.rps.toFixed(0)} | ${row.p50.toFixed(0)} ms | ${row.p95.toFixed(0)} ms `
-      + `| ${row.p99.toFixed(0)} ms `
-      + `| ${row.errors} | ${(row.rps / health.rps).toFixed(2)} |`);
+    console.log(
+      `| ${row.name} | ${row.rps.toFixed(0)} | ${row.p50.toFixed(0)} ms | ${row.p95.toFixed(0)} ms ` +
+        `| ${row.p99.toFixed(0)} ms ` +
+        `| ${row.errors} | ${(row.rps / health.rps).toFixed(2)} |`,
+    );
   }
   console.log(`\n${await uploads(app, sessions)}`);
 } finally {

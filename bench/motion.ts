@@ -76,14 +76,23 @@ async function grove3(): Promise<Pair> {
   const first = new Float32Array(grove.grey.length);
   warpBackward(grove.grey, grove.width, grove.height, usable, first);
   const { width, height } = grove;
-  return { name: `Grove3 ${width}×${height}`, width, height, prev: toByte(first), next: toByte(grove.grey),
-    truth: grove.truth };
+  return {
+    name: `Grove3 ${width}×${height}`,
+    width,
+    height,
+    prev: toByte(first),
+    next: toByte(grove.grey),
+    truth: grove.truth,
+  };
 }
 
 /** Our estimators on one thread, in a process of their own (see motion-one-thread.ts), on the pair's raw files. */
 async function oneThread(pair: Pair, base: string): Promise<OneThreadFigures> {
-  const { stdout } = await promisify(execFile)(process.execPath, ['--import', 'tsx', ONE_THREAD, base,
-    String(pair.width), String(pair.height), String(RUNS)], { maxBuffer: 1 << 20 });
+  const { stdout } = await promisify(execFile)(
+    process.execPath,
+    ['--import', 'tsx', ONE_THREAD, base, String(pair.width), String(pair.height), String(RUNS)],
+    { maxBuffer: 1 << 20 },
+  );
   return JSON.parse(stdout) as OneThreadFigures;
 }
 
@@ -96,8 +105,12 @@ function shared(frame: Float32Array): SharedArrayBuffer {
 /** Pairs per second with RUNS·THREADS tasks in flight on the pool, after one warm-up task per thread. */
 async function withPool(pool: Piscina, pair: Pair, estimator: EstimatorName): Promise<number> {
   const task: BenchPairTask = {
-    estimator, params: resolveParams(estimator), width: pair.width, height: pair.height,
-    prev: shared(pair.prev), next: shared(pair.next),
+    estimator,
+    params: resolveParams(estimator),
+    width: pair.width,
+    height: pair.height,
+    prev: shared(pair.prev),
+    next: shared(pair.next),
   };
   await Promise.all(Array.from({ length: THREADS }, () => pool.run(task)));
   const count = RUNS * THREADS;
@@ -107,7 +120,9 @@ async function withPool(pool: Piscina, pair: Pair, estimator: EstimatorName): Pr
 }
 
 async function writeGreyPng(frame: Float32Array, width: number, height: number, file: string): Promise<string> {
-  await sharp(Buffer.from(Uint8Array.from(frame)), { raw: { width, height, channels: 1 } }).png().toFile(file);
+  await sharp(Buffer.from(Uint8Array.from(frame)), { raw: { width, height, channels: 1 } })
+    .png()
+    .toFile(file);
   return file;
 }
 
@@ -120,7 +135,11 @@ async function writePair(pair: Pair, index: number): Promise<{ files: string[]; 
   const a = await writeGreyPng(pair.prev, pair.width, pair.height, `${base}-a.png`);
   const b = await writeGreyPng(pair.next, pair.width, pair.height, `${base}-b.png`);
   fs.writeFileSync(`${base}-truth.flo`, encodeFlo(pair.truth, pair.width, pair.height));
-  for (const [suffix, data] of [['a', pair.prev], ['b', pair.next], ['truth', pair.truth]] as const) {
+  for (const [suffix, data] of [
+    ['a', pair.prev],
+    ['b', pair.next],
+    ['truth', pair.truth],
+  ] as const) {
     fs.writeFileSync(`${base}-${suffix}.f32`, Buffer.from(data.buffer, data.byteOffset, data.byteLength));
   }
   return { files: [a, b, `${base}-truth.flo`], base };
@@ -129,14 +148,19 @@ async function writePair(pair: Pair, index: number): Promise<{ files: string[]; 
 /** Native OpenCV on the same frames, one thread; null when Debian's python3-opencv is missing. */
 async function native(files: string[]): Promise<NativeFigures | null> {
   try {
-    const { stdout } = await promisify(execFile)(PYTHON, [REFERENCE, ...files, '--runs', String(RUNS),
-      '--threads', '1'], { cwd: work, maxBuffer: 1 << 20 });
+    const { stdout } = await promisify(execFile)(
+      PYTHON,
+      [REFERENCE, ...files, '--runs', String(RUNS), '--threads', '1'],
+      { cwd: work, maxBuffer: 1 << 20 },
+    );
     const report = JSON.parse(stdout) as Record<string, NativeFigures>;
     // The tuned allocator spares OpenCV the page faults of fresh large buffers: the stricter reference.
     return report['tuned-allocator']!;
   } catch (error) {
-    console.warn(`native OpenCV not measured (${(error as Error).message.split('\n')[0]}); `
-      + 'install it with: apt-get install -y python3-opencv');
+    console.warn(
+      `native OpenCV not measured (${(error as Error).message.split('\n')[0]}); ` +
+        'install it with: apt-get install -y python3-opencv',
+    );
     return null;
   }
 }
@@ -153,9 +177,11 @@ function report(pair: Pair, ours: Map<EstimatorName, Figures>, reference: Native
   const dis = reference ? 1000 / reference['dis-medium'].ms : undefined;
   for (const [estimator, { ms, poolPairsPerS, aee }] of ours) {
     const pairsPerS = 1000 / ms;
-    console.log(`| ${pair.name} | ${estimator} | ${fmt(ms)} | ${fmt(pairsPerS)} | ${fmt(poolPairsPerS)} | `
-      + `${fmt(aee, 3)} | ${ratio(pairsPerS, fb)} | ${ratio(poolPairsPerS, fb)} | ${ratio(pairsPerS, dis)} | `
-      + `${ratio(poolPairsPerS, dis)} | ${ratio(aee, reference?.farneback.aee)} |`);
+    console.log(
+      `| ${pair.name} | ${estimator} | ${fmt(ms)} | ${fmt(pairsPerS)} | ${fmt(poolPairsPerS)} | ` +
+        `${fmt(aee, 3)} | ${ratio(pairsPerS, fb)} | ${ratio(poolPairsPerS, fb)} | ${ratio(pairsPerS, dis)} | ` +
+        `${ratio(poolPairsPerS, dis)} | ${ratio(aee, reference?.farneback.aee)} |`,
+    );
   }
   for (const method of reference ? NATIVE : []) {
     const { ms, aee } = reference![method];
@@ -166,7 +192,7 @@ function report(pair: Pair, ours: Map<EstimatorName, Figures>, reference: Native
 
 const fmt = (value: number, digits = 1) => value.toFixed(digits);
 const ratio = (ours: number, theirs: number | undefined) =>
-  (theirs === undefined ? '—' : `${(ours / theirs).toFixed(2)}×`);
+  theirs === undefined ? '—' : `${(ours / theirs).toFixed(2)}×`;
 
 async function main(): Promise<void> {
   const pairs: Pair[] = [
@@ -179,15 +205,27 @@ async function main(): Promise<void> {
 
   const pool = new Piscina({
     filename: new URL('./motion-thread-entry.mjs', import.meta.url).href,
-    execArgv: [], minThreads: THREADS, maxThreads: THREADS, idleTimeout: 60_000,
+    execArgv: [],
+    minThreads: THREADS,
+    maxThreads: THREADS,
+    idleTimeout: 60_000,
   });
-  const load = os.loadavg().map((value) => value.toFixed(2)).join(' ');
-  console.log(`Kinefold motion benchmark: median of ${RUNS} runs, best of ${ROUNDS} rounds, pool of ${THREADS} `
-    + `threads, Node ${process.version}, ${os.cpus()[0]?.model ?? 'unknown CPU'}, load average ${load} at the start.`);
-  console.log('Ratios: pairs/s against native OpenCV Farnebäck and DIS medium on one thread; AEE against native '
-    + 'Farnebäck (below 1 is better).\n');
-  console.log('| pair | method | ms/pair | pairs/s | pool pairs/s | AEE px | ×FB 1 thread | ×FB pool '
-    + '| ×DIS-m 1 thread | ×DIS-m pool | AEE ÷ FB |');
+  const load = os
+    .loadavg()
+    .map((value) => value.toFixed(2))
+    .join(' ');
+  console.log(
+    `Kinefold motion benchmark: median of ${RUNS} runs, best of ${ROUNDS} rounds, pool of ${THREADS} ` +
+      `threads, Node ${process.version}, ${os.cpus()[0]?.model ?? 'unknown CPU'}, load average ${load} at the start.`,
+  );
+  console.log(
+    'Ratios: pairs/s against native OpenCV Farnebäck and DIS medium on one thread; AEE against native ' +
+      'Farnebäck (below 1 is better).\n',
+  );
+  console.log(
+    '| pair | method | ms/pair | pairs/s | pool pairs/s | AEE px | ×FB 1 thread | ×FB pool ' +
+      '| ×DIS-m 1 thread | ×DIS-m pool | AEE ÷ FB |',
+  );
   console.log('|---|---|---|---|---|---|---|---|---|---|---|');
   try {
     for (const [index, pair] of pairs.entries()) {

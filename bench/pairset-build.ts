@@ -45,10 +45,27 @@ async function makeClips(frameBytesWanted: number, projectId: number, uploaderId
   let seed = 0;
   while (written < frameBytesWanted) {
     const clip = await Clip.create({
-      projectId, uploaderId, originalName: `noise-${seed}.mp4`, sizeBytes: 1, storedBytes: 1,
-      sha256: createHash('sha256').update(String(seed)).digest('hex'), sourceExt: 'mp4', state: 'accepted',
-      container: 'mov,mp4', codec: 'h264', durationS: FRAMES_PER_CLIP / 5, fps: 25, width: WIDTH, height: HEIGHT,
-      rotation: 0, site: '', rig: '', capturedAt: null, tags: [], notes: '', frameCount: FRAMES_PER_CLIP,
+      projectId,
+      uploaderId,
+      originalName: `noise-${seed}.mp4`,
+      sizeBytes: 1,
+      storedBytes: 1,
+      sha256: createHash('sha256').update(String(seed)).digest('hex'),
+      sourceExt: 'mp4',
+      state: 'accepted',
+      container: 'mov,mp4',
+      codec: 'h264',
+      durationS: FRAMES_PER_CLIP / 5,
+      fps: 25,
+      width: WIDTH,
+      height: HEIGHT,
+      rotation: 0,
+      site: '',
+      rig: '',
+      capturedAt: null,
+      tags: [],
+      notes: '',
+      frameCount: FRAMES_PER_CLIP,
     });
     const layout = paths.clipDerived(clip.id);
     fs.mkdirSync(layout.framesDir, { recursive: true });
@@ -59,7 +76,9 @@ async function makeClips(frameBytesWanted: number, projectId: number, uploaderId
         noise.update(`${seed}:${index}:${offset}`);
         noise.copy().digest().copy(pixels, offset);
       }
-      await sharp(pixels, { raw: { width: WIDTH, height: HEIGHT, channels: 3 } }).png().toFile(layout.frame(index));
+      await sharp(pixels, { raw: { width: WIDTH, height: HEIGHT, channels: 3 } })
+        .png()
+        .toFile(layout.frame(index));
       written += fs.statSync(layout.frame(index)).size;
       await Frame.create({ clipId: clip.id, index, timeS: index / 5, sharpness: 500, cutBefore: false });
     }
@@ -83,16 +102,28 @@ async function alternate(sides: [string, () => Promise<void>][]): Promise<number
 
 const sequelize = await openKinefoldDatabase(config);
 try {
-  const user = await createUser({ email: 'bench@example.test', name: 'Bench', role: 'engineer',
-    password: 'benchmark-password-long' }, 10, null);
+  const user = await createUser(
+    { email: 'bench@example.test', name: 'Bench', role: 'engineer', password: 'benchmark-password-long' },
+    10,
+    null,
+  );
   const project = await Project.create({
-    name: 'Pairset benchmark', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: WIDTH,
-    deltas: [1], flagThresholds: {},
+    name: 'Pairset benchmark',
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: WIDTH,
+    deltas: [1],
+    flagThresholds: {},
   });
   // Each frame is read twice (as a at t and as b at t − 1), so half the wanted shard bytes in frames.
-  await makeClips(Number(values.mb) * 1024 ** 2 / 2, project.id, user.id);
+  await makeClips((Number(values.mb) * 1024 ** 2) / 2, project.id, user.id);
   const definition = pairsetDefinitionSchema.parse({
-    name: 'copy only', projectIds: [project.id], views: ['frame', 'neighbour'], deltas: [1], graph: 'core',
+    name: 'copy only',
+    projectIds: [project.id],
+    views: ['frame', 'neighbour'],
+    deltas: [1],
+    graph: 'core',
     split: { val: 0.1, seed: 1 },
   });
   const sources = await loadPairsetSources(definition);
@@ -104,35 +135,56 @@ try {
     fs.cpSync(paths.clipDerived(clip.id).framesDir, path.join(mirror, String(clip.id)), { recursive: true });
   }
   const list = path.join(work, 'files.txt');
-  fs.writeFileSync(list, planned.flatMap((item) => [
-    viewSourceFile(paths, item.clipId, item.moment, item.pair.a),
-    path.join(mirror, String(item.clipId), path.basename(viewSourceFile(paths, item.clipId, item.moment, item.pair.b))),
-  ]).join('\n'));
+  fs.writeFileSync(
+    list,
+    planned
+      .flatMap((item) => [
+        viewSourceFile(paths, item.clipId, item.moment, item.pair.a),
+        path.join(
+          mirror,
+          String(item.clipId),
+          path.basename(viewSourceFile(paths, item.clipId, item.moment, item.pair.b)),
+        ),
+      ])
+      .join('\n'),
+  );
 
   const tarFile = path.join(work, 'reference.tar');
   const outDir = path.join(work, 'shards');
   let shardBytes = 0;
   const summedFile = path.join(work, 'reference-summed.tar');
   const [tarS, summedS, shardS] = await alternate([
-    ['tar -cf of the same files', async () => {
-      fs.rmSync(tarFile, { force: true });
-      await run('tar', ['-cf', tarFile, '-P', '-T', list]);
-    }],
-    ['tar -cf | tee | sha256sum (the same with a checksum)', async () => {
-      fs.rmSync(summedFile, { force: true });
-      const script = 'tar -cf - -P -T "$1" | tee "$2" | sha256sum';
-      await run('bash', ['-o', 'pipefail', '-c', script, 'bench', list, summedFile]);
-    }],
-    ['Kinefold shards (tar-stream, SHA-256)', async () => {
-      fs.rmSync(outDir, { recursive: true, force: true });
-      fs.mkdirSync(path.join(outDir, 'staging'), { recursive: true });
-      const shards = await writeShards(planned, {
-        outDir, stagingDir: path.join(outDir, 'staging'), shardMB: definition.shardMB,
-        clips: new Map(sources.map((clip) => [clip.id, clip])),
-        member: { paths, motionFormat: definition.motionFormat }, progress: async () => undefined,
-      });
-      shardBytes = shards.reduce((sum, shard) => sum + shard.bytes, 0);
-    }],
+    [
+      'tar -cf of the same files',
+      async () => {
+        fs.rmSync(tarFile, { force: true });
+        await run('tar', ['-cf', tarFile, '-P', '-T', list]);
+      },
+    ],
+    [
+      'tar -cf | tee | sha256sum (the same with a checksum)',
+      async () => {
+        fs.rmSync(summedFile, { force: true });
+        const script = 'tar -cf - -P -T "$1" | tee "$2" | sha256sum';
+        await run('bash', ['-o', 'pipefail', '-c', script, 'bench', list, summedFile]);
+      },
+    ],
+    [
+      'Kinefold shards (tar-stream, SHA-256)',
+      async () => {
+        fs.rmSync(outDir, { recursive: true, force: true });
+        fs.mkdirSync(path.join(outDir, 'staging'), { recursive: true });
+        const shards = await writeShards(planned, {
+          outDir,
+          stagingDir: path.join(outDir, 'staging'),
+          shardMB: definition.shardMB,
+          clips: new Map(sources.map((clip) => [clip.id, clip])),
+          member: { paths, motionFormat: definition.motionFormat },
+          progress: async () => undefined,
+        });
+        shardBytes = shards.reduce((sum, shard) => sum + shard.bytes, 0);
+      },
+    ],
   ]);
   const tarBytes = fs.statSync(tarFile).size;
   const tarContent = fs.readFileSync(tarFile);
@@ -150,17 +202,26 @@ try {
   await pool.destroy();
   const built = (await Pairset.findByPk(created.id))!;
 
-  console.log(`${planned.length} pairs from ${sources.length} clips; tar ${mib(tarBytes).toFixed(0)} MiB, `
-    + `shards ${mib(shardBytes).toFixed(0)} MiB`);
-  const ratio = (mib(shardBytes) / shardS) / (mib(tarBytes) / tarS);
-  const summedRatio = (mib(shardBytes) / shardS) / (mib(tarBytes) / summedS);
-  console.log(`tar -cf: ${(mib(tarBytes) / tarS).toFixed(0)} MiB/s; with sha256sum: ${(mib(tarBytes) / summedS)
-    .toFixed(0)} MiB/s`);
-  console.log(`shards:  ${(mib(shardBytes) / shardS).toFixed(0)} MiB/s, ${ratio.toFixed(2)}× tar -cf `
-    + `(goal ≥ 0.8×), ${summedRatio.toFixed(2)}× tar -cf with sha256sum`);
+  console.log(
+    `${planned.length} pairs from ${sources.length} clips; tar ${mib(tarBytes).toFixed(0)} MiB, ` +
+      `shards ${mib(shardBytes).toFixed(0)} MiB`,
+  );
+  const ratio = mib(shardBytes) / shardS / (mib(tarBytes) / tarS);
+  const summedRatio = mib(shardBytes) / shardS / (mib(tarBytes) / summedS);
+  console.log(
+    `tar -cf: ${(mib(tarBytes) / tarS).toFixed(0)} MiB/s; with sha256sum: ${(mib(tarBytes) / summedS).toFixed(
+      0,
+    )} MiB/s`,
+  );
+  console.log(
+    `shards:  ${(mib(shardBytes) / shardS).toFixed(0)} MiB/s, ${ratio.toFixed(2)}× tar -cf ` +
+      `(goal ≥ 0.8×), ${summedRatio.toFixed(2)}× tar -cf with sha256sum`,
+  );
   console.log(`(SHA-256 alone of the same bytes: ${(mib(tarBytes) / hashS).toFixed(0)} MiB/s on this machine now)`);
-  console.log(`whole build-pairset job (plan, shards, pair difficulty, commit): ${jobS.toFixed(2)} s, state `
-    + `${built.state}, ${mib(Number(built.bytes)).toFixed(0)} MiB`);
+  console.log(
+    `whole build-pairset job (plan, shards, pair difficulty, commit): ${jobS.toFixed(2)} s, state ` +
+      `${built.state}, ${mib(Number(built.bytes)).toFixed(0)} MiB`,
+  );
 } finally {
   await sequelize.close();
   fs.rmSync(work, { recursive: true, force: true });

@@ -31,9 +31,30 @@ async function renderClip(): Promise<string> {
   const file = path.join(work, 'long-row-pass-720p.mp4');
   const camera = `crop=${WIDTH}:${HEIGHT}:x='560+500*sin(t/9)':y='315+300*sin(t/13)'`;
   const crate = "drawbox=x='mod(t*160,1500)-120':y=420:w=140:h=92:color=0xc2410c@0.95:t=fill";
-  await promisify(execFile)(ffmpegInstaller.path, ['-v', 'error', '-y', '-loop', '1', '-framerate', '25', '-i', texture,
-    '-vf', `${camera},${crate},format=yuv420p`, '-t', String(SECONDS), '-c:v', 'libx264', '-preset', 'veryfast',
-    '-crf', '22', '-movflags', '+faststart', file]);
+  await promisify(execFile)(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    '-loop',
+    '1',
+    '-framerate',
+    '25',
+    '-i',
+    texture,
+    '-vf',
+    `${camera},${crate},format=yuv420p`,
+    '-t',
+    String(SECONDS),
+    '-c:v',
+    'libx264',
+    '-preset',
+    'veryfast',
+    '-crf',
+    '22',
+    '-movflags',
+    '+faststart',
+    file,
+  ]);
   return file;
 }
 
@@ -58,8 +79,10 @@ function percentile(values: number[], share: number): number {
 
 function describe(name: string, latencies: Latencies): string {
   const { ms } = latencies;
-  return `${name}: ${ms.length} requests, p50 ${percentile(ms, 0.5).toFixed(1)} ms, `
-    + `p95 ${percentile(ms, 0.95).toFixed(1)} ms, max ${Math.max(...ms).toFixed(1)} ms`;
+  return (
+    `${name}: ${ms.length} requests, p50 ${percentile(ms, 0.5).toFixed(1)} ms, ` +
+    `p95 ${percentile(ms, 0.95).toFixed(1)} ms, max ${Math.max(...ms).toFixed(1)} ms`
+  );
 }
 
 /** The requests a person's screens make while a clip processes: who am I, the library page, the clip itself. */
@@ -67,8 +90,10 @@ const SCREEN_REQUESTS = ['/api/me', '/api/clips?page=1&pageSize=25'];
 
 const renderStart = performance.now();
 const file = await renderClip();
-console.log(`clip: ${SECONDS} s ${WIDTH}×${HEIGHT} at 25 frames/s, ${(fs.statSync(file).size / 1024 ** 2).toFixed(1)} MiB, `
-  + `rendered in ${((performance.now() - renderStart) / 1000).toFixed(1)} s`);
+console.log(
+  `clip: ${SECONDS} s ${WIDTH}×${HEIGHT} at 25 frames/s, ${(fs.statSync(file).size / 1024 ** 2).toFixed(1)} MiB, ` +
+    `rendered in ${((performance.now() - renderStart) / 1000).toFixed(1)} s`,
+);
 
 const app = await startRunningApp(path.join(work, 'storage'), { worker: true });
 try {
@@ -100,19 +125,28 @@ try {
   if (clip.state !== 'awaiting_review') throw new Error(`the clip ended ${clip.state}: ${JSON.stringify(clip)}`);
 
   const stages = [...stageStarts.entries()];
-  console.log(`processed ${clip.frameCount} frames in ${wallS.toFixed(1)} s of wall time; flags: `
-    + `${clip.flags.join(', ') || 'none'}`);
-  console.log(`stages (from the first poll that saw each): ${stages.map(([stage, at], index) => {
-    const end = stages[index + 1]?.[1] ?? start + wallS * 1000;
-    return `${stage} ${((end - at) / 1000).toFixed(1)} s`;
-  }).join(', ')}`);
-  console.log(`real-time factor: ${(SECONDS / wallS).toFixed(2)} (seconds of footage per second of wall time; `
-    + 'goal ≥ 1.0)');
+  console.log(
+    `processed ${clip.frameCount} frames in ${wallS.toFixed(1)} s of wall time; flags: ` +
+      `${clip.flags.join(', ') || 'none'}`,
+  );
+  console.log(
+    `stages (from the first poll that saw each): ${stages
+      .map(([stage, at], index) => {
+        const end = stages[index + 1]?.[1] ?? start + wallS * 1000;
+        return `${stage} ${((end - at) / 1000).toFixed(1)} s`;
+      })
+      .join(', ')}`,
+  );
+  console.log(
+    `real-time factor: ${(SECONDS / wallS).toFixed(2)} (seconds of footage per second of wall time; ` + 'goal ≥ 1.0)',
+  );
   console.log(describe('API on the idle server', idle));
   console.log(describe('API while the worker processes', busy));
   const slow = busy.ms.filter((ms) => ms > RESPONSE_GOAL_MS).length;
-  console.log(`p95 while processing ÷ idle p95: ${(percentile(busy.ms, 0.95) / percentile(idle.ms, 0.95)).toFixed(2)}×; `
-    + `answers over ${RESPONSE_GOAL_MS} ms: ${slow} of ${busy.ms.length}`);
+  console.log(
+    `p95 while processing ÷ idle p95: ${(percentile(busy.ms, 0.95) / percentile(idle.ms, 0.95)).toFixed(2)}×; ` +
+      `answers over ${RESPONSE_GOAL_MS} ms: ${slow} of ${busy.ms.length}`,
+  );
 } finally {
   await app.stop();
   fs.rmSync(work, { recursive: true, force: true });

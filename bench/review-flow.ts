@@ -24,8 +24,9 @@ import { startTestRuntime } from '../tests/helpers/pipeline-runtime';
 import { reviewClipRow } from '../tests/helpers/review-clips';
 import { startRunningServer } from '../tests/helpers/running-server';
 
-const { values } = parseArgs({ options: { clips: { type: 'string', default: '2000' },
-  decide: { type: 'string', default: '50' } } });
+const { values } = parseArgs({
+  options: { clips: { type: 'string', default: '2000' }, decide: { type: 'string', default: '50' } },
+});
 const CLIPS = Number(values.clips);
 const DECIDE = Number(values.decide);
 /** Clips with real evidence: every clip the run decides, the reference opens, and a few to spare. */
@@ -39,8 +40,15 @@ const browser = await launchBrowser();
 const media = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-review-flow-'));
 try {
   const operator = (await User.findByEmail('operator@kinefold.test'))!;
-  const project = await Project.create({ name: 'Benchmark rows', estimator: 'farneback', estimatorParams: {},
-    sampleFps: 5, workingSize: 320, deltas: [1, 2], flagThresholds: {} });
+  const project = await Project.create({
+    name: 'Benchmark rows',
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: 320,
+    deltas: [1, 2],
+    flagThresholds: {},
+  });
   const file = await makeTestClip(media, 'bench-row.mp4', { seconds: 3, size: '320x180', seed: 5 });
   const sourceId = (await insertClip(server, file, project.id, operator.id)).clip.id;
   const runtime = startTestRuntime(server);
@@ -89,14 +97,22 @@ try {
   const p95 = (list: number[]) => [...list].sort((a, b) => a - b)[Math.ceil(0.95 * list.length) - 1]!;
   const ms = (value: number) => `${value.toFixed(0)} ms`;
   // The machine is shared: the load says how much of the waiting is other work's.
-  console.log(`\nLoad average (1, 5, 15 min): ${os.loadavg().map((load) => load.toFixed(1)).join(', ')} on `
-    + `${os.cpus().length} cores`);
-  console.log(`Queue page, ${CLIPS} clips waiting: median ${ms(median(queueTimes))}, worst `
-    + `${ms(Math.max(...queueTimes))} (goal ≤ 1000 ms)`);
+  console.log(
+    `\nLoad average (1, 5, 15 min): ${os
+      .loadavg()
+      .map((load) => load.toFixed(1))
+      .join(', ')} on ` + `${os.cpus().length} cores`,
+  );
+  console.log(
+    `Queue page, ${CLIPS} clips waiting: median ${ms(median(queueTimes))}, worst ` +
+      `${ms(Math.max(...queueTimes))} (goal ≤ 1000 ms)`,
+  );
   console.log(`Clip page opened afresh (reference): median ${ms(median(reference))}`);
-  console.log(`Accept → next clip fully shown, ${DECIDE} clips: total ${ms(sum(waits))} (goal ≤ 2000 ms), median `
-    + `${ms(median(waits))}, p95 ${ms(p95(waits))}, worst ${ms(Math.max(...waits))}; median as a share of the `
-    + `reference: ${(median(waits) / median(reference)).toFixed(2)}`);
+  console.log(
+    `Accept → next clip fully shown, ${DECIDE} clips: total ${ms(sum(waits))} (goal ≤ 2000 ms), median ` +
+      `${ms(median(waits))}, p95 ${ms(p95(waits))}, worst ${ms(Math.max(...waits))}; median as a share of the ` +
+      `reference: ${(median(waits) / median(reference)).toFixed(2)}`,
+  );
 } finally {
   await browser.close();
   await server.close();
@@ -116,18 +132,21 @@ async function seedQueue(sourceId: number, projectId: number, uploaderId: number
   const { id: _id, sha256: _sha, createdAt: _created, updatedAt: _updated, ...copied } = source.get({ plain: true });
   const ids: number[] = [];
   for (let n = 0; n < FULL; n += 1) {
-    const clip = await Clip.create({ ...copied, originalName: `bench-row-${n}.mp4`,
-      sha256: reviewClipRow({ projectId, uploaderId }).sha256 });
-    await Clip.sequelize!.query('UPDATE clips SET createdAt = :at WHERE id = :id',
-      { replacements: { at: new Date(start + n * 1000), id: clip.id } });
+    const clip = await Clip.create({
+      ...copied,
+      originalName: `bench-row-${n}.mp4`,
+      sha256: reviewClipRow({ projectId, uploaderId }).sha256,
+    });
+    await Clip.sequelize!.query('UPDATE clips SET createdAt = :at WHERE id = :id', {
+      replacements: { at: new Date(start + n * 1000), id: clip.id },
+    });
     await Frame.bulkCreate(frames.map(({ id: _f, ...frame }) => ({ ...frame, clipId: clip.id })));
     await MotionField.bulkCreate(fields.map(({ id: _m, ...field }) => ({ ...field, clipId: clip.id })));
     fs.cpSync(paths.clipDir(sourceId), paths.clipDir(clip.id), { recursive: true });
     ids.push(clip.id);
   }
   for (let done = FULL; done < CLIPS; done += BATCH) {
-    const rows = Array.from({ length: Math.min(BATCH, CLIPS - done) },
-      () => reviewClipRow({ projectId, uploaderId }));
+    const rows = Array.from({ length: Math.min(BATCH, CLIPS - done) }, () => reviewClipRow({ projectId, uploaderId }));
     await Clip.bulkCreate(rows);
   }
   return ids;

@@ -19,8 +19,19 @@ const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-upload-'));
 /** A real clip padded with zeros to the wanted size: ffprobe and the first-frame decode accept it like footage. */
 async function makeLargeClip(): Promise<string> {
   const file = path.join(work, 'large-pass.mkv');
-  await promisify(execFile)(ffmpegInstaller.path, ['-v', 'error', '-f', 'lavfi', '-i',
-    'testsrc2=size=640x360:rate=25:duration=10', '-c:v', 'libx264', '-preset', 'ultrafast', file]);
+  await promisify(execFile)(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-f',
+    'lavfi',
+    '-i',
+    'testsrc2=size=640x360:rate=25:duration=10',
+    '-c:v',
+    'libx264',
+    '-preset',
+    'ultrafast',
+    file,
+  ]);
   const handle = await fs.promises.open(file, 'r+');
   const chunk = Buffer.alloc(8 * 1024 * 1024);
   for (let size = (await handle.stat()).size; size < sizeBytes; size += chunk.length) {
@@ -49,7 +60,9 @@ try {
   const projectId = Number(((await project.json()) as { id: number }).id);
   const rssBefore = rssBytes(server.pid!);
   let rssPeak = rssBefore;
-  const sampler = setInterval(() => { rssPeak = Math.max(rssPeak, rssBytes(server.pid!)); }, 50);
+  const sampler = setInterval(() => {
+    rssPeak = Math.max(rssPeak, rssBytes(server.pid!));
+  }, 50);
   const uploadStart = performance.now();
   const { status } = await app.upload(session, file, projectId);
   const uploadS = (performance.now() - uploadStart) / 1000;
@@ -58,10 +71,14 @@ try {
   const mib = sizeBytes / 1024 ** 2;
   console.log(`file: ${mib.toFixed(0)} MiB; upload answered ${status}`);
   console.log(`plain stream copy: ${copyS.toFixed(2)} s (${(mib / copyS).toFixed(0)} MiB/s)`);
-  console.log(`upload to Kinefold: ${uploadS.toFixed(2)} s (${(mib / uploadS).toFixed(0)} MiB/s), `
-    + `${(copyS / uploadS).toFixed(2)}× the plain copy's throughput (includes SHA-256, probe and first-frame decode)`);
-  console.log(`server RSS: ${(rssBefore / 1024 ** 2).toFixed(0)} MiB before, peak ${(rssPeak / 1024 ** 2).toFixed(0)} MiB, `
-    + `growth ${((rssPeak - rssBefore) / 1024 ** 2).toFixed(1)} MiB (goal < 64 MiB)`);
+  console.log(
+    `upload to Kinefold: ${uploadS.toFixed(2)} s (${(mib / uploadS).toFixed(0)} MiB/s), ` +
+      `${(copyS / uploadS).toFixed(2)}× the plain copy's throughput (includes SHA-256, probe and first-frame decode)`,
+  );
+  console.log(
+    `server RSS: ${(rssBefore / 1024 ** 2).toFixed(0)} MiB before, peak ${(rssPeak / 1024 ** 2).toFixed(0)} MiB, ` +
+      `growth ${((rssPeak - rssBefore) / 1024 ** 2).toFixed(1)} MiB (goal < 64 MiB)`,
+  );
 } finally {
   await app.stop();
   fs.rmSync(work, { recursive: true, force: true });

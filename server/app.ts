@@ -46,13 +46,15 @@ export function createApp(context: AppContext): KinefoldApp {
     res.setHeader('X-Request-Id', res.locals.requestId as string);
     next();
   });
-  app.use(helmet({
-    // HSTS and upgrade-insecure-requests only make sense when Kinefold is served over TLS.
-    strictTransportSecurity: config.tls,
-    contentSecurityPolicy: {
-      directives: { upgradeInsecureRequests: config.tls ? [] : null, imgSrc: ["'self'", 'data:', 'blob:'] },
-    },
-  }));
+  app.use(
+    helmet({
+      // HSTS and upgrade-insecure-requests only make sense when Kinefold is served over TLS.
+      strictTransportSecurity: config.tls,
+      contentSecurityPolicy: {
+        directives: { upgradeInsecureRequests: config.tls ? [] : null, imgSrc: ["'self'", 'data:', 'blob:'] },
+      },
+    }),
+  );
   app.use(express.json({ limit: '1mb' }));
   app.use(cookieParser());
   app.use(sessions.middleware);
@@ -64,12 +66,17 @@ export function createApp(context: AppContext): KinefoldApp {
     }, next);
   });
   app.use(passport.session());
-  app.use('/api', bearerToken, csrf.protect, createApiRouter({
-    auth: { signInLimits: createSignInLimits(config), issueCsrfToken: csrf.issueToken },
-    paths: storagePaths(config.storageDir),
-    uploadLimitBytes: config.uploadLimitBytes,
-    config,
-  }));
+  app.use(
+    '/api',
+    bearerToken,
+    csrf.protect,
+    createApiRouter({
+      auth: { signInLimits: createSignInLimits(config), issueCsrfToken: csrf.issueToken },
+      paths: storagePaths(config.storageDir),
+      uploadLimitBytes: config.uploadLimitBytes,
+      config,
+    }),
+  );
   if (context.clientDir) serveClient(app, context.clientDir);
   app.use(errorHandler);
   return { app, close: sessions.stop };

@@ -17,22 +17,27 @@ const kinefold = createApp({ config, sequelize, clientDir });
 // before this moment can still be in flight, so a crash mid-upload holds no quota past the restart.
 const cleaned = await cleanStaleUploads(storagePaths(config.storageDir), { before: Date.now() });
 if (cleaned.files + cleaned.reservations > 0) {
-  console.log(`Kinefold server: removed ${cleaned.files} stale partial uploads, released ${cleaned.reservations} reservations.`);
+  console.log(
+    `Kinefold server: removed ${cleaned.files} stale partial uploads, released ${cleaned.reservations} reservations.`,
+  );
 }
 
 const mail = await startMail(config);
-console.log(mail.fakeSmtp
-  ? `Kinefold mail: no SMTP_URL, so a local fake SMTP server on ${mail.fakeSmtp.host}:${mail.fakeSmtp.port} keeps `
-    + 'every message for the mail log.'
-  : 'Kinefold mail: sending through SMTP_URL.');
+console.log(
+  mail.fakeSmtp
+    ? `Kinefold mail: no SMTP_URL, so a local fake SMTP server on ${mail.fakeSmtp.host}:${mail.fakeSmtp.port} keeps ` +
+        'every message for the mail log.'
+    : 'Kinefold mail: sending through SMTP_URL.',
+);
 
 const demoStop = new AbortController();
 const server = kinefold.app.listen(config.port, () => {
   console.log(`Kinefold server listening on http://localhost:${config.port} (storage: ${config.storageDir})`);
   // The demo footage is rendered by ffmpeg child processes, so the server answers requests meanwhile.
   if (config.demo === 'full') {
-    runDemoCampaign(config, demoStop.signal)
-      .catch((error: unknown) => console.error('Kinefold demo: seeding stopped', error));
+    runDemoCampaign(config, demoStop.signal).catch((error: unknown) =>
+      console.error('Kinefold demo: seeding stopped', error),
+    );
   }
 });
 

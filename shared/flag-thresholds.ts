@@ -16,7 +16,14 @@
 export type FlagName = 'dark' | 'overexposed' | 'blurry' | 'static' | 'short' | 'cut-heavy' | 'shaky' | 'duplicate';
 
 export const FLAG_NAMES: readonly FlagName[] = Object.freeze([
-  'dark', 'overexposed', 'blurry', 'static', 'short', 'cut-heavy', 'shaky', 'duplicate',
+  'dark',
+  'overexposed',
+  'blurry',
+  'static',
+  'short',
+  'cut-heavy',
+  'shaky',
+  'duplicate',
 ]);
 
 export interface FlagThresholds {

@@ -19,7 +19,9 @@ export type JobKind = keyof JobPayloads;
 export type JobPayload = JobPayloads[JobKind];
 
 /** The columns a job of each kind links to, so the Jobs screen and cancellations can find a clip's or pairset's jobs. */
-export const JOB_TARGETS: { [K in JobKind]: (payload: JobPayloads[K]) => { clipId: number | null; pairsetId: number | null } } = {
+export const JOB_TARGETS: {
+  [K in JobKind]: (payload: JobPayloads[K]) => { clipId: number | null; pairsetId: number | null };
+} = {
   'process-clip': ({ clipId }) => ({ clipId, pairsetId: null }),
   'reconcile-usage': () => ({ clipId: null, pairsetId: null }),
   'send-rejection-digest': () => ({ clipId: null, pairsetId: null }),

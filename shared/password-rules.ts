@@ -7,10 +7,30 @@ export const MIN_PASSWORD_LENGTH = 12;
 
 /** A small list of passwords that people pick most often, and a few a Kinefold user would guess. */
 const COMMON_PASSWORDS = new Set([
-  '123456789012', '1234567890123', 'password1234', 'password12345', 'passwordpassword', 'qwertyuiopas',
-  'qwerty123456', '111111111111', '000000000000', 'iloveyou1234', 'letmein12345', 'welcome12345',
-  'administrator', 'admin1234567', 'changeme1234', 'abcdefghijkl', 'abc123456789', 'trustno12345',
-  'kinefold1234', 'kinefoldkinefold', 'footage12345', 'password123!', 'p@ssw0rd1234', 'qwertyqwerty',
+  '123456789012',
+  '1234567890123',
+  'password1234',
+  'password12345',
+  'passwordpassword',
+  'qwertyuiopas',
+  'qwerty123456',
+  '111111111111',
+  '000000000000',
+  'iloveyou1234',
+  'letmein12345',
+  'welcome12345',
+  'administrator',
+  'admin1234567',
+  'changeme1234',
+  'abcdefghijkl',
+  'abc123456789',
+  'trustno12345',
+  'kinefold1234',
+  'kinefoldkinefold',
+  'footage12345',
+  'password123!',
+  'p@ssw0rd1234',
+  'qwertyqwerty',
 ]);
 
 /** Returns what is wrong with the password in words a person can act on, or null when it is fine. */

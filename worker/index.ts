@@ -21,8 +21,10 @@ const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
 const sequelize = await openKinefoldDatabase(config, { migrate: false });
 const pool = createFramePool();
 const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir), pool, owner });
-console.log(`Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, `
-  + `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`);
+console.log(
+  `Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, ` +
+    `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`,
+);
 
 const stopSchedule = startDailySchedule();
 
@@ -35,13 +37,17 @@ function stop(signal: string): void {
   stopping = true;
   console.log(`Kinefold worker: ${signal} received, giving back the jobs in hand and stopping.`);
   stopSchedule();
-  runtime.stop()
+  runtime
+    .stop()
     .then(() => pool.destroy())
     .then(() => sequelize.close())
-    .then(() => process.exit(0), (error: unknown) => {
-      console.error('Kinefold worker: stopped with an error', error);
-      process.exit(1);
-    });
+    .then(
+      () => process.exit(0),
+      (error: unknown) => {
+        console.error('Kinefold worker: stopped with an error', error);
+        process.exit(1);
+      },
+    );
 }
 process.on('SIGINT', () => stop('SIGINT'));
 process.on('SIGTERM', () => stop('SIGTERM'));

@@ -13,8 +13,9 @@ const HEALTH_TIMEOUT_MS = 2000;
 
 async function kinefoldAnswers(port: number): Promise<boolean> {
   try {
-    const response = await fetch(`http://127.0.0.1:${port}/api/health`,
-      { signal: AbortSignal.timeout(HEALTH_TIMEOUT_MS) });
+    const response = await fetch(`http://127.0.0.1:${port}/api/health`, {
+      signal: AbortSignal.timeout(HEALTH_TIMEOUT_MS),
+    });
     return response.ok && ((await response.json()) as { status?: string }).status === 'ok';
   } catch {
     return false;
@@ -22,8 +23,10 @@ async function kinefoldAnswers(port: number): Promise<boolean> {
 }
 
 if (await kinefoldAnswers(config.port)) {
-  console.error(`demo:reset: Kinefold is running on port ${config.port}; stop it (Ctrl-C where npm start runs) `
-    + 'and run demo:reset again. Nothing was removed.');
+  console.error(
+    `demo:reset: Kinefold is running on port ${config.port}; stop it (Ctrl-C where npm start runs) ` +
+      'and run demo:reset again. Nothing was removed.',
+  );
   process.exit(1);
 }
 for (const folder of KINEFOLD_FOLDERS) {

@@ -19,7 +19,12 @@ function fail(message: string): never {
 let values: Record<string, string | undefined>;
 try {
   ({ values } = parseArgs({
-    options: { email: { type: 'string' }, role: { type: 'string' }, password: { type: 'string' }, name: { type: 'string' } },
+    options: {
+      email: { type: 'string' },
+      role: { type: 'string' },
+      password: { type: 'string' },
+      name: { type: 'string' },
+    },
   }));
 } catch (error) {
   fail(`${(error as Error).message}\n${USAGE}`);

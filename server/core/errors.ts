@@ -28,7 +28,10 @@ export function invalidInput(part: string, error: z.ZodError): AppError {
     const keys = 'keys' in issue && Array.isArray(issue.keys) ? issue.keys.map(String) : [];
     // An unknown field is named by its full path (`flagThresholds.darkMeanLumma`), not by the object holding it.
     const field = [...issue.path.map(String), ...keys.slice(0, 1)].join('.');
-    const message = keys.length > 0 ? `is not a known field${keys.length > 1 ? ` (nor ${keys.slice(1).join(', ')})` : ''}` : issue.message;
+    const message =
+      keys.length > 0
+        ? `is not a known field${keys.length > 1 ? ` (nor ${keys.slice(1).join(', ')})` : ''}`
+        : issue.message;
     return { field: field || part, message };
   });
   const first = issues[0]!;

@@ -55,8 +55,11 @@ export async function curateDemoCampaign(config: Config, signal: AbortSignal): P
     const clip = clips.find((candidate) => candidate.originalName === verdict.file);
     if (!clip || clip.state !== 'awaiting_review') continue;
     await claimClip(clip.id, curator);
-    await decideClip(clip.id, { decision: verdict.decision, reason: verdict.reason, comment: verdict.comment },
-      curator);
+    await decideClip(
+      clip.id,
+      { decision: verdict.decision, reason: verdict.reason, comment: verdict.comment },
+      curator,
+    );
     log(`${curator.name} ${verdict.decision === 'accept' ? 'accepted' : 'rejected'} ${verdict.file}`);
   }
 
@@ -92,10 +95,16 @@ async function addPaperwork(config: Config, engineer: User, admin: User): Promis
 async function buildDemoPairset(engineer: User): Promise<void> {
   const orchard = await Project.findOne({ where: { name: DEMO_PROJECTS[0].name } });
   if (!orchard) return;
-  const pairset = await createPairset({
-    ...DEMO_PAIRSET, views: [...DEMO_PAIRSET.views], projectIds: [orchard.id],
-    motionFormat: PAIRSET_DEFAULTS.motionFormat, temperature: PAIRSET_DEFAULTS.temperature,
-  }, engineer.id);
+  const pairset = await createPairset(
+    {
+      ...DEMO_PAIRSET,
+      views: [...DEMO_PAIRSET.views],
+      projectIds: [orchard.id],
+      motionFormat: PAIRSET_DEFAULTS.motionFormat,
+      temperature: PAIRSET_DEFAULTS.temperature,
+    },
+    engineer.id,
+  );
   await startBuild(pairset.id, engineer);
   log(`${engineer.name} queued the build of pairset "${DEMO_PAIRSET.name}" v1 (${pairset.id}); the worker builds it.`);
 }

@@ -18,12 +18,21 @@ export async function renderTexture(dir: string, seed: number, size = TEXTURE_SI
   if (fs.existsSync(file)) return file;
   const a = 17 + (seed % 7) * 4;
   const b = 29 + (seed % 5) * 6;
-  await run(ffmpegInstaller.path, ['-v', 'error', '-y', '-f', 'lavfi', '-i',
-    `nullsrc=s=${size},format=rgb24,geq=`
-    + `r='50+25*sin(X/${b}+2*sin(Y/37))+20*sin((X+Y)/5+${seed})':`
-    + `g='105+40*sin(X/${a}+3*sin(Y/41)+${seed})+30*sin(Y/4+2*cos(X/53))':`
-    + `b='45+18*sin(Y/19+X/31+${seed})',noise=alls=45:allf=0:all_seed=${seed}`,
-    '-frames:v', '1', file]);
+  await run(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    '-f',
+    'lavfi',
+    '-i',
+    `nullsrc=s=${size},format=rgb24,geq=` +
+      `r='50+25*sin(X/${b}+2*sin(Y/37))+20*sin((X+Y)/5+${seed})':` +
+      `g='105+40*sin(X/${a}+3*sin(Y/41)+${seed})+30*sin(Y/4+2*cos(X/53))':` +
+      `b='45+18*sin(Y/19+X/31+${seed})',noise=alls=45:allf=0:all_seed=${seed}`,
+    '-frames:v',
+    '1',
+    file,
+  ]);
   return file;
 }
 
@@ -38,26 +47,74 @@ export async function renderDemoClip(dir: string, recipe: DemoClipRecipe): Promi
   const texture = await renderTexture(dir, recipe.textureSeed);
   const encode = ['-c:v', 'libx264', '-preset', 'veryfast', '-crf', '20', '-movflags', '+faststart'];
   if (recipe.cutAtS === undefined) {
-    await run(ffmpegInstaller.path, ['-v', 'error', '-y', '-loop', '1', '-framerate', String(FRAME.rate), '-i', texture,
-      '-vf', cameraFilter(recipe), '-t', String(recipe.seconds), ...encode, file]);
+    await run(ffmpegInstaller.path, [
+      '-v',
+      'error',
+      '-y',
+      '-loop',
+      '1',
+      '-framerate',
+      String(FRAME.rate),
+      '-i',
+      texture,
+      '-vf',
+      cameraFilter(recipe),
+      '-t',
+      String(recipe.seconds),
+      ...encode,
+      file,
+    ]);
     return file;
   }
   const other = await renderTexture(dir, recipe.textureSeed + 100);
   const first = recipe.cutAtS;
-  await run(ffmpegInstaller.path, ['-v', 'error', '-y',
-    '-loop', '1', '-framerate', String(FRAME.rate), '-t', String(first), '-i', texture,
-    '-loop', '1', '-framerate', String(FRAME.rate), '-t', String(recipe.seconds - first), '-i', other,
-    '-filter_complex', `[0]${cameraFilter(recipe)}[a];[1]${cameraFilter({ x: '500+t*25', y: '300' })}[b];`
-      + '[a][b]concat=n=2:v=1[v]',
-    '-map', '[v]', ...encode, file]);
+  await run(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    '-loop',
+    '1',
+    '-framerate',
+    String(FRAME.rate),
+    '-t',
+    String(first),
+    '-i',
+    texture,
+    '-loop',
+    '1',
+    '-framerate',
+    String(FRAME.rate),
+    '-t',
+    String(recipe.seconds - first),
+    '-i',
+    other,
+    '-filter_complex',
+    `[0]${cameraFilter(recipe)}[a];[1]${cameraFilter({ x: '500+t*25', y: '300' })}[b];` + '[a][b]concat=n=2:v=1[v]',
+    '-map',
+    '[v]',
+    ...encode,
+    file,
+  ]);
   return file;
 }
 
 /** The near-duplicate: an already rendered clip exported again at a lower quality. */
 export async function renderDuplicate(dir: string): Promise<string> {
   const file = path.join(dir, DEMO_DUPLICATE.file);
-  await run(ffmpegInstaller.path, ['-v', 'error', '-y', '-i', path.join(dir, DEMO_DUPLICATE.of),
-    '-c:v', 'libx264', '-preset', 'veryfast', '-crf', String(DEMO_DUPLICATE.crf), file]);
+  await run(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    '-i',
+    path.join(dir, DEMO_DUPLICATE.of),
+    '-c:v',
+    'libx264',
+    '-preset',
+    'veryfast',
+    '-crf',
+    String(DEMO_DUPLICATE.crf),
+    file,
+  ]);
   return file;
 }
 

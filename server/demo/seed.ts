@@ -35,11 +35,16 @@ export async function seedDemoCampaign(config: Config): Promise<void> {
   }
   const projects = [];
   for (const project of DEMO_PROJECTS) {
-    projects.push(await Project.findOne({ where: { name: project.name } })
-      ?? await createProject({ ...project, retentionDays: 30 }, admin.id));
+    projects.push(
+      (await Project.findOne({ where: { name: project.name } })) ??
+        (await createProject({ ...project, retentionDays: 30 }, admin.id)),
+    );
   }
-  const present = new Set((await Clip.findAll({ where: { originalName: DEMO_FILES }, attributes: ['originalName'] }))
-    .map((clip) => clip.originalName));
+  const present = new Set(
+    (await Clip.findAll({ where: { originalName: DEMO_FILES }, attributes: ['originalName'] })).map(
+      (clip) => clip.originalName,
+    ),
+  );
   log(`${projects.length} projects ready; rendering ${DEMO_FILES.length - present.size} clips with ffmpeg…`);
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-demo-'));
   try {
@@ -51,12 +56,24 @@ export async function seedDemoCampaign(config: Config): Promise<void> {
     const original = DEMO_CLIPS.find((recipe) => recipe.file === DEMO_DUPLICATE.of)!;
     if (!present.has(DEMO_DUPLICATE.file)) {
       if (!fs.existsSync(path.join(dir, original.file))) await renderDemoClip(dir, original);
-      await ingest(await renderDuplicate(dir), { ...original, file: DEMO_DUPLICATE.file, expect: 'duplicate' },
-        projects[original.project]!.id, operator.id, config, DEMO_CLIPS.length);
+      await ingest(
+        await renderDuplicate(dir),
+        { ...original, file: DEMO_DUPLICATE.file, expect: 'duplicate' },
+        projects[original.project]!.id,
+        operator.id,
+        config,
+        DEMO_CLIPS.length,
+      );
     }
     const notAVideo = writeNotAVideo(dir);
-    await ingest(notAVideo, { ...original, file: path.basename(notAVideo) }, projects[1]!.id, operator.id, config,
-      DEMO_CLIPS.length + 1);
+    await ingest(
+      notAVideo,
+      { ...original, file: path.basename(notAVideo) },
+      projects[1]!.id,
+      operator.id,
+      config,
+      DEMO_CLIPS.length + 1,
+    );
     log('all footage handed to the worker; clips appear under Clips as they are processed.');
   } finally {
     fs.rmSync(dir, { recursive: true, force: true });
@@ -64,7 +81,12 @@ export async function seedDemoCampaign(config: Config): Promise<void> {
 }
 
 async function ingest(
-  file: string, recipe: DemoClipRecipe, projectId: number, uploaderId: number, config: Config, index: number,
+  file: string,
+  recipe: DemoClipRecipe,
+  projectId: number,
+  uploaderId: number,
+  config: Config,
+  index: number,
 ): Promise<void> {
   const paths = storagePaths(config.storageDir);
   const incoming = paths.incomingFile(`demo-${index}`);
@@ -74,10 +96,18 @@ async function ingest(
   const capturedAt = new Date(Date.UTC(2026, 3, 2 + Math.floor(index / 4), 6 + (index % 4) * 2, 15)).toISOString();
   try {
     const reservationId = await reserveUpload(projectId, uploaderId, bytes.length);
-    const clip = await admitUpload({
-      path: incoming, size: bytes.length, reservationId, sha256: createHash('sha256').update(bytes).digest('hex'),
-      fields: { projectId, site: recipe.site, rig: recipe.rig, capturedAt, tags: recipe.tags, notes: recipe.notes },
-    }, path.basename(file), uploaderId, { paths, publicUrl: config.publicUrl });
+    const clip = await admitUpload(
+      {
+        path: incoming,
+        size: bytes.length,
+        reservationId,
+        sha256: createHash('sha256').update(bytes).digest('hex'),
+        fields: { projectId, site: recipe.site, rig: recipe.rig, capturedAt, tags: recipe.tags, notes: recipe.notes },
+      },
+      path.basename(file),
+      uploaderId,
+      { paths, publicUrl: config.publicUrl },
+    );
     log(`clip ${clip.id} ${recipe.file}${recipe.expect ? ` (made to raise "${recipe.expect}")` : ''} queued`);
   } catch (error) {
     fs.rmSync(incoming, { force: true });

@@ -58,8 +58,11 @@ export async function bearerToken(req: Request, _res: Response, next: NextFuncti
     throw new AppError(HttpStatus.UNAUTHORIZED, 'token_invalid', 'Authorization must be "Bearer <token>".');
   }
   if (!tokenMayOpen(req.method, req.path)) {
-    throw new AppError(HttpStatus.FORBIDDEN, 'token_not_allowed',
-      'API tokens work only for reading and downloading pairsets; sign in for everything else.');
+    throw new AppError(
+      HttpStatus.FORBIDDEN,
+      'token_not_allowed',
+      'API tokens work only for reading and downloading pairsets; sign in for everything else.',
+    );
   }
   req.user = await authenticateApiToken(match[1]!);
   req.authenticatedBy = 'token';

@@ -29,8 +29,10 @@ export function errorHandler(error: unknown, req: Request, res: Response, _next:
   if (!res.socket || res.socket.destroyed) return;
   if (error instanceof AppError) {
     if (error.cause !== undefined) {
-      console.warn(`[${res.locals.requestId ?? '-'}] ${req.method} ${req.originalUrl} ${error.status} ${error.code}:`,
-        error.cause);
+      console.warn(
+        `[${res.locals.requestId ?? '-'}] ${req.method} ${req.originalUrl} ${error.status} ${error.code}:`,
+        error.cause,
+      );
     }
     send(res, error.status, { error: { code: error.code, message: error.message, details: error.details } });
     return;
@@ -44,11 +46,15 @@ export function errorHandler(error: unknown, req: Request, res: Response, _next:
     return;
   }
   if (httpError.type === 'entity.parse.failed') {
-    send(res, HttpStatus.BAD_REQUEST, { error: { code: 'invalid_json', message: 'The request body is not valid JSON.' } });
+    send(res, HttpStatus.BAD_REQUEST, {
+      error: { code: 'invalid_json', message: 'The request body is not valid JSON.' },
+    });
     return;
   }
   if (httpError.type === 'entity.too.large') {
-    send(res, HttpStatus.PAYLOAD_TOO_LARGE, { error: { code: 'body_too_large', message: 'The request body is too large.' } });
+    send(res, HttpStatus.PAYLOAD_TOO_LARGE, {
+      error: { code: 'body_too_large', message: 'The request body is too large.' },
+    });
     return;
   }
   if (status && status >= 400 && status < 500 && httpError.expose) {

@@ -16,15 +16,17 @@ export const ACCOUNT_DISABLED = 'This account is disabled; ask an admin to enabl
 
 /** Registers the e-mail + password strategy and the session (de)serialisation on passport's singleton. */
 export function configurePassport(): typeof passport {
-  passport.use(new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
-    void (async () => {
-      const user = await User.findByEmail(email);
-      const matches = await verifyPassword(password, user?.passwordHash ?? (await timingGuardHash()));
-      if (!user || !matches) return done(null, false, { message: WRONG_CREDENTIALS });
-      if (user.disabled) return done(null, false, { message: ACCOUNT_DISABLED });
-      return done(null, user);
-    })().catch(done);
-  }));
+  passport.use(
+    new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
+      void (async () => {
+        const user = await User.findByEmail(email);
+        const matches = await verifyPassword(password, user?.passwordHash ?? (await timingGuardHash()));
+        if (!user || !matches) return done(null, false, { message: WRONG_CREDENTIALS });
+        if (user.disabled) return done(null, false, { message: ACCOUNT_DISABLED });
+        return done(null, user);
+      })().catch(done);
+    }),
+  );
 
   passport.serializeUser((user, done) => done(null, user.id));
 

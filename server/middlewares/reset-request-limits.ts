@@ -33,7 +33,10 @@ export function createResetRequestLimits(config: Config) {
     limit: config.resetLimitPerAccount,
     standardHeaders: false,
     legacyHeaders: false,
-    keyGenerator: (req: Request) => `reset:${String(req.body?.email ?? '').trim().toLowerCase()}`,
+    keyGenerator: (req: Request) =>
+      `reset:${String(req.body?.email ?? '')
+        .trim()
+        .toLowerCase()}`,
     handler: tooMany(config.resetWindowMs),
   });
   return [perIp, perAccount];

@@ -35,7 +35,10 @@ export function createSignInLimits(config: Config) {
     skipSuccessfulRequests: true,
     standardHeaders: false,
     legacyHeaders: false,
-    keyGenerator: (req: Request) => `account:${String(req.body?.email ?? '').trim().toLowerCase()}`,
+    keyGenerator: (req: Request) =>
+      `account:${String(req.body?.email ?? '')
+        .trim()
+        .toLowerCase()}`,
     handler: tooMany(config.signInWindowMs),
   });
   return [perIp, perAccount];

@@ -12,7 +12,6 @@ import type { StoragePaths } from '../core/storage/paths';
 import { discardUpload, type ReceivedUpload } from '../core/clips/received-upload';
 import { reserveUpload } from '../core/usage/quotas';
 
-
 declare global {
   namespace Express {
     namespace Multer {
@@ -32,8 +31,15 @@ declare global {
 export class UploadEngine implements StorageEngine {
   constructor(private readonly paths: StoragePaths) {}
 
-  _handleFile(req: Request, file: Express.Multer.File, callback: (error?: unknown, info?: Partial<Express.Multer.File>) => void): void {
-    this.receive(req, file).then((received) => callback(null, { path: received.path, size: received.size, received }), callback);
+  _handleFile(
+    req: Request,
+    file: Express.Multer.File,
+    callback: (error?: unknown, info?: Partial<Express.Multer.File>) => void,
+  ): void {
+    this.receive(req, file).then(
+      (received) => callback(null, { path: received.path, size: received.size, received }),
+      callback,
+    );
   }
 
   _removeFile(_req: Request, file: Express.Multer.File, callback: (error: Error | null) => void): void {
@@ -42,7 +48,11 @@ export class UploadEngine implements StorageEngine {
 
   private async receive(req: Request, file: Express.Multer.File): Promise<ReceivedUpload> {
     const fields = parseFields(req.body);
-    const reservationId = await reserveUpload(fields.projectId, currentUser(req).id, Number(req.headers['content-length']));
+    const reservationId = await reserveUpload(
+      fields.projectId,
+      currentUser(req).id,
+      Number(req.headers['content-length']),
+    );
     const path = this.paths.incomingFile(randomUUID());
     const hash = createHash('sha256');
     let size = 0;
@@ -67,8 +77,12 @@ export class UploadEngine implements StorageEngine {
 function parseFields(body: unknown): UploadFields {
   const raw = (body ?? {}) as Record<string, unknown>;
   if (raw.projectId === undefined) {
-    throw new AppError(HttpStatus.BAD_REQUEST, 'invalid_input',
-      'projectId: send the projectId and metadata fields before the file field.', { field: 'projectId' });
+    throw new AppError(
+      HttpStatus.BAD_REQUEST,
+      'invalid_input',
+      'projectId: send the projectId and metadata fields before the file field.',
+      { field: 'projectId' },
+    );
   }
   const result = uploadFieldsSchema.safeParse(raw);
   if (!result.success) throw invalidInput('body', result.error);

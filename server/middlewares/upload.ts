@@ -23,16 +23,22 @@ export function receiveClipUpload(paths: StoragePaths, limitBytes: number) {
   return (req: Request, res: Response, next: NextFunction) => {
     const declared = Number(req.headers['content-length']);
     if (!req.headers['content-length'] || !Number.isFinite(declared)) {
-      throw new AppError(HttpStatus.LENGTH_REQUIRED, 'length_required',
-        'Uploads must declare their size (Content-Length) so quotas can be checked first.');
+      throw new AppError(
+        HttpStatus.LENGTH_REQUIRED,
+        'length_required',
+        'Uploads must declare their size (Content-Length) so quotas can be checked first.',
+      );
     }
     if (declared > limitBytes + MULTIPART_ALLOWANCE_BYTES) throw tooLarge(limitBytes, declared);
     receive(req, res, (error?: unknown) => {
       if (error instanceof multer.MulterError) return next(fromMulterError(error, limitBytes));
       if (error) return next(error);
       if (!req.file?.received) {
-        return next(new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', 'file: the request has no file field.',
-          { field: 'file' }));
+        return next(
+          new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', 'file: the request has no file field.', {
+            field: 'file',
+          }),
+        );
       }
       next();
     });
@@ -40,12 +46,16 @@ export function receiveClipUpload(paths: StoragePaths, limitBytes: number) {
 }
 
 function tooLarge(limitBytes: number, bytes?: number): AppError {
-  return new AppError(HttpStatus.PAYLOAD_TOO_LARGE, 'file_too_large',
-    `${bytes ? `This upload is ${formatBytes(bytes)}; ` : ''}files up to ${formatBytes(limitBytes)} are accepted.`);
+  return new AppError(
+    HttpStatus.PAYLOAD_TOO_LARGE,
+    'file_too_large',
+    `${bytes ? `This upload is ${formatBytes(bytes)}; ` : ''}files up to ${formatBytes(limitBytes)} are accepted.`,
+  );
 }
 
 function fromMulterError(error: multer.MulterError, limitBytes: number): AppError {
   if (error.code === 'LIMIT_FILE_SIZE') return tooLarge(limitBytes);
-  return new AppError(HttpStatus.BAD_REQUEST, 'invalid_upload', `The upload is malformed: ${error.message}.`,
-    { field: error.field });
+  return new AppError(HttpStatus.BAD_REQUEST, 'invalid_upload', `The upload is malformed: ${error.message}.`, {
+    field: error.field,
+  });
 }

@@ -30,8 +30,12 @@ export function validated<S extends Schemas, ResBody>(
     // A route that declares no query takes none: `?file=…` or any other unknown field is refused, not ignored.
     const unknownField = schemas.query ? undefined : Object.keys(req.query ?? {})[0];
     if (unknownField !== undefined) {
-      throw new AppError(HttpStatus.BAD_REQUEST, 'invalid_input', `${unknownField}: this address takes no query fields.`,
-        { issues: [{ field: unknownField, message: 'unknown query field' }] });
+      throw new AppError(
+        HttpStatus.BAD_REQUEST,
+        'invalid_input',
+        `${unknownField}: this address takes no query fields.`,
+        { issues: [{ field: unknownField, message: 'unknown query field' }] },
+      );
     }
     const input: { [P in InputPart]?: unknown } = {};
     for (const part of ['params', 'query', 'body'] as const) {

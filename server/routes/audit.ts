@@ -3,7 +3,10 @@ import { pipeline } from 'node:stream/promises';
 import { Router, type Request, type Response } from 'express';
 import type { ListPage } from '../../shared/api-types';
 import {
-  auditExportQuerySchema, auditListQuerySchema, type AuditExportQuery, type AuditListQuery,
+  auditExportQuerySchema,
+  auditListQuerySchema,
+  type AuditExportQuery,
+  type AuditListQuery,
 } from '../../shared/schemas/admin';
 import type { AuditEntry } from '../../shared/types/admin';
 import { requireRole } from '../middlewares/auth';

@@ -34,11 +34,13 @@ function signIn(_input: { body: SignInBody }, req: Request, res: Response<Me>, n
     if (error) return next(error);
     if (!user) {
       const disabled = info?.message === ACCOUNT_DISABLED;
-      return next(new AppError(
-        disabled ? HttpStatus.FORBIDDEN : HttpStatus.UNAUTHORIZED,
-        disabled ? 'account_disabled' : 'wrong_credentials',
-        info?.message ?? 'Sign-in failed.',
-      ));
+      return next(
+        new AppError(
+          disabled ? HttpStatus.FORBIDDEN : HttpStatus.UNAUTHORIZED,
+          disabled ? 'account_disabled' : 'wrong_credentials',
+          info?.message ?? 'Sign-in failed.',
+        ),
+      );
     }
     req.logIn(user, (loginError) => {
       if (loginError) return next(loginError);

@@ -6,7 +6,13 @@ import type { ClipFrameList, ClipProgress } from '../../shared/types/frames';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { validated } from '../middlewares/validate';
 import {
-  clipProgress, framePath, listFrames, previewPath, reprocessClip, thumbnailPath, viewPath,
+  clipProgress,
+  framePath,
+  listFrames,
+  previewPath,
+  reprocessClip,
+  thumbnailPath,
+  viewPath,
 } from '../core/clips/clip-media';
 import { motionFieldPath, type MotionFile } from '../core/clips/clip-motion';
 import type { StoragePaths } from '../core/storage/paths';
@@ -52,9 +58,11 @@ function getMotion(paths: StoragePaths, file: MotionFile) {
     const field = await motionFieldPath(id, index, file, paths);
     // .flo has no registered media type; a download name saves scripts from guessing one.
     const download = `attachment; filename="clip-${id}-motion-${index}.flo"`;
-    sendDerived(res, field, file === 'flo'
-      ? { 'Content-Type': 'application/octet-stream', 'Content-Disposition': download }
-      : {});
+    sendDerived(
+      res,
+      field,
+      file === 'flo' ? { 'Content-Type': 'application/octet-stream', 'Content-Disposition': download } : {},
+    );
   };
 }
 
@@ -85,7 +93,9 @@ async function postReprocess(
 /** Derived files change when a clip is processed again, so the browser asks each time (ETag makes that cheap). */
 function sendDerived(res: Response, file: string, headers: Record<string, string> = {}): void {
   res.sendFile(file, {
-    acceptRanges: true, dotfiles: 'deny', cacheControl: false,
+    acceptRanges: true,
+    dotfiles: 'deny',
+    cacheControl: false,
     headers: { 'Cache-Control': 'private, no-cache', ...headers },
   });
 }

@@ -24,7 +24,10 @@ export function createClipsRouter(paths: StoragePaths, uploadLimitBytes: number,
 
 function postClip(paths: StoragePaths, publicUrl: string) {
   return async (req: Request, res: Response<ClipSummary>) => {
-    const clip = await admitUpload(req.file!.received!, req.file!.originalname, currentUser(req).id, { paths, publicUrl });
+    const clip = await admitUpload(req.file!.received!, req.file!.originalname, currentUser(req).id, {
+      paths,
+      publicUrl,
+    });
     res.status(HttpStatus.CREATED).json(clip);
   };
 }

@@ -3,15 +3,25 @@ import type { z } from 'zod';
 import type { InvitationPreview, InvitationSummary, ListPage, Me } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import {
-  acceptInvitationSchema, invitationListQuerySchema, invitationTokenParamsSchema, inviteSchema,
-  type AcceptInvitationBody, type InvitationListQuery, type InviteBody,
+  acceptInvitationSchema,
+  invitationListQuerySchema,
+  invitationTokenParamsSchema,
+  inviteSchema,
+  type AcceptInvitationBody,
+  type InvitationListQuery,
+  type InviteBody,
 } from '../../shared/schemas/invitations';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import type { Config } from '../core/config';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validated } from '../middlewares/validate';
 import {
-  acceptInvitation, createInvitation, listInvitations, previewInvitation, resendInvitation, revokeInvitation,
+  acceptInvitation,
+  createInvitation,
+  listInvitations,
+  previewInvitation,
+  resendInvitation,
+  revokeInvitation,
 } from '../core/people/invitations';
 import { recordSignIn } from '../core/people/users';
 

@@ -3,17 +3,30 @@ import type { ListPage } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import {
-  pairsetDefinitionSchema, pairsetListQuerySchema, pairsetPreviewSchema, shardParamSchema, type PairsetDefinition,
-  type PairsetListQuery, type PairsetPreviewBody, type ShardParam,
+  pairsetDefinitionSchema,
+  pairsetListQuerySchema,
+  pairsetPreviewSchema,
+  shardParamSchema,
+  type PairsetDefinition,
+  type PairsetListQuery,
+  type PairsetPreviewBody,
+  type ShardParam,
 } from '../../shared/schemas/pairsets';
-import type {
-  PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetSummary,
-} from '../../shared/types/pairsets';
+import type { PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetSummary } from '../../shared/types/pairsets';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validated } from '../middlewares/validate';
 import {
-  cancelBuild, createPairset, deletePairset, getPairsetDetail, listPairsets, manifestPath, newPairsetVersion,
-  pairsetDifficulty, previewPairset, shardFile, startBuild,
+  cancelBuild,
+  createPairset,
+  deletePairset,
+  getPairsetDetail,
+  listPairsets,
+  manifestPath,
+  newPairsetVersion,
+  pairsetDifficulty,
+  previewPairset,
+  shardFile,
+  startBuild,
 } from '../core/pairsets/pairsets';
 import type { StoragePaths } from '../core/storage/paths';
 
@@ -103,7 +116,9 @@ function getShard(paths: StoragePaths) {
     const shard = await shardFile(id, index, paths);
     res.attachment(shard.file);
     res.sendFile(shard.path, {
-      acceptRanges: true, dotfiles: 'deny', headers: { 'Content-Type': 'application/x-tar' },
+      acceptRanges: true,
+      dotfiles: 'deny',
+      headers: { 'Content-Type': 'application/x-tar' },
     });
   };
 }

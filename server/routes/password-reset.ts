@@ -2,15 +2,19 @@ import { Router, type Request, type Response } from 'express';
 import type { Notice } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import {
-  resetPasswordSchema, resetRequestSchema, type ResetPasswordBody, type ResetRequestBody,
+  resetPasswordSchema,
+  resetRequestSchema,
+  type ResetPasswordBody,
+  type ResetRequestBody,
 } from '../../shared/schemas/password-reset';
 import type { Config } from '../core/config';
 import { createResetRequestLimits } from '../middlewares/reset-request-limits';
 import { validated } from '../middlewares/validate';
 import { requestPasswordReset, resetPassword } from '../core/people/password-reset';
 
-export const RESET_REQUESTED = 'If that address belongs to an active Kinefold account, a link to choose a new '
-  + 'password is on its way. It works for one hour.';
+export const RESET_REQUESTED =
+  'If that address belongs to an active Kinefold account, a link to choose a new ' +
+  'password is on its way. It works for one hour.';
 
 /** "Forgot password" from the sign-in page, and the form its link leads to; both work signed out. */
 export function createPasswordResetRouter(config: Config): Router {

@@ -3,7 +3,11 @@ import type { ListPage } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import {
-  projectBodySchema, projectListQuerySchema, projectPatchSchema, type ProjectBody, type ProjectListQuery,
+  projectBodySchema,
+  projectListQuerySchema,
+  projectPatchSchema,
+  type ProjectBody,
+  type ProjectListQuery,
   type ProjectPatch,
 } from '../../shared/schemas/projects';
 import type { ProjectSummary } from '../../shared/types/projects';

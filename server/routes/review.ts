@@ -4,17 +4,32 @@ import type { ListPage } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import {
-  bulkBodySchema, noQuerySchema, rejectReasonsBodySchema, reviewQueueQuerySchema, verdictBodySchema, type BulkBody,
-  type RejectReasonsBody, type ReviewQueueQuery, type VerdictBody,
+  bulkBodySchema,
+  noQuerySchema,
+  rejectReasonsBodySchema,
+  reviewQueueQuerySchema,
+  verdictBodySchema,
+  type BulkBody,
+  type RejectReasonsBody,
+  type ReviewQueueQuery,
+  type VerdictBody,
 } from '../../shared/schemas/review';
 import {
-  compareParamSchema, reviewNextQuerySchema, undoVerdictBodySchema, type CompareParam, type ReviewNextQuery,
+  compareParamSchema,
+  reviewNextQuerySchema,
+  undoVerdictBodySchema,
+  type CompareParam,
+  type ReviewNextQuery,
   type UndoVerdictBody,
 } from '../../shared/schemas/review-flow';
 import type { ClipDetail } from '../../shared/types/clips';
 import type { DuplicateComparison } from '../../shared/types/duplicate-comparison';
 import type {
-  BulkResponse, ClipClaim, RejectReasonList, ReviewFacets, ReviewQueueItem,
+  BulkResponse,
+  ClipClaim,
+  RejectReasonList,
+  ReviewFacets,
+  ReviewQueueItem,
 } from '../../shared/types/review';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { validated } from '../middlewares/validate';

@@ -3,7 +3,10 @@ import type { ListPage } from '../../shared/api-types';
 import { HttpStatus } from '../../shared/http-status';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import {
-  tokenBodySchema, tokenListQuerySchema, type TokenBody, type TokenListQuery,
+  tokenBodySchema,
+  tokenListQuerySchema,
+  type TokenBody,
+  type TokenListQuery,
 } from '../../shared/schemas/tokens';
 import type { ApiTokenSummary, CreatedApiToken } from '../../shared/types/pairsets';
 import { currentUser, requireRole } from '../middlewares/auth';

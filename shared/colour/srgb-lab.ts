@@ -48,9 +48,7 @@ const CHANNELS = 3;
 
 /** Rows: X, Y, Z from linear R, G, B (scikit-image `xyz_from_rgb`). */
 const XYZ_FROM_RGB: readonly number[] = [
-  0.412453, 0.35758, 0.180423,
-  0.212671, 0.71516, 0.072169,
-  0.019334, 0.119193, 0.950227,
+  0.412453, 0.35758, 0.180423, 0.212671, 0.71516, 0.072169, 0.019334, 0.119193, 0.950227,
 ];
 const RGB_FROM_XYZ: readonly number[] = invert3x3(XYZ_FROM_RGB);
 
@@ -64,9 +62,7 @@ export function srgbDecode(c: number): number {
 
 /** Linear light (0..1) → gamma-encoded sRGB channel (0..1). */
 export function srgbEncode(c: number): number {
-  return c <= SRGB_ENCODE_KNEE
-    ? SRGB_LINEAR_SLOPE * c
-    : (1 + SRGB_OFFSET) * c ** (1 / SRGB_GAMMA) - SRGB_OFFSET;
+  return c <= SRGB_ENCODE_KNEE ? SRGB_LINEAR_SLOPE * c : (1 + SRGB_OFFSET) * c ** (1 / SRGB_GAMMA) - SRGB_OFFSET;
 }
 
 export function linearRgbToXyz(r: number, g: number, b: number): Xyz {
@@ -159,8 +155,12 @@ function clampUnit(v: number): number {
 
 function checkSizes(rgbLength: number, planes: LabPlanes): number {
   const pixels = rgbLength / CHANNELS;
-  if (!Number.isInteger(pixels) || planes.l.length !== pixels || planes.a.length !== pixels
-    || planes.b.length !== pixels) {
+  if (
+    !Number.isInteger(pixels) ||
+    planes.l.length !== pixels ||
+    planes.a.length !== pixels ||
+    planes.b.length !== pixels
+  ) {
     throw new RangeError(`RGB buffer of ${rgbLength} bytes does not match L*a*b* planes of ${planes.l.length}`);
   }
   return pixels;
@@ -174,8 +174,14 @@ function invert3x3(m: readonly number[]): number[] {
   const c02 = d * h - e * g;
   const det = a * c00 + b * c01 + c * c02;
   return [
-    c00 / det, (c * h - b * i) / det, (b * f - c * e) / det,
-    c01 / det, (a * i - c * g) / det, (c * d - a * f) / det,
-    c02 / det, (b * g - a * h) / det, (a * e - b * d) / det,
+    c00 / det,
+    (c * h - b * i) / det,
+    (b * f - c * e) / det,
+    c01 / det,
+    (a * i - c * g) / det,
+    (c * d - a * f) / det,
+    c02 / det,
+    (b * g - a * h) / det,
+    (a * e - b * d) / det,
   ];
 }

@@ -107,8 +107,12 @@ const STOP_IMPROVEMENT = 1e-6;
  * where pair i comes from (its clip): the stopping pairs are whole groups, so the step kept is the one that
  * carries over to clips the critic never fitted, as the held-out pairs are.
  */
-export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array[], groups: readonly number[],
-  options: CriticOptions): CriticTraining {
+export function trainCritic(
+  a: readonly Float32Array[],
+  b: readonly Float32Array[],
+  groups: readonly number[],
+  options: CriticOptions,
+): CriticTraining {
   if (a.length !== b.length || groups.length !== a.length) throw new RangeError('each pair needs both views');
   if (a.length < MIN_PAIRS) {
     throw new RangeError(`a critic needs at least ${MIN_PAIRS} pairs to train, got ${a.length}`);
@@ -122,7 +126,11 @@ export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array
   const init = options.initScale / Math.sqrt(m * width);
   const start = Float64Array.from({ length: m * width }, () => init * standardNormal(random));
   const critic: TrainedCritic = {
-    inputDims, embedDims: m, temperature: options.temperature, wa: start.slice(), wb: start.slice(),
+    inputDims,
+    embedDims: m,
+    temperature: options.temperature,
+    wa: start.slice(),
+    wb: start.slice(),
   };
   const split = stoppingSplit(groups, options.stopShare, random);
   const xa = a.map(extend);
@@ -144,8 +152,13 @@ export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array
     let total = 0;
     const batches = Math.floor(stopA.length / stopBatch);
     for (let k = 0; k < batches; k += 1) {
-      total += stopWork.lossAndGradient(critic, stopA.slice(k * stopBatch, (k + 1) * stopBatch),
-        stopB.slice(k * stopBatch, (k + 1) * stopBatch), null, null);
+      total += stopWork.lossAndGradient(
+        critic,
+        stopA.slice(k * stopBatch, (k + 1) * stopBatch),
+        stopB.slice(k * stopBatch, (k + 1) * stopBatch),
+        null,
+        null,
+      );
     }
     return total / batches;
   };
@@ -154,8 +167,13 @@ export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array
   let stretch = 0;
   for (let step = 1; step <= options.steps; step += 1) {
     const members = draw();
-    stretch += work.lossAndGradient(critic, members.map((i) => fitA[i]!), members.map((i) => fitB[i]!), gradA,
-      gradB);
+    stretch += work.lossAndGradient(
+      critic,
+      members.map((i) => fitA[i]!),
+      members.map((i) => fitB[i]!),
+      gradA,
+      gradB,
+    );
     if (options.tied) {
       // One matrix used on both sides: its gradient is the sum of the two sides' gradients.
       for (let i = 0; i < gradA.length; i += 1) gradA[i] += gradB[i]!;
@@ -179,7 +197,13 @@ export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array
   critic.wa.set(best.wa);
   critic.wb.set(best.wb);
   return {
-    critic, curve, batch, stopBatch, fitPairs: fitA.length, stopPairs: stopA.length, keptStep: best.step,
+    critic,
+    curve,
+    batch,
+    stopBatch,
+    fitPairs: fitA.length,
+    stopPairs: stopA.length,
+    keptStep: best.step,
   };
 }
 
@@ -188,13 +212,19 @@ export function trainCritic(a: readonly Float32Array[], b: readonly Float32Array
  * set aside, in a seeded order, until they hold `share` of the pairs, while at least half of the pairs and one
  * group stay to fit; with a single group, or no group small enough, single pairs are set aside instead.
  */
-function stoppingSplit(groups: readonly number[], share: number, random: RandomSource):
-{ fit: number[]; stop: number[] } {
+function stoppingSplit(
+  groups: readonly number[],
+  share: number,
+  random: RandomSource,
+): { fit: number[]; stop: number[] } {
   const count = groups.length;
   const wanted = Math.min(count - 2, Math.max(2, Math.round(count * share)));
   const members = new Map<number, number[]>();
   groups.forEach((group, i) => members.set(group, [...(members.get(group) ?? []), i]));
-  const order = shuffleInPlace([...members.keys()].sort((x, y) => x - y), random);
+  const order = shuffleInPlace(
+    [...members.keys()].sort((x, y) => x - y),
+    random,
+  );
   const stop: number[] = [];
   for (const group of order.slice(0, -1)) {
     if (stop.length >= wanted) break;
@@ -265,7 +295,10 @@ class BatchWork {
   private readonly dg: Float64Array;
   private readonly dh: Float64Array;
 
-  constructor(private readonly size: number, private readonly dims: number) {
+  constructor(
+    private readonly size: number,
+    private readonly dims: number,
+  ) {
     this.g = Array.from({ length: size }, () => new Float64Array(dims));
     this.h = Array.from({ length: size }, () => new Float64Array(dims));
     this.scores = new Float64Array(size * size);
@@ -275,8 +308,13 @@ class BatchWork {
   }
 
   /** The batch's two-way InfoNCE loss; writes its gradients with respect to wa and wb into gradA and gradB. */
-  lossAndGradient(critic: TrainedCritic, xa: Float64Array[], xb: Float64Array[], gradA: Float64Array | null,
-    gradB: Float64Array | null): number {
+  lossAndGradient(
+    critic: TrainedCritic,
+    xa: Float64Array[],
+    xb: Float64Array[],
+    gradA: Float64Array | null,
+    gradB: Float64Array | null,
+  ): number {
     const { size: n, dims: m, scores, dScores } = this;
     const inverseT = 1 / critic.temperature;
     for (let i = 0; i < n; i += 1) {
@@ -335,8 +373,15 @@ function addOuter(target: Float64Array, left: Float64Array, right: Float64Array,
  * Softmax cross-entropy of one row or column of `scores` (start, stride, length) against `positive`: adds
  * share · (softmax − one-hot) into `gradient` at the same places and returns the loss, computed stably.
  */
-function softmaxInto(scores: Float64Array, start: number, stride: number, length: number, gradient: Float64Array,
-  share: number, positive: number): number {
+function softmaxInto(
+  scores: Float64Array,
+  start: number,
+  stride: number,
+  length: number,
+  gradient: Float64Array,
+  share: number,
+  positive: number,
+): number {
   let max = -Infinity;
   for (let k = 0; k < length; k += 1) max = Math.max(max, scores[start + k * stride]!);
   let sum = 0;
@@ -368,7 +413,7 @@ class AdamState {
       const g = gradient[i]!;
       this.first[i] = ADAM_BETA1 * this.first[i]! + (1 - ADAM_BETA1) * g;
       this.second[i] = ADAM_BETA2 * this.second[i]! + (1 - ADAM_BETA2) * g * g;
-      const move = (this.first[i]! / correct1) / (Math.sqrt(this.second[i]! / correct2) + ADAM_EPSILON);
+      const move = this.first[i]! / correct1 / (Math.sqrt(this.second[i]! / correct2) + ADAM_EPSILON);
       weights[i] -= rate * (move + decay * weights[i]!);
     }
   }

@@ -24,8 +24,13 @@ export interface CriticBound {
 }
 
 /** The bound at K over pairs (a[i], b[i]), or null when they do not fill one batch of K. */
-export function criticBound(critic: TrainedCritic, a: readonly Float32Array[], b: readonly Float32Array[], k: number,
-  seed: number): CriticBound | null {
+export function criticBound(
+  critic: TrainedCritic,
+  a: readonly Float32Array[],
+  b: readonly Float32Array[],
+  k: number,
+  seed: number,
+): CriticBound | null {
   if (a.length !== b.length) throw new RangeError('each pair needs both views');
   if (!Number.isInteger(k) || k < 2) throw new RangeError(`K must be an integer ≥ 2, got ${k}`);
   const batches = Math.floor(a.length / k);

@@ -11,7 +11,6 @@ import { TRIVIAL_BOUND_SHARE } from './pair-difficulty';
 
 export const NOTHING_FOUND_SHARE = 0.05;
 
-
 export interface CriticReadingInput {
   results: readonly CriticKResult[];
   trained: boolean;
@@ -36,40 +35,45 @@ export function readCritic(input: CriticReadingInput): { reading: CriticReading;
   if (!last || !last.heldOut) {
     return {
       reading: 'no-held-out',
-      message: `The val split gives ${input.heldOutPairs} pairs of this view pair, fewer than a batch of `
-        + `${input.smallestK}: there is no held-out figure. Give the definition a larger val share to get one.`,
+      message:
+        `The val split gives ${input.heldOutPairs} pairs of this view pair, fewer than a batch of ` +
+        `${input.smallestK}: there is no held-out figure. Give the definition a larger val share to get one.`,
     };
   }
   const { bound, logK, k } = last.heldOut;
   const share = bound / logK;
-  const floorNote = last.floor && last.floor.bound > bound
-    ? ` The untrained embedding does better on these pairs (${nats(last.floor.bound)}): the critic learned `
-      + 'particulars of the training clips; both figures are lower bounds, so the larger one holds.'
-    : '';
+  const floorNote =
+    last.floor && last.floor.bound > bound
+      ? ` The untrained embedding does better on these pairs (${nats(last.floor.bound)}): the critic learned ` +
+        'particulars of the training clips; both figures are lower bounds, so the larger one holds.'
+      : '';
   const source = `${input.trainPairs} training pairs from ${input.trainClips} clip${input.trainClips === 1 ? '' : 's'}`;
   if (share >= TRIVIAL_BOUND_SHARE) {
     return {
       reading: 'trivial',
-      message: `On held-out clips the critic picks the partner out of ${k} candidates almost every time `
-        + `(${nats(bound)} of log K = ${nats(logK)}). The views match trivially: such pairs teach a model little `
-        + `that a small linear critic does not already see. The bound is capped by log K, so the views may share `
-        + `more than it shows.${floorNote}`,
+      message:
+        `On held-out clips the critic picks the partner out of ${k} candidates almost every time ` +
+        `(${nats(bound)} of log K = ${nats(logK)}). The views match trivially: such pairs teach a model little ` +
+        `that a small linear critic does not already see. The bound is capped by log K, so the views may share ` +
+        `more than it shows.${floorNote}`,
     };
   }
   if (share <= NOTHING_FOUND_SHARE) {
     return {
       reading: 'nothing-found',
-      message: `On held-out clips the trained critic does no better than chance (${nats(bound)} at K = ${k}). `
-        + `It found nothing shared that carries over to new clips, with ${source}. That does not show the views `
-        + `are unrelated: a larger model, other descriptors or more clips may find what this critic cannot.`
-        + floorNote,
+      message:
+        `On held-out clips the trained critic does no better than chance (${nats(bound)} at K = ${k}). ` +
+        `It found nothing shared that carries over to new clips, with ${source}. That does not show the views ` +
+        `are unrelated: a larger model, other descriptors or more clips may find what this critic cannot.` +
+        floorNote,
     };
   }
   return {
     reading: 'shared',
-    message: `On held-out clips the views share at least ${nats(bound)} (of log K = ${nats(logK)} at K = ${k}) `
-      + `that a small critic trained on ${source} finds. It is a lower bound on their mutual information, not an `
-      + 'estimate of it, and it says nothing about whether what they share is what a model should learn.'
-      + floorNote,
+    message:
+      `On held-out clips the views share at least ${nats(bound)} (of log K = ${nats(logK)} at K = ${k}) ` +
+      `that a small critic trained on ${source} finds. It is a lower bound on their mutual information, not an ` +
+      'estimate of it, and it says nothing about whether what they share is what a model should learn.' +
+      floorNote,
   };
 }

@@ -102,9 +102,11 @@ export function pairDifficulty(
   const column = new Float64Array(k);
   for (let batch = 0; batch < batches; batch += 1) {
     const members = order.slice(batch * k, (batch + 1) * k);
-    members.forEach((ia, i) => members.forEach((ib, j) => {
-      similarity[i * k + j] = cosineSimilarity(viewsA[ia], viewsB[ib]);
-    }));
+    members.forEach((ia, i) =>
+      members.forEach((ib, j) => {
+        similarity[i * k + j] = cosineSimilarity(viewsA[ia], viewsB[ib]);
+      }),
+    );
     for (let i = 0; i < k; i += 1) {
       for (let j = 0; j < k; j += 1) {
         row[j] = similarity[i * k + j];

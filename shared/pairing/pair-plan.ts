@@ -80,4 +80,3 @@ function clipPairs(clip: PlanClip, pairs: readonly ViewPair[], split: SplitName,
 function needsMotion(pair: ViewPair): boolean {
   return pair.a === 'motion' || pair.b === 'motion';
 }
-

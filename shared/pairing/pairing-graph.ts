@@ -133,6 +133,8 @@ function passes(frame: MomentFrame, filter: MomentFilter): boolean {
   if (minMeanMotion === undefined && minConsistentShare === undefined) return true;
   const motion = frame.motion;
   if (!motion) return false;
-  return (minMeanMotion === undefined || motion.meanMagnitude >= minMeanMotion)
-    && (minConsistentShare === undefined || motion.consistentShare >= minConsistentShare);
+  return (
+    (minMeanMotion === undefined || motion.meanMagnitude >= minMeanMotion) &&
+    (minConsistentShare === undefined || motion.consistentShare >= minConsistentShare)
+  );
 }

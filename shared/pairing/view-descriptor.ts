@@ -24,9 +24,19 @@ export function viewDescriptor(plane: Float32Array, width: number, height: numbe
   const cells = DESCRIPTOR_CELLS * DESCRIPTOR_CELLS;
   const out = new Float32Array(DESCRIPTOR_LENGTH);
   out.set(resizeArea(plane, width, height, DESCRIPTOR_CELLS, DESCRIPTOR_CELLS), 0);
-  out.set(resizeArea(gradientMagnitude(resizeArea(plane, width, height, DESCRIPTOR_GRADIENT_SIZE,
-    DESCRIPTOR_GRADIENT_SIZE), DESCRIPTOR_GRADIENT_SIZE), DESCRIPTOR_GRADIENT_SIZE, DESCRIPTOR_GRADIENT_SIZE,
-  DESCRIPTOR_CELLS, DESCRIPTOR_CELLS), cells);
+  out.set(
+    resizeArea(
+      gradientMagnitude(
+        resizeArea(plane, width, height, DESCRIPTOR_GRADIENT_SIZE, DESCRIPTOR_GRADIENT_SIZE),
+        DESCRIPTOR_GRADIENT_SIZE,
+      ),
+      DESCRIPTOR_GRADIENT_SIZE,
+      DESCRIPTOR_GRADIENT_SIZE,
+      DESCRIPTOR_CELLS,
+      DESCRIPTOR_CELLS,
+    ),
+    cells,
+  );
   standardise(out.subarray(0, cells));
   standardise(out.subarray(cells));
   return out;

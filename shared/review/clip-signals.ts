@@ -33,8 +33,10 @@ export function clipReviewSignals(frames: readonly MomentFrame[], deltas: readon
 
 /** frame~neighbour+Δ pairs per Δ (each Δ once, ascending). */
 export function usablePairsByDelta(frames: readonly MomentFrame[], deltas: readonly number[]): DeltaPairs[] {
-  return [...new Set(deltas)].sort((a, b) => a - b).map((delta) => ({
-    delta,
-    pairs: validMoments(frames, { kind: `frame~neighbour+${delta}`, a: 'frame', b: `neighbour+${delta}` }).length,
-  }));
+  return [...new Set(deltas)]
+    .sort((a, b) => a - b)
+    .map((delta) => ({
+      delta,
+      pairs: validMoments(frames, { kind: `frame~neighbour+${delta}`, a: 'frame', b: `neighbour+${delta}` }).length,
+    }));
 }

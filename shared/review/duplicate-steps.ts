@@ -39,8 +39,10 @@ export function hexHashDistance(a: string, b: string): number {
 }
 
 /** `hashes[i]`: the hash of frame i, null where it was not measured. */
-export function alignDuplicate(hashes: readonly (string | null)[], others: readonly (string | null)[]):
-  DuplicateAlignment {
+export function alignDuplicate(
+  hashes: readonly (string | null)[],
+  others: readonly (string | null)[],
+): DuplicateAlignment {
   const minOverlap = Math.max(1, Math.ceil(MIN_OVERLAP_SHARE * Math.min(hashes.length, others.length)));
   let best: { shift: number; mean: number } | null = null;
   for (let shift = -(hashes.length - 1); shift <= others.length - 1; shift += 1) {
@@ -56,7 +58,8 @@ export function alignDuplicate(hashes: readonly (string | null)[], others: reado
     const inRange = otherIndex >= 0 && otherIndex < others.length;
     const other = inRange ? others[otherIndex] : null;
     return {
-      index, otherIndex: inRange ? otherIndex : null,
+      index,
+      otherIndex: inRange ? otherIndex : null,
       distance: hash !== null && other !== null && other !== undefined ? hexHashDistance(hash, other) : null,
     };
   });
@@ -64,8 +67,12 @@ export function alignDuplicate(hashes: readonly (string | null)[], others: reado
 }
 
 /** Mean distance of the pairs (i, i + shift) where both hashes exist; null below `minOverlap` such pairs. */
-function meanDistance(hashes: readonly (string | null)[], others: readonly (string | null)[], shift: number,
-  minOverlap: number): number | null {
+function meanDistance(
+  hashes: readonly (string | null)[],
+  others: readonly (string | null)[],
+  shift: number,
+  minOverlap: number,
+): number | null {
   let sum = 0;
   let count = 0;
   for (let i = Math.max(0, -shift); i < hashes.length && i + shift < others.length; i += 1) {

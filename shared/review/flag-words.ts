@@ -23,6 +23,8 @@ export function flagNumber(measure: string, value: number): string {
 /** "under" when the flag is raised below its limit, "over" when above: read off the numbers themselves. */
 export function flagSentence(lead: string, { measure, value, threshold }: FlagNumbers): string {
   const side = value < threshold ? 'under' : 'over';
-  return `${lead}: the ${measure} is ${flagNumber(measure, value)}, ${side} the limit of `
-    + `${flagNumber(measure, threshold)}.`;
+  return (
+    `${lead}: the ${measure} is ${flagNumber(measure, value)}, ${side} the limit of ` +
+    `${flagNumber(measure, threshold)}.`
+  );
 }

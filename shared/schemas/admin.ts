@@ -26,7 +26,12 @@ export type AuditListQuery = z.infer<typeof auditListQuerySchema>;
 export const auditExportQuerySchema = z.strictObject(auditFilters);
 export type AuditExportQuery = z.infer<typeof auditExportQuerySchema>;
 
-const projectId = z.coerce.number({ message: 'projectId must be a number' }).int().positive('projectId must be positive');
+const projectId = z.coerce
+  .number({ message: 'projectId must be a number' })
+  .int()
+  .positive('projectId must be positive');
 export const retentionQuerySchema = z.strictObject({ projectId });
-export const retentionRunSchema = z.strictObject({ projectId: z.number().int().positive('projectId must be positive') });
+export const retentionRunSchema = z.strictObject({
+  projectId: z.number().int().positive('projectId must be positive'),
+});
 export type RetentionQuery = z.infer<typeof retentionQuerySchema>;

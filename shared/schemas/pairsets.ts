@@ -28,8 +28,11 @@ const MAX_LIST = 100;
 
 const isoWithZone = (field: string) =>
   z.iso.datetime({ offset: true, message: `${field} must be an ISO 8601 time with a time zone` });
-const uniqueList = <T extends z.ZodType>(item: T, what: string) => z.array(item).max(MAX_LIST)
-  .refine((values) => new Set(values).size === values.length, `${what} must not repeat`);
+const uniqueList = <T extends z.ZodType>(item: T, what: string) =>
+  z
+    .array(item)
+    .max(MAX_LIST)
+    .refine((values) => new Set(values).size === values.length, `${what} must not repeat`);
 
 const definitionShape = {
   name: z.string().trim().min(1, 'name is required').max(200),
@@ -49,7 +52,11 @@ const definitionShape = {
   motionFormat: z.enum(MOTION_FORMATS).default(PAIRSET_DEFAULTS.motionFormat),
   split: z.strictObject({
     val: z.number().min(0, 'split.val must be within 0..1').max(1, 'split.val must be within 0..1'),
-    seed: z.number().int().min(0).max(2 ** 32 - 1),
+    seed: z
+      .number()
+      .int()
+      .min(0)
+      .max(2 ** 32 - 1),
   }),
   shardMB: z.number().min(0.05, 'shardMB must be at least 0.05').max(4096).default(PAIRSET_DEFAULTS.shardMB),
   /** τ of the pair-difficulty report. */
@@ -90,7 +97,8 @@ export const pairsetDefinitionSchema = z.strictObject(definitionShape).superRefi
 export type PairsetDefinition = z.infer<typeof pairsetDefinitionSchema>;
 
 /** `POST /api/pairsets/preview`: the same body; the name may still be empty while the form is filled in. */
-export const pairsetPreviewSchema = z.strictObject({ ...definitionShape, name: definitionShape.name.optional() })
+export const pairsetPreviewSchema = z
+  .strictObject({ ...definitionShape, name: definitionShape.name.optional() })
   .superRefine(checkDefinition);
 export type PairsetPreviewBody = z.infer<typeof pairsetPreviewSchema>;
 

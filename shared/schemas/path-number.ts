@@ -6,6 +6,15 @@ import { z } from 'zod';
  */
 export function pathNumber(name: string, { min }: { min: 0 | 1 }) {
   const message = min === 1 ? `${name} must be a positive number` : `${name} must be 0 or more`;
-  return z.string().regex(/^\d{1,10}$/, message).transform(Number)
-    .pipe(z.number().int().min(min, message).max(2 ** 31 - 1, `${name} is too large`));
+  return z
+    .string()
+    .regex(/^\d{1,10}$/, message)
+    .transform(Number)
+    .pipe(
+      z
+        .number()
+        .int()
+        .min(min, message)
+        .max(2 ** 31 - 1, `${name} is too large`),
+    );
 }

@@ -62,12 +62,12 @@ const disParamsShape = z.strictObject({
   meanNormalisation: flag,
 });
 export const disParamsSchema = disParamsShape.refine((p) => p.patchStride <= p.patchSize, {
-    path: ['patchStride'],
-    error: (issue) => {
-      const input = issue.input as { patchSize: number };
-      return `must be an integer in 1..${input.patchSize}`;
-    },
-  });
+  path: ['patchStride'],
+  error: (issue) => {
+    const input = issue.input as { patchSize: number };
+    return `must be an integer in 1..${input.patchSize}`;
+  },
+});
 
 /** Every parameter of each estimator, complete (what a field records). */
 export const ESTIMATOR_PARAM_SCHEMAS = {
@@ -106,11 +106,18 @@ export const flagThresholdsSchema = z.strictObject({
   shortFrames: z.number().int('must be a whole number of frames').min(0).max(100000).optional(),
   cutHeavyPerMinute: NOT_NEGATIVE.optional(),
   duplicateShare: SHARE.optional(),
-  duplicateHashDistance: z.number().int('must be a whole number of bits').min(0, 'must be in 0..64')
-    .max(64, 'must be in 0..64').optional(),
+  duplicateHashDistance: z
+    .number()
+    .int('must be a whole number of bits')
+    .min(0, 'must be in 0..64')
+    .max(64, 'must be in 0..64')
+    .optional(),
   staticMeanMagnitude: NOT_NEGATIVE.optional(),
   shakyJitter: NOT_NEGATIVE.optional(),
-  cutThreshold: z.number().gt(0, 'must be more than 0 and at most 2').max(2, 'must be more than 0 and at most 2')
+  cutThreshold: z
+    .number()
+    .gt(0, 'must be more than 0 and at most 2')
+    .max(2, 'must be more than 0 and at most 2')
     .optional(),
 });
 export type StoredFlagThresholds = z.infer<typeof flagThresholdsSchema>;
@@ -119,8 +126,15 @@ export const MAX_DELTA = 30;
 
 export const settingsFields = {
   sampleFps: z.number().min(0.5, 'sampleFps must be at least 0.5 frames/s').max(30, 'sampleFps must be at most 30'),
-  workingSize: z.number().int().min(64, 'workingSize must be at least 64 px').max(1920, 'workingSize must be at most 1920 px'),
-  deltas: z.array(z.number().int().min(1).max(MAX_DELTA)).min(1, 'deltas needs at least one offset').max(8)
+  workingSize: z
+    .number()
+    .int()
+    .min(64, 'workingSize must be at least 64 px')
+    .max(1920, 'workingSize must be at most 1920 px'),
+  deltas: z
+    .array(z.number().int().min(1).max(MAX_DELTA))
+    .min(1, 'deltas needs at least one offset')
+    .max(8)
     .refine((values) => new Set(values).size === values.length, 'deltas must not repeat'),
   estimator: z.enum(ESTIMATORS),
   /** Checked against the chosen estimator by `projectSettingsSchema`. */

@@ -3,7 +3,12 @@ import { DEFAULT_ESTIMATOR } from '../estimators';
 import { listQuerySchema } from './list-query';
 import { checkEstimatorParams, settingsFields as settingsShape } from './project-settings';
 
-const quotaBytes = z.number().int().min(0, 'quotaBytes must be 0 or more bytes').max(2 ** 53 - 1).nullable();
+const quotaBytes = z
+  .number()
+  .int()
+  .min(0, 'quotaBytes must be 0 or more bytes')
+  .max(2 ** 53 - 1)
+  .nullable();
 
 const projectFields = z.strictObject({
   name: z.string().trim().min(1, 'name is required').max(200),

@@ -9,11 +9,13 @@ export const MAX_NEXT_CLIPS = 10;
  * The clips that follow `after` in the queue under the curator's filter and order. Paging is the queue
  * screen's business, so page and pageSize are refused here; the client drops them from the URL's query.
  */
-export const reviewNextQuerySchema = listQuerySchema(REVIEW_SORT_FIELDS).omit({ page: true, pageSize: true }).extend({
-  ...reviewFilterShape,
-  after: z.coerce.number({ message: 'after must be a clip id' }).int().positive('after must be a clip id'),
-  limit: z.coerce.number().int().min(1).max(MAX_NEXT_CLIPS, `limit is at most ${MAX_NEXT_CLIPS}`).default(3),
-});
+export const reviewNextQuerySchema = listQuerySchema(REVIEW_SORT_FIELDS)
+  .omit({ page: true, pageSize: true })
+  .extend({
+    ...reviewFilterShape,
+    after: z.coerce.number({ message: 'after must be a clip id' }).int().positive('after must be a clip id'),
+    limit: z.coerce.number().int().min(1).max(MAX_NEXT_CLIPS, `limit is at most ${MAX_NEXT_CLIPS}`).default(3),
+  });
 export type ReviewNextQuery = z.infer<typeof reviewNextQuerySchema>;
 
 /** Undo names the verdict it undoes, so a verdict given meanwhile (by an admin, say) is never undone by mistake. */

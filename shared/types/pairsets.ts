@@ -4,7 +4,6 @@ import type { SplitName } from '../pairing/split';
 import type { PairsetCritic } from './pair-critic';
 import type { PairsetDefinition, PairsetState } from '../schemas/pairsets';
 
-
 export interface SplitCounts {
   train: number;
   val: number;

@@ -14,7 +14,8 @@ export const listAudit = (query: Partial<AuditListQuery>) => http.get<ListPage<A
 /** The CSV export's address with the same filters as the screen (downloaded by the browser itself). */
 export function auditCsvUrl(filters: Record<string, string | number | undefined>): string {
   const params = new URLSearchParams();
-  for (const [key, value] of Object.entries(filters)) if (value !== undefined && value !== '') params.set(key, String(value));
+  for (const [key, value] of Object.entries(filters))
+    if (value !== undefined && value !== '') params.set(key, String(value));
   const search = params.toString();
   return `/api/audit.csv${search ? `?${search}` : ''}`;
 }

@@ -24,21 +24,24 @@ export function uploadClip(
   onProgress: (sentBytes: number, totalBytes: number) => void,
 ): UploadHandle {
   const xhr = new XMLHttpRequest();
-  const done = fetchCsrfToken().then((token) => new Promise<ClipSummary>((resolve, reject) => {
-    const form = new FormData();
-    for (const [key, value] of Object.entries(fields)) form.append(key, value);
-    form.append('file', file, file.name);
-    xhr.open('POST', '/api/clips');
-    xhr.setRequestHeader('x-csrf-token', token);
-    xhr.responseType = 'json';
-    xhr.upload.onprogress = (event) => onProgress(event.loaded, event.total);
-    xhr.onload = () => {
-      if (xhr.status === 201) resolve(xhr.response as ClipSummary);
-      else reject(apiErrorFrom(xhr.status, xhr.statusText, xhr.response as ApiErrorBody | null));
-    };
-    xhr.onerror = () => reject(new Error('The connection to the server broke off.'));
-    xhr.onabort = () => reject(new DOMException('Upload cancelled', 'AbortError'));
-    xhr.send(form);
-  }));
+  const done = fetchCsrfToken().then(
+    (token) =>
+      new Promise<ClipSummary>((resolve, reject) => {
+        const form = new FormData();
+        for (const [key, value] of Object.entries(fields)) form.append(key, value);
+        form.append('file', file, file.name);
+        xhr.open('POST', '/api/clips');
+        xhr.setRequestHeader('x-csrf-token', token);
+        xhr.responseType = 'json';
+        xhr.upload.onprogress = (event) => onProgress(event.loaded, event.total);
+        xhr.onload = () => {
+          if (xhr.status === 201) resolve(xhr.response as ClipSummary);
+          else reject(apiErrorFrom(xhr.status, xhr.statusText, xhr.response as ApiErrorBody | null));
+        };
+        xhr.onerror = () => reject(new Error('The connection to the server broke off.'));
+        xhr.onabort = () => reject(new DOMException('Upload cancelled', 'AbortError'));
+        xhr.send(form);
+      }),
+  );
   return { done, cancel: () => xhr.abort() };
 }

@@ -1,8 +1,6 @@
 import type { ListPage } from '../../shared/api-types';
 import type { PairsetDefinition, PairsetListQuery, PairsetPreviewBody } from '../../shared/schemas/pairsets';
-import type {
-  PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetSummary,
-} from '../../shared/types/pairsets';
+import type { PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetSummary } from '../../shared/types/pairsets';
 import { apiErrorFrom, http } from './http';
 
 export const listPairsets = (query: Partial<PairsetListQuery>) =>
@@ -25,8 +23,11 @@ export const pairsetUrls = {
  * Downloads a file of a pairset with progress (bytes received of the Content-Length), as a Blob for saving.
  * `signal` cancels it.
  */
-export async function downloadPairsetFile(url: string, onProgress: (received: number, total: number) => void,
-  signal?: AbortSignal): Promise<Blob> {
+export async function downloadPairsetFile(
+  url: string,
+  onProgress: (received: number, total: number) => void,
+  signal?: AbortSignal,
+): Promise<Blob> {
   const response = await fetch(url, { credentials: 'same-origin', signal });
   if (!response.ok || !response.body) {
     throw apiErrorFrom(response.status, response.statusText, await response.json().catch(() => null));

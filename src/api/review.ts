@@ -5,7 +5,11 @@ import type { ReviewNextQuery } from '../../shared/schemas/review-flow';
 import type { ClipDetail } from '../../shared/types/clips';
 import type { DuplicateComparison } from '../../shared/types/duplicate-comparison';
 import type {
-  BulkResponse, ClipClaim, RejectReasonList, ReviewFacets, ReviewQueueItem,
+  BulkResponse,
+  ClipClaim,
+  RejectReasonList,
+  ReviewFacets,
+  ReviewQueueItem,
 } from '../../shared/types/review';
 import { http } from './http';
 

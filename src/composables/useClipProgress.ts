@@ -24,10 +24,14 @@ export function useClipProgress(clipId: Ref<number>, initialState: Ref<ClipState
     timer = setTimeout(poll, POLL_MS);
   }
 
-  watch([clipId, initialState], ([, state]) => {
-    clearTimeout(timer);
-    if (state && ACTIVE.includes(state)) void poll();
-  }, { immediate: true });
+  watch(
+    [clipId, initialState],
+    ([, state]) => {
+      clearTimeout(timer);
+      if (state && ACTIVE.includes(state)) void poll();
+    },
+    { immediate: true },
+  );
   onBeforeUnmount(() => clearTimeout(timer));
   return progress;
 }

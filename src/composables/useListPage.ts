@@ -43,7 +43,12 @@ export function useListPage<T, F extends object>(
       items.value = result.items;
       total.value = result.total;
     } catch (error) {
-      toast.add({ severity: 'error', summary: 'Could not load the list', detail: (error as Error).message, life: 6000 });
+      toast.add({
+        severity: 'error',
+        summary: 'Could not load the list',
+        detail: (error as Error).message,
+        life: 6000,
+      });
     } finally {
       if (ticket === latest) loading.value = false;
     }

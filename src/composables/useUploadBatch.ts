@@ -7,7 +7,8 @@ import { uploadClip, type UploadHandle } from '../api/clips';
 /** Files sent at once: enough to keep the line busy, few enough that each shows steady progress. */
 export const PARALLEL_UPLOADS = 3;
 
-export type UploadItemState = 'waiting' | 'sending' | 'checking' | 'created' | 'duplicate' | 'refused' | 'failed' | 'cancelled';
+export type UploadItemState =
+  'waiting' | 'sending' | 'checking' | 'created' | 'duplicate' | 'refused' | 'failed' | 'cancelled';
 
 export interface UploadItem {
   key: number;
@@ -27,15 +28,28 @@ export function useUploadBatch() {
   const items = reactive<UploadItem[]>([]);
   const queue = new PQueue({ concurrency: PARALLEL_UPLOADS });
 
-  const totalBytes = computed(() => items.filter((item) => item.state !== 'cancelled')
-    .reduce((sum, item) => sum + item.file.size, 0));
-  const sentBytes = computed(() => items.filter((item) => item.state !== 'cancelled')
-    .reduce((sum, item) => sum + (isFinished(item) ? item.file.size : item.sentBytes), 0));
+  const totalBytes = computed(() =>
+    items.filter((item) => item.state !== 'cancelled').reduce((sum, item) => sum + item.file.size, 0),
+  );
+  const sentBytes = computed(() =>
+    items
+      .filter((item) => item.state !== 'cancelled')
+      .reduce((sum, item) => sum + (isFinished(item) ? item.file.size : item.sentBytes), 0),
+  );
   const busy = computed(() => items.some((item) => ['waiting', 'sending', 'checking'].includes(item.state)));
 
   function add(files: File[]): void {
     for (const file of files) {
-      items.push({ key: nextKey++, file, state: 'waiting', sentBytes: 0, message: '', clip: null, duplicateOf: null, handle: null });
+      items.push({
+        key: nextKey++,
+        file,
+        state: 'waiting',
+        sentBytes: 0,
+        message: '',
+        clip: null,
+        duplicateOf: null,
+        handle: null,
+      });
     }
   }
 

@@ -1,7 +1,6 @@
 import type { RouteRecordRaw } from 'vue-router';
 import type { RouteName } from './route-names';
 
-
 export const routes: (RouteRecordRaw & { name?: RouteName })[] = [
   {
     path: '/sign-in',

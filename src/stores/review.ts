@@ -43,11 +43,14 @@ export const useReviewStore = defineStore('review', () => {
   function fetchAhead(clipId: number): void {
     if (ahead?.clipId === clipId) return;
     const entry = { clipId, evidence: fetchClipEvidence(clipId), pictures: markRaw([] as HTMLImageElement[]) };
-    entry.evidence.then((evidence) => {
-      if (ahead === entry) entry.pictures.push(...warmPictures(evidence));
-    }, () => {
-      if (ahead === entry) ahead = null;
-    });
+    entry.evidence.then(
+      (evidence) => {
+        if (ahead === entry) entry.pictures.push(...warmPictures(evidence));
+      },
+      () => {
+        if (ahead === entry) ahead = null;
+      },
+    );
     ahead = entry;
   }
 

@@ -3,7 +3,16 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, MailOutbox, Project, QuotaWarning, UsageSnapshot, Verdict } from '../../server/core/models';
+import {
+  AuditEvent,
+  Clip,
+  Job,
+  MailOutbox,
+  Project,
+  QuotaWarning,
+  UsageSnapshot,
+  Verdict,
+} from '../../server/core/models';
 import { checkQuotaThresholds } from '../../server/core/usage/quota-warnings';
 import { storagePaths } from '../../server/core/storage/paths';
 import { csvField } from '../../server/core/audit/audit-log';
@@ -42,15 +51,23 @@ afterAll(async () => {
 
 describe('admin routes', () => {
   const routes: [string, string][] = [
-    ['get', '/api/admin/usage'], ['post', '/api/admin/reconcile'], ['get', '/api/jobs'],
-    ['post', '/api/jobs/1/retry'], ['post', '/api/jobs/1/cancel'], ['get', '/api/audit'], ['get', '/api/audit.csv'],
+    ['get', '/api/admin/usage'],
+    ['post', '/api/admin/reconcile'],
+    ['get', '/api/jobs'],
+    ['post', '/api/jobs/1/retry'],
+    ['post', '/api/jobs/1/cancel'],
+    ['get', '/api/audit'],
+    ['get', '/api/audit.csv'],
   ];
   it('are 401 signed out and 403 for other roles', async () => {
     for (const [method, url] of routes) {
-      const anonymous = await (request(server.app) as unknown as Record<string, (u: string) => request.Test>)[method]!(url);
+      const anonymous = await (request(server.app) as unknown as Record<string, (u: string) => request.Test>)[method]!(
+        url,
+      );
       expect([401, 403]).toContain(anonymous.status);
-      const asOperator = await (operator.agent as unknown as Record<string, (u: string) => request.Test>)[method]!(url)
-        .set('x-csrf-token', operator.csrf);
+      const asOperator = await (operator.agent as unknown as Record<string, (u: string) => request.Test>)[method]!(
+        url,
+      ).set('x-csrf-token', operator.csrf);
       expect(asOperator.status).toBe(403);
     }
   });
@@ -67,13 +84,23 @@ describe('admin routes', () => {
 describe('jobs', () => {
   it('lists jobs with their target, and cancels and retries them', async () => {
     const list = await admin.agent.get('/api/jobs?kind=process-clip').expect(200);
-    expect(list.body.items[0]).toMatchObject({ kind: 'process-clip', state: 'done', target: `clip ${clipId} (orchard.mp4)` });
+    expect(list.body.items[0]).toMatchObject({
+      kind: 'process-clip',
+      state: 'done',
+      target: `clip ${clipId} (orchard.mp4)`,
+    });
     await admin.agent.post(`/api/jobs/${list.body.items[0].id}/cancel`).set('x-csrf-token', admin.csrf).expect(409);
 
-    const reprocess = await admin.agent.post(`/api/clips/${clipId}/reprocess`).set('x-csrf-token', admin.csrf).expect(202);
+    const reprocess = await admin.agent
+      .post(`/api/clips/${clipId}/reprocess`)
+      .set('x-csrf-token', admin.csrf)
+      .expect(202);
     expect(reprocess.body.state).toBe('queued');
     const queued = await Job.findOne({ where: { clipId, state: 'queued' } });
-    const cancelled = await admin.agent.post(`/api/jobs/${queued!.id}/cancel`).set('x-csrf-token', admin.csrf).expect(200);
+    const cancelled = await admin.agent
+      .post(`/api/jobs/${queued!.id}/cancel`)
+      .set('x-csrf-token', admin.csrf)
+      .expect(200);
     expect(cancelled.body.state).toBe('cancelled');
     expect((await Clip.findByPk(clipId))?.state).toBe('failed');
 
@@ -89,7 +116,11 @@ describe('usage and reconciliation', () => {
   it('finds and fixes planted drift: a file deleted behind its back and a stray folder', async () => {
     const paths = storagePaths(server.storageDir);
     const before = Number((await Clip.findByPk(clipId))!.storedBytes);
-    const frame = path.join(paths.clipDir(clipId), 'frames', fs.readdirSync(path.join(paths.clipDir(clipId), 'frames'))[0]!);
+    const frame = path.join(
+      paths.clipDir(clipId),
+      'frames',
+      fs.readdirSync(path.join(paths.clipDir(clipId), 'frames'))[0]!,
+    );
     const frameBytes = fs.statSync(frame).size;
     fs.rmSync(frame);
     const stray = paths.clipDir(9999);
@@ -124,8 +155,8 @@ describe('quota threshold warnings', () => {
   it('mails admins and the operators concerned once per crossing, again after falling back below', async () => {
     const project = await Project.findByPk(projectId);
     const used = Number((await Clip.findByPk(clipId))!.storedBytes);
-    const check = () => Clip.sequelize!.transaction((t) =>
-      checkQuotaThresholds(projectId, operatorId, server.config.publicUrl, t));
+    const check = () =>
+      Clip.sequelize!.transaction((t) => checkQuotaThresholds(projectId, operatorId, server.config.publicUrl, t));
     const mails = () => MailOutbox.count({ where: { template: 'quota-threshold' } });
 
     await project!.update({ quotaBytes: Math.ceil(used / 0.85) });
@@ -133,7 +164,8 @@ describe('quota threshold warnings', () => {
     expect(await mails()).toBe(2);
     await check();
     expect(await mails()).toBe(2);
-    const subject = (await MailOutbox.findOne({ where: { to: 'operator@example.test', template: 'quota-threshold' } }))!.subject;
+    const subject = (await MailOutbox.findOne({ where: { to: 'operator@example.test', template: 'quota-threshold' } }))!
+      .subject;
     expect(subject).toBe('Project "Orchard rows" has used 80 % of its storage quota');
 
     await project!.update({ quotaBytes: used });
@@ -184,10 +216,24 @@ describe('retention of rejected footage', () => {
     const recentFile = await makePatternClip(path.join(media, 'recent.mp4'), 2, 'hue=h=300');
     const recent = (await insertClip(server, recentFile, projectId, operatorId)).clip;
     await runtime.drain();
-    for (const [clip, decision, at] of [[rejected, 'reject', old], [accepted, 'accept', old], [recent, 'reject', new Date()]] as const) {
+    for (const [clip, decision, at] of [
+      [rejected, 'reject', old],
+      [accepted, 'accept', old],
+      [recent, 'reject', new Date()],
+    ] as const) {
       await clip.update({ state: decision === 'reject' ? 'rejected' : 'accepted' });
-      await Verdict.create({ clipId: clip.id, curatorId: adminId, decision, reason: decision === 'reject' ? 'blurry' : null,
-        reasonLabel: null, comment: '', bulk: false, at, supersededAt: null, digestId: null } as never);
+      await Verdict.create({
+        clipId: clip.id,
+        curatorId: adminId,
+        decision,
+        reason: decision === 'reject' ? 'blurry' : null,
+        reasonLabel: null,
+        comment: '',
+        bulk: false,
+        at,
+        supersededAt: null,
+        digestId: null,
+      } as never);
     }
     await project!.update({ retentionDays: 30 });
     const before = Number((await Clip.findByPk(rejected.id))!.storedBytes);
@@ -218,19 +264,34 @@ describe('settings', () => {
     expect(current).toMatchObject({ mailFrom: server.config.mailFrom, sessionHours: 12 });
     expect(current.projectFlagDefaults.blurryLaplacianVariance).toBe(100);
 
-    const bad = await admin.agent.put('/api/settings').set('x-csrf-token', admin.csrf)
-      .send({ ...current, sessionHours: 0 }).expect(400);
+    const bad = await admin.agent
+      .put('/api/settings')
+      .set('x-csrf-token', admin.csrf)
+      .send({ ...current, sessionHours: 0 })
+      .expect(400);
     expect(bad.body.error.message).toMatch(/^sessionHours/);
-    await admin.agent.put('/api/settings').set('x-csrf-token', admin.csrf)
-      .send({ ...current, mailFrom: 'not an address' }).expect(400);
+    await admin.agent
+      .put('/api/settings')
+      .set('x-csrf-token', admin.csrf)
+      .send({ ...current, mailFrom: 'not an address' })
+      .expect(400);
 
-    const saved = await admin.agent.put('/api/settings').set('x-csrf-token', admin.csrf).send({
-      ...current, projectFlagDefaults: { ...current.projectFlagDefaults, blurryLaplacianVariance: 60 },
-      mailFrom: 'Orchard team <robots@example.test>', sessionHours: 2,
-    }).expect(200);
+    const saved = await admin.agent
+      .put('/api/settings')
+      .set('x-csrf-token', admin.csrf)
+      .send({
+        ...current,
+        projectFlagDefaults: { ...current.projectFlagDefaults, blurryLaplacianVariance: 60 },
+        mailFrom: 'Orchard team <robots@example.test>',
+        sessionHours: 2,
+      })
+      .expect(200);
     expect(saved.body).toMatchObject({ mailFrom: 'Orchard team <robots@example.test>', sessionHours: 2 });
-    const project = await admin.agent.post('/api/projects').set('x-csrf-token', admin.csrf)
-      .send({ name: 'After the settings change' }).expect(201);
+    const project = await admin.agent
+      .post('/api/projects')
+      .set('x-csrf-token', admin.csrf)
+      .send({ name: 'After the settings change' })
+      .expect(201);
     expect(project.body.settings.flagThresholds.blurryLaplacianVariance).toBe(60);
     const me = await admin.agent.get('/api/me').expect(200);
     const cookie = String(me.headers['set-cookie'] ?? '');

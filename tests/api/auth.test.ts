@@ -2,7 +2,13 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { Session, User } from '../../server/core/models';
 import {
-  TEST_PASSWORD, addUser, agentWithCsrf, appWith, signedInAgent, startTestServer, type TestServer,
+  TEST_PASSWORD,
+  addUser,
+  agentWithCsrf,
+  appWith,
+  signedInAgent,
+  startTestServer,
+  type TestServer,
 } from '../helpers/test-server';
 
 let server: TestServer;
@@ -128,7 +134,7 @@ describe('CSRF', () => {
     expect(await Session.count()).toBe(before);
   });
 
-  it('writes a signed-in session\'s rolling expiry back at most once a minute, not on every request', async () => {
+  it("writes a signed-in session's rolling expiry back at most once a minute, not on every request", async () => {
     const { agent } = await signedInAgent(server, 'admin@example.test');
     const rows = await Session.findAll({ where: { userId: (await User.findByEmail('admin@example.test'))!.id } });
     const newest = rows.sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime())[0]!;
@@ -152,7 +158,7 @@ describe('sign-out and sessions', () => {
     await agent.get('/api/me').expect(401);
   });
 
-  it('stops a disabled user\'s existing session at once', async () => {
+  it("stops a disabled user's existing session at once", async () => {
     const user = await addUser(server, 'engineer', 'soon-disabled@example.test');
     const { agent } = await signedInAgent(server, 'soon-disabled@example.test');
     await agent.get('/api/me').expect(200);
@@ -167,10 +173,11 @@ describe('rate limits', () => {
     const limited = appWith(server, { signInLimitPerAccount: 3 });
     try {
       const { agent, csrf } = await agentWithCsrf(limited);
-      const attempt = () => agent
-        .post('/api/auth/sign-in')
-        .set('x-csrf-token', csrf)
-        .send({ email: 'operator@example.test', password: 'wrong-password-guess' });
+      const attempt = () =>
+        agent
+          .post('/api/auth/sign-in')
+          .set('x-csrf-token', csrf)
+          .send({ email: 'operator@example.test', password: 'wrong-password-guess' });
       for (let i = 0; i < 3; i += 1) expect((await attempt()).status).toBe(401);
       const blocked = await attempt();
       expect(blocked.status).toBe(429);
@@ -188,8 +195,11 @@ describe('rate limits', () => {
       for (const email of ['a@example.test', 'b@example.test']) {
         await agent.post('/api/auth/sign-in').set('x-csrf-token', csrf).send({ email, password: 'x' }).expect(401);
       }
-      await agent.post('/api/auth/sign-in').set('x-csrf-token', csrf)
-        .send({ email: 'c@example.test', password: 'x' }).expect(429);
+      await agent
+        .post('/api/auth/sign-in')
+        .set('x-csrf-token', csrf)
+        .send({ email: 'c@example.test', password: 'x' })
+        .expect(429);
     } finally {
       limited.close();
     }

@@ -13,7 +13,11 @@ afterAll(() => server.close());
 describe('GET /api/health', () => {
   it('says the database is reachable and gives the version, signed out', async () => {
     const response = await request(server.app).get('/api/health').expect(200);
-    expect(response.body).toEqual({ status: 'ok', database: 'reachable', version: expect.stringMatching(/^\d+\.\d+\.\d+/) });
+    expect(response.body).toEqual({
+      status: 'ok',
+      database: 'reachable',
+      version: expect.stringMatching(/^\d+\.\d+\.\d+/),
+    });
   });
 });
 
@@ -55,8 +59,12 @@ describe('GET /api/users', () => {
 
   it('answers 400 naming the field for bad paging, sorting or unknown filters', async () => {
     const { agent } = await signedInAgent(server, 'admin@example.test');
-    for (const [query, field] of [['pageSize=500', 'pageSize'], ['page=0', 'page'], ['sort=passwordHash', 'sort'],
-      ['colour=red', 'colour']]) {
+    for (const [query, field] of [
+      ['pageSize=500', 'pageSize'],
+      ['page=0', 'page'],
+      ['sort=passwordHash', 'sort'],
+      ['colour=red', 'colour'],
+    ]) {
       const response = await agent.get(`/api/users?${query}`).expect(400);
       expect(response.body.error.message).toMatch(new RegExp(`^${field}`));
     }
@@ -67,7 +75,8 @@ describe('GET /api/users', () => {
     const page = await agent.get('/api/users?pageSize=2&page=2&sort=-email').expect(200);
     expect(page.body).toMatchObject({ total: 4, page: 2, pageSize: 2 });
     expect(page.body.items.map((user: { email: string }) => user.email)).toEqual([
-      'curator@example.test', 'admin@example.test',
+      'curator@example.test',
+      'admin@example.test',
     ]);
     const search = await agent.get('/api/users?search=engin').expect(200);
     expect(search.body.items).toHaveLength(1);

@@ -71,17 +71,27 @@ describe('GET /api/clips/:id/frames', () => {
     const { body } = await agent.get(`/api/clips/${processed.id}/frames`).expect(200);
     expect(body.total).toBe(processed.frameCount);
     expect(body.items.map((frame: { index: number }) => frame.index)).toEqual([...Array(processed.frameCount).keys()]);
-    expect(Object.keys(body.items[0]).sort()).toEqual(
-      ['clippedShare', 'contrast', 'cutBefore', 'index', 'meanLuma', 'motion', 'sharpness', 'timeS'],
-    );
+    expect(Object.keys(body.items[0]).sort()).toEqual([
+      'clippedShare',
+      'contrast',
+      'cutBefore',
+      'index',
+      'meanLuma',
+      'motion',
+      'sharpness',
+      'timeS',
+    ]);
     expect(body.items[1]).toMatchObject({ index: 1, timeS: 0.2, cutBefore: false });
     expect(body.items[1].sharpness).toBeGreaterThan(0);
   });
 
   it('is an empty list for a clip not processed yet', async () => {
     const { agent } = await curator();
-    expect((await agent.get(`/api/clips/${queued.id}/frames`).expect(200)).body)
-      .toEqual({ items: [], total: 0, motionScale: null });
+    expect((await agent.get(`/api/clips/${queued.id}/frames`).expect(200)).body).toEqual({
+      items: [],
+      total: 0,
+      motionScale: null,
+    });
   });
 });
 
@@ -99,8 +109,9 @@ describe('GET /api/clips/:id/frames/:index and /views/:index/:view', () => {
     const { agent } = await curator();
     expect((await agent.get(`/api/clips/${processed.id}/frames/-1`).expect(400)).body.error.message).toMatch(/^index/);
     expect((await agent.get(`/api/clips/${processed.id}/frames/one`).expect(400)).body.error.message).toMatch(/^index/);
-    expect((await agent.get(`/api/clips/${processed.id}/views/0/motion`).expect(400)).body.error.message)
-      .toMatch(/^view/);
+    expect((await agent.get(`/api/clips/${processed.id}/views/0/motion`).expect(400)).body.error.message).toMatch(
+      /^view/,
+    );
   });
 
   it('are 400 for a number written any other way than decimal digits, never another frame', async () => {
@@ -109,8 +120,9 @@ describe('GET /api/clips/:id/frames/:index and /views/:index/:view', () => {
       const response = await agent.get(`/api/clips/${processed.id}/frames/${index}`).expect(400);
       expect(response.body.error.message).toMatch(/^index/);
     }
-    expect((await agent.get(`/api/clips/0x${processed.id.toString(16)}/preview`).expect(400)).body.error.message)
-      .toMatch(/^id/);
+    expect(
+      (await agent.get(`/api/clips/0x${processed.id.toString(16)}/preview`).expect(400)).body.error.message,
+    ).toMatch(/^id/);
   });
 
   it('refuse query fields the address does not take', async () => {
@@ -143,8 +155,12 @@ describe('GET /api/clips/:id/thumbnail and /preview', () => {
   it('answers a Range of the preview with 206 and just those bytes', async () => {
     const { agent } = await curator();
     const whole = (await agent.get(`/api/clips/${processed.id}/preview`).buffer(true).parse(binary)).body as Buffer;
-    const part = await agent.get(`/api/clips/${processed.id}/preview`).set('Range', 'bytes=100-199')
-      .buffer(true).parse(binary).expect(206);
+    const part = await agent
+      .get(`/api/clips/${processed.id}/preview`)
+      .set('Range', 'bytes=100-199')
+      .buffer(true)
+      .parse(binary)
+      .expect(206);
     expect(part.headers['content-range']).toBe(`bytes 100-199/${whole.length}`);
     expect(part.body).toEqual(whole.subarray(100, 200));
   });
@@ -159,10 +175,16 @@ describe('GET /api/clips/:id/thumbnail and /preview', () => {
 describe('GET /api/clips/:id/progress', () => {
   it('tells the state, the stage and the share of it done', async () => {
     const { agent } = await curator();
-    expect((await agent.get(`/api/clips/${processed.id}/progress`).expect(200)).body)
-      .toEqual({ state: 'awaiting_review', stage: null, progress: 1 });
-    expect((await agent.get(`/api/clips/${queued.id}/progress`).expect(200)).body)
-      .toEqual({ state: 'queued', stage: null, progress: 0 });
+    expect((await agent.get(`/api/clips/${processed.id}/progress`).expect(200)).body).toEqual({
+      state: 'awaiting_review',
+      stage: null,
+      progress: 1,
+    });
+    expect((await agent.get(`/api/clips/${queued.id}/progress`).expect(200)).body).toEqual({
+      state: 'queued',
+      stage: null,
+      progress: 0,
+    });
   });
 });
 
@@ -171,8 +193,14 @@ describe('GET /api/clips/:id', () => {
     const { agent } = await curator();
     const { body } = await agent.get(`/api/clips/${processed.id}`).expect(200);
     expect(body).toMatchObject({
-      state: 'awaiting_review', stage: null, frameCount: processed.frameCount, cutCount: 0, flags: [],
-      flagDetails: [], hasThumbnail: true, hasPreview: true,
+      state: 'awaiting_review',
+      stage: null,
+      frameCount: processed.frameCount,
+      cutCount: 0,
+      flags: [],
+      flagDetails: [],
+      hasThumbnail: true,
+      hasPreview: true,
     });
     expect(body.medianSharpness).toBeGreaterThan(0);
   });

@@ -69,8 +69,9 @@ describe.each([
   it('is 404 for an unknown clip, a frame the clip does not have, and a clip not processed yet', async () => {
     const agent = await agentOf('curator');
     expect((await agent.get(url(UNKNOWN)).expect(404)).body.error.message).toContain(`${UNKNOWN}`);
-    expect((await agent.get(url(processed.id, processed.frameCount!)).expect(404)).body.error.message)
-      .toBe(`Frame ${processed.frameCount} of clip ${processed.id} not found.`);
+    expect((await agent.get(url(processed.id, processed.frameCount!)).expect(404)).body.error.message).toBe(
+      `Frame ${processed.frameCount} of clip ${processed.id} not found.`,
+    );
     await agent.get(url(queued.id)).expect(404);
   });
 
@@ -83,8 +84,10 @@ describe.each([
     expect(cutBefore).toHaveLength(2);
     for (const index of cutBefore) {
       const cut = await agent.get(url(processed.id, index - 1)).expect(404);
-      expect(cut.body.error.message).toBe(`A cut lies between frames ${index - 1} and ${index} of clip `
-        + `${processed.id}, and no motion field spans a cut.`);
+      expect(cut.body.error.message).toBe(
+        `A cut lies between frames ${index - 1} and ${index} of clip ` +
+          `${processed.id}, and no motion field spans a cut.`,
+      );
       await agent.get(url(processed.id, index)).expect(200);
     }
   });
@@ -103,8 +106,13 @@ describe.each([
 describe('GET /api/clips/:id/motion/:index', () => {
   it('answers the colour picture of the forward field as a PNG at the working size, to every role', async () => {
     for (const role of ['operator', 'curator', 'engineer', 'admin']) {
-      const response = await (await agentOf(role)).get(`/api/clips/${processed.id}/motion/2`).buffer(true)
-        .parse(binary).expect(200);
+      const response = await (
+        await agentOf(role)
+      )
+        .get(`/api/clips/${processed.id}/motion/2`)
+        .buffer(true)
+        .parse(binary)
+        .expect(200);
       expect(response.headers['content-type']).toBe('image/png');
       const body = response.body as Buffer;
       expect(body.subarray(0, 8)).toEqual(PNG_SIGNATURE);
@@ -115,8 +123,13 @@ describe('GET /api/clips/:id/motion/:index', () => {
 
 describe('GET /api/clips/:id/motion/:index/flo', () => {
   it('answers the forward field as Middlebury .flo: PIEH, width, height, 12 + 8wh bytes', async () => {
-    const response = await (await agentOf('engineer')).get(`/api/clips/${processed.id}/motion/2/flo`).buffer(true)
-      .parse(binary).expect(200);
+    const response = await (
+      await agentOf('engineer')
+    )
+      .get(`/api/clips/${processed.id}/motion/2/flo`)
+      .buffer(true)
+      .parse(binary)
+      .expect(200);
     expect(response.headers['content-type']).toBe('application/octet-stream');
     expect(response.headers['content-disposition']).toBe(`attachment; filename="clip-${processed.id}-motion-2.flo"`);
     const body = response.body as Buffer;
@@ -134,8 +147,14 @@ describe('GET /api/clips/:id/motion/:index/flo', () => {
   });
 
   it('serves byte ranges', async () => {
-    const response = await (await agentOf('engineer')).get(`/api/clips/${processed.id}/motion/2/flo`)
-      .set('Range', 'bytes=0-11').buffer(true).parse(binary).expect(206);
+    const response = await (
+      await agentOf('engineer')
+    )
+      .get(`/api/clips/${processed.id}/motion/2/flo`)
+      .set('Range', 'bytes=0-11')
+      .buffer(true)
+      .parse(binary)
+      .expect(206);
     expect((response.body as Buffer).subarray(0, 4).toString('latin1')).toBe('PIEH');
     expect((response.body as Buffer).length).toBe(12);
   });
@@ -149,11 +168,18 @@ describe('GET /api/clips/:id/frames with motion', () => {
     expect(body.items).toHaveLength(processed.frameCount!);
     for (const item of body.items as { index: number; motion: unknown }[]) {
       const field = byFrame.get(item.index);
-      expect(item.motion).toEqual(field ? {
-        meanMagnitude: field.meanMagnitude, p95Magnitude: field.p95Magnitude, consistentShare: field.consistentShare,
-      } : null);
+      expect(item.motion).toEqual(
+        field
+          ? {
+              meanMagnitude: field.meanMagnitude,
+              p95Magnitude: field.p95Magnitude,
+              consistentShare: field.consistentShare,
+            }
+          : null,
+      );
     }
-    const withoutField = body.items.filter((item: { motion: unknown }) => item.motion === null)
+    const withoutField = body.items
+      .filter((item: { motion: unknown }) => item.motion === null)
       .map((item: { index: number }) => item.index);
     expect(withoutField).toEqual([...cutBefore.map((index) => index - 1), processed.frameCount! - 1]);
     // The pan's content moves 2 source px a frame × 5 frames a step × 320/640 = 5 px a step [C]; 0.2 px is the
@@ -172,9 +198,19 @@ describe('GET /api/clips/:id/frames with motion', () => {
   it('leaves a field across a cut of the frames table out of the scale and says so', async () => {
     // As when a cut is marked after the fields were estimated: a wild field into the frame after the first cut.
     const across = await MotionField.create({
-      clipId: processed.id, fromIndex: cutBefore[0]! - 1, toIndex: cutBefore[0]!, direction: 'forward',
-      estimator: 'farneback', params: {}, meanMagnitude: 40, p95Magnitude: 67.3, consistentP95Magnitude: 55,
-      consistentShare: 0.9, medianU: 40, medianV: 0, maxMagnitude: 90,
+      clipId: processed.id,
+      fromIndex: cutBefore[0]! - 1,
+      toIndex: cutBefore[0]!,
+      direction: 'forward',
+      estimator: 'farneback',
+      params: {},
+      meanMagnitude: 40,
+      p95Magnitude: 67.3,
+      consistentP95Magnitude: 55,
+      consistentShare: 0.9,
+      medianU: 40,
+      medianV: 0,
+      maxMagnitude: 90,
     });
     try {
       const { body } = await (await agentOf('curator')).get(`/api/clips/${processed.id}/frames`).expect(200);

@@ -5,7 +5,11 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { Clip, Job, Project, UploadReservation } from '../../server/core/models';
 import { storagePaths } from '../../server/core/storage/paths';
 import {
-  makeAudioOnly, makeOnePixelClip, makeStillImage, makeTestClip, makeTruncatedClip,
+  makeAudioOnly,
+  makeOnePixelClip,
+  makeStillImage,
+  makeTestClip,
+  makeTruncatedClip,
 } from '../helpers/media-fixtures';
 import { addUser, appWith, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 
@@ -20,10 +24,17 @@ beforeAll(async () => {
   await addUser(server, 'operator');
   await addUser(server, 'curator');
   operator = await signedInAgent(server, 'operator@example.test');
-  projectId = (await Project.create({
-    name: 'Glasshouse', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320,
-    deltas: [1, 2], flagThresholds: {},
-  })).id;
+  projectId = (
+    await Project.create({
+      name: 'Glasshouse',
+      estimator: 'farneback',
+      estimatorParams: {},
+      sampleFps: 5,
+      workingSize: 320,
+      deltas: [1, 2],
+      flagThresholds: {},
+    })
+  ).id;
   files.good = await makeTestClip(media, 'row-07.mp4', { seed: 1 });
   files.second = await makeTestClip(media, 'row-08.mp4', { seed: 2 });
   files.third = await makeTestClip(media, 'row-09.mp4', { seed: 3 });
@@ -64,25 +75,40 @@ async function expectNothingLeft(clipsBefore: number): Promise<void> {
 describe('POST /api/clips', () => {
   it('is 401 signed out and 403 for a curator', async () => {
     const curator = await signedInAgent(server, 'curator@example.test');
-    await curator.agent.post('/api/clips').set('x-csrf-token', curator.csrf)
-      .field('projectId', String(projectId)).attach('file', files.good).expect(403);
+    await curator.agent
+      .post('/api/clips')
+      .set('x-csrf-token', curator.csrf)
+      .field('projectId', String(projectId))
+      .attach('file', files.good)
+      .expect(403);
   });
 
   it('creates a queued clip with probe data and capture metadata, its job, and the file in place', async () => {
     const response = await upload(files.good, {
-      site: 'Terrace north', rig: 'tractor mount', capturedAt: '2026-04-03T09:15:00+02:00',
-      tags: 'rows, Morning ,rows', notes: 'first pass',
+      site: 'Terrace north',
+      rig: 'tractor mount',
+      capturedAt: '2026-04-03T09:15:00+02:00',
+      tags: 'rows, Morning ,rows',
+      notes: 'first pass',
     }).expect(201);
     const clip = response.body;
     expect(clip).toMatchObject({
-      state: 'queued', originalName: 'row-07.mp4', site: 'Terrace north', rig: 'tractor mount',
-      capturedAt: '2026-04-03T07:15:00.000Z', tags: ['rows', 'morning'], notes: 'first pass', projectName: 'Glasshouse',
+      state: 'queued',
+      originalName: 'row-07.mp4',
+      site: 'Terrace north',
+      rig: 'tractor mount',
+      capturedAt: '2026-04-03T07:15:00.000Z',
+      tags: ['rows', 'morning'],
+      notes: 'first pass',
+      projectName: 'Glasshouse',
       probe: { codec: 'h264', width: 160, height: 120, fps: 25 },
     });
     expect(clip.probe.durationS).toBeCloseTo(2, 1);
     expect(clip.sha256).toMatch(/^[0-9a-f]{64}$/);
     expect(clip.sizeBytes).toBe(fs.statSync(files.good).size);
-    expect(fs.readFileSync(storagePaths(server.storageDir).clipSource(clip.id, 'mp4'))).toEqual(fs.readFileSync(files.good));
+    expect(fs.readFileSync(storagePaths(server.storageDir).clipSource(clip.id, 'mp4'))).toEqual(
+      fs.readFileSync(files.good),
+    );
     const job = await Job.findOne({ where: { clipId: clip.id } });
     expect(job).toMatchObject({ kind: 'process-clip', state: 'queued' });
     expect(await UploadReservation.count()).toBe(0);
@@ -157,8 +183,14 @@ describe('POST /api/clips', () => {
     const unknown = await upload(files.third, { projectId: '999' }).expect(404);
     expect(unknown.body.error.message).toMatch(/Project 999 not found/);
     const archived = await Project.create({
-      name: 'Old creek block', archived: true, estimator: 'farneback', estimatorParams: {}, sampleFps: 5,
-      workingSize: 320, deltas: [1], flagThresholds: {},
+      name: 'Old creek block',
+      archived: true,
+      estimator: 'farneback',
+      estimatorParams: {},
+      sampleFps: 5,
+      workingSize: 320,
+      deltas: [1],
+      flagThresholds: {},
     });
     const response = await upload(files.third, { projectId: String(archived.id) }).expect(409);
     expect(response.body.error.message).toMatch(/archived and takes no uploads/);
@@ -169,8 +201,12 @@ describe('POST /api/clips', () => {
     const before = await Clip.count();
     const small = appWith(server, { uploadLimitBytes: 4096 });
     try {
-      const response = await upload(files.good, {}, undefined, await signedInAgent(small, 'operator@example.test'))
-        .expect(413);
+      const response = await upload(
+        files.good,
+        {},
+        undefined,
+        await signedInAgent(small, 'operator@example.test'),
+      ).expect(413);
       expect(response.body.error.message).toMatch(/files up to 4\.0 KiB are accepted/);
     } finally {
       small.close();

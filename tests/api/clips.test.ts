@@ -35,16 +35,39 @@ beforeAll(async () => {
   otherOperator = await signedInAgent(server, 'second-operator@example.test');
   admin = await signedInAgent(server, 'admin@example.test');
   curator = await signedInAgent(server, 'curator@example.test');
-  projectId = (await Project.create({
-    name: 'Terraces', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1],
-    flagThresholds: {},
-  })).id;
-  ids.push(await uploadAs(operator, await makeTestClip(media, 'north-row.mp4', { seed: 1 }),
-    { site: 'North terrace', tags: 'rows,dawn', capturedAt: '2026-03-01T06:00:00Z', notes: 'mist over the rows' }));
-  ids.push(await uploadAs(operator, await makeTestClip(media, 'south-row.mp4', { seed: 2, seconds: 3 }),
-    { site: 'South terrace', tags: 'rows', capturedAt: '2026-03-02T06:00:00Z' }));
-  ids.push(await uploadAs(otherOperator, await makeTestClip(media, 'creek.mp4', { seed: 3 }),
-    { site: 'Creek bank', tags: 'water', capturedAt: '2026-03-05T06:00:00Z' }));
+  projectId = (
+    await Project.create({
+      name: 'Terraces',
+      estimator: 'farneback',
+      estimatorParams: {},
+      sampleFps: 5,
+      workingSize: 320,
+      deltas: [1],
+      flagThresholds: {},
+    })
+  ).id;
+  ids.push(
+    await uploadAs(operator, await makeTestClip(media, 'north-row.mp4', { seed: 1 }), {
+      site: 'North terrace',
+      tags: 'rows,dawn',
+      capturedAt: '2026-03-01T06:00:00Z',
+      notes: 'mist over the rows',
+    }),
+  );
+  ids.push(
+    await uploadAs(operator, await makeTestClip(media, 'south-row.mp4', { seed: 2, seconds: 3 }), {
+      site: 'South terrace',
+      tags: 'rows',
+      capturedAt: '2026-03-02T06:00:00Z',
+    }),
+  );
+  ids.push(
+    await uploadAs(otherOperator, await makeTestClip(media, 'creek.mp4', { seed: 3 }), {
+      site: 'Creek bank',
+      tags: 'water',
+      capturedAt: '2026-03-05T06:00:00Z',
+    }),
+  );
 }, 120_000);
 afterAll(async () => {
   await server.close();
@@ -66,7 +89,9 @@ describe('GET /api/clips', () => {
     expect(bySite.body.total).toBe(1);
     const byTag = await curator.agent.get('/api/clips?tag=rows');
     expect(byTag.body.total).toBe(2);
-    const range = await curator.agent.get('/api/clips?capturedFrom=2026-03-01T12:00:00Z&capturedTo=2026-03-04T00:00:00Z');
+    const range = await curator.agent.get(
+      '/api/clips?capturedFrom=2026-03-01T12:00:00Z&capturedTo=2026-03-04T00:00:00Z',
+    );
     expect(range.body.items.map((clip: { id: number }) => clip.id)).toEqual([ids[1]]);
     const text = await curator.agent.get('/api/clips?q=mist');
     expect(text.body.items.map((clip: { id: number }) => clip.id)).toEqual([ids[0]]);
@@ -82,7 +107,10 @@ describe('GET /api/clips', () => {
 describe('GET /api/clips/:id', () => {
   it('shows probe, metadata, history and what the viewer may do', async () => {
     const mine = await operator.agent.get(`/api/clips/${ids[0]}`).expect(200);
-    expect(mine.body).toMatchObject({ originalName: 'north-row.mp4', can: { edit: true, withdraw: true, delete: false } });
+    expect(mine.body).toMatchObject({
+      originalName: 'north-row.mp4',
+      can: { edit: true, withdraw: true, delete: false },
+    });
     expect(mine.body.history[0]).toMatchObject({ action: 'clip.upload', actorName: 'Test operator' });
     const theirs = await otherOperator.agent.get(`/api/clips/${ids[0]}`).expect(200);
     expect(theirs.body.can).toEqual({ edit: false, withdraw: false, delete: false });
@@ -93,20 +121,33 @@ describe('GET /api/clips/:id', () => {
 
 describe('PATCH /api/clips/:id', () => {
   it('lets the uploader edit capture metadata before review, and records it', async () => {
-    const response = await operator.agent.patch(`/api/clips/${ids[0]}`).set('x-csrf-token', operator.csrf)
-      .send({ site: 'North terrace, row 7', tags: ['rows', 'fog'] }).expect(200);
+    const response = await operator.agent
+      .patch(`/api/clips/${ids[0]}`)
+      .set('x-csrf-token', operator.csrf)
+      .send({ site: 'North terrace, row 7', tags: ['rows', 'fog'] })
+      .expect(200);
     expect(response.body).toMatchObject({ site: 'North terrace, row 7', tags: ['rows', 'fog'] });
     expect(response.body.history.at(-1).action).toBe('clip.edit');
   });
 
   it('refuses other operators, reviewed clips for the uploader, and bad fields', async () => {
-    await otherOperator.agent.patch(`/api/clips/${ids[0]}`).set('x-csrf-token', otherOperator.csrf)
-      .send({ site: 'x' }).expect(403);
+    await otherOperator.agent
+      .patch(`/api/clips/${ids[0]}`)
+      .set('x-csrf-token', otherOperator.csrf)
+      .send({ site: 'x' })
+      .expect(403);
     await Clip.update({ state: 'accepted' }, { where: { id: ids[1] } });
-    await operator.agent.patch(`/api/clips/${ids[1]}`).set('x-csrf-token', operator.csrf).send({ site: 'x' }).expect(403);
+    await operator.agent
+      .patch(`/api/clips/${ids[1]}`)
+      .set('x-csrf-token', operator.csrf)
+      .send({ site: 'x' })
+      .expect(403);
     await admin.agent.patch(`/api/clips/${ids[1]}`).set('x-csrf-token', admin.csrf).send({ site: 'Fixed' }).expect(200);
-    const bad = await operator.agent.patch(`/api/clips/${ids[0]}`).set('x-csrf-token', operator.csrf)
-      .send({ capturedAt: 'yesterday' }).expect(400);
+    const bad = await operator.agent
+      .patch(`/api/clips/${ids[0]}`)
+      .set('x-csrf-token', operator.csrf)
+      .send({ capturedAt: 'yesterday' })
+      .expect(400);
     expect(bad.body.error.message).toMatch(/^capturedAt/);
   });
 });
@@ -115,8 +156,12 @@ describe('GET /api/clips/:id/source', () => {
   it('streams the source with Range support', async () => {
     const full = await curator.agent.get(`/api/clips/${ids[0]}/source`).buffer(true).parse(binary).expect(200);
     expect(full.headers['accept-ranges']).toBe('bytes');
-    const part = await curator.agent.get(`/api/clips/${ids[0]}/source`).set('Range', 'bytes=10-19')
-      .buffer(true).parse(binary).expect(206);
+    const part = await curator.agent
+      .get(`/api/clips/${ids[0]}/source`)
+      .set('Range', 'bytes=10-19')
+      .buffer(true)
+      .parse(binary)
+      .expect(206);
     expect(part.headers['content-range']).toBe(`bytes 10-19/${(full.body as Buffer).length}`);
     expect(part.body).toEqual((full.body as Buffer).subarray(10, 20));
   });

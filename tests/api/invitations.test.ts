@@ -40,7 +40,9 @@ async function accept(token: string, body: object) {
 
 describe('admin-only invitation routes', () => {
   const routes: [method: 'get' | 'post', path: string][] = [
-    ['get', '/api/invitations'], ['post', '/api/invitations'], ['post', '/api/invitations/1/resend'],
+    ['get', '/api/invitations'],
+    ['post', '/api/invitations'],
+    ['post', '/api/invitations/1/resend'],
     ['post', '/api/invitations/1/revoke'],
   ];
 
@@ -86,11 +88,18 @@ describe('admin-only invitation routes', () => {
 describe('the invitation journey', () => {
   it('invites, mails a one-time link, accepts it once and signs the person in', async () => {
     const { agent, csrf } = await adminAgent();
-    const created = await agent.post('/api/invitations').set('x-csrf-token', csrf)
-      .send({ email: '  Tove.Marrick@Example.test ', role: 'operator' }).expect(201);
+    const created = await agent
+      .post('/api/invitations')
+      .set('x-csrf-token', csrf)
+      .send({ email: '  Tove.Marrick@Example.test ', role: 'operator' })
+      .expect(201);
     expect(created.body).toMatchObject({
-      email: 'tove.marrick@example.test', role: 'operator', state: 'pending',
-      invitedBy: { id: admin.id, name: admin.name }, acceptedAt: null, revokedAt: null,
+      email: 'tove.marrick@example.test',
+      role: 'operator',
+      state: 'pending',
+      invitedBy: { id: admin.id, name: admin.name },
+      acceptedAt: null,
+      revokedAt: null,
     });
     const hours = (Date.parse(created.body.expiresAt) - Date.parse(created.body.createdAt)) / 3600_000;
     expect(hours).toBeCloseTo(72, 3);
@@ -109,7 +118,9 @@ describe('the invitation journey', () => {
 
     const preview = await request(server.app).get(`/api/invitations/${token}`).expect(200);
     expect(preview.body).toEqual({
-      email: 'tove.marrick@example.test', role: 'operator', expiresAt: created.body.expiresAt,
+      email: 'tove.marrick@example.test',
+      role: 'operator',
+      expiresAt: created.body.expiresAt,
     });
 
     const weak = await accept(token, { name: 'Tove Marrick', password: 'short' });
@@ -123,7 +134,8 @@ describe('the invitation journey', () => {
     expect(sameAsEmail.response.body.error.message).toMatch(/e-mail address/);
 
     const { agent: newcomer, response } = await accept(token, {
-      name: '  Tove Marrick ', password: 'rows-of-barley-at-dawn',
+      name: '  Tove Marrick ',
+      password: 'rows-of-barley-at-dawn',
     });
     expect(response.status).toBe(201);
     expect(response.body).toMatchObject({ email: 'tove.marrick@example.test', name: 'Tove Marrick', role: 'operator' });
@@ -198,17 +210,25 @@ describe('the invitation journey', () => {
   it('refuses a second open invitation for one address and an address that already has an account', async () => {
     await invite('twice@example.test');
     const { agent, csrf } = await adminAgent();
-    const twice = await agent.post('/api/invitations').set('x-csrf-token', csrf)
-      .send({ email: 'twice@example.test', role: 'admin' }).expect(409);
+    const twice = await agent
+      .post('/api/invitations')
+      .set('x-csrf-token', csrf)
+      .send({ email: 'twice@example.test', role: 'admin' })
+      .expect(409);
     expect(twice.body.error).toMatchObject({ code: 'already_invited' });
-    const member = await agent.post('/api/invitations').set('x-csrf-token', csrf)
-      .send({ email: 'curator@example.test', role: 'curator' }).expect(409);
+    const member = await agent
+      .post('/api/invitations')
+      .set('x-csrf-token', csrf)
+      .send({ email: 'curator@example.test', role: 'curator' })
+      .expect(409);
     expect(member.body.error.code).toBe('email_taken');
     expect(await Invitation.count({ where: { email: 'twice@example.test' } })).toBe(1);
   });
 
   it('answers 404 for a link that never existed and 400 for one that is cut short', async () => {
-    const unknown = await request(server.app).get(`/api/invitations/${'x'.repeat(43)}`).expect(404);
+    const unknown = await request(server.app)
+      .get(`/api/invitations/${'x'.repeat(43)}`)
+      .expect(404);
     expect(unknown.body.error.message).toMatch(/not valid/);
     const short = await request(server.app).get('/api/invitations/abc').expect(400);
     expect(short.body.error.message).toMatch(/^token/);
@@ -218,8 +238,11 @@ describe('the invitation journey', () => {
 
   it('answers 400 naming the field for a bad acceptance body, before touching the invitation', async () => {
     const { invitation, token } = await invite('body@example.test');
-    for (const [body, field] of [[{ password: 'long-enough-passphrase' }, 'name'], [{ name: 'B' }, 'password'],
-      [{ name: 'B', password: 'long-enough-passphrase', role: 'admin' }, 'role']] as const) {
+    for (const [body, field] of [
+      [{ password: 'long-enough-passphrase' }, 'name'],
+      [{ name: 'B' }, 'password'],
+      [{ name: 'B', password: 'long-enough-passphrase', role: 'admin' }, 'role'],
+    ] as const) {
       const { response } = await accept(token, body);
       expect(response.status).toBe(400);
       expect(response.body.error.message).toMatch(new RegExp(`^${field}`));

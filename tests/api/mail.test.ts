@@ -37,23 +37,33 @@ function newSender(options: Partial<Parameters<typeof createMailSender>[0]> = {}
 }
 
 function queueInvitationMail(to: string, inviterName = 'Petra Halvorsen'): Promise<MailOutbox> {
-  return server.sequelize.transaction((transaction) => queueMail({
-    to,
-    template: 'invitation',
-    data: { inviterName, role: 'curator', token: 'A'.repeat(43), expiresAt: new Date('2031-05-04T10:00:00Z') },
-  }, { transaction, publicUrl: server.config.publicUrl }));
+  return server.sequelize.transaction((transaction) =>
+    queueMail(
+      {
+        to,
+        template: 'invitation',
+        data: { inviterName, role: 'curator', token: 'A'.repeat(43), expiresAt: new Date('2031-05-04T10:00:00Z') },
+      },
+      { transaction, publicUrl: server.config.publicUrl },
+    ),
+  );
 }
 
 describe('the outbox', () => {
   it('keeps nothing when the transaction that wrote the message rolls back', async () => {
-    await expect(server.sequelize.transaction(async (transaction) => {
-      await queueMail({
-        to: 'rolled-back@example.test',
-        template: 'password-reset',
-        data: { name: 'Nobody', token: 'B'.repeat(43), expiresAt: new Date(), requestedBy: 'self' },
-      }, { transaction, publicUrl: server.config.publicUrl });
-      throw new Error('the change failed');
-    })).rejects.toThrow('the change failed');
+    await expect(
+      server.sequelize.transaction(async (transaction) => {
+        await queueMail(
+          {
+            to: 'rolled-back@example.test',
+            template: 'password-reset',
+            data: { name: 'Nobody', token: 'B'.repeat(43), expiresAt: new Date(), requestedBy: 'self' },
+          },
+          { transaction, publicUrl: server.config.publicUrl },
+        );
+        throw new Error('the change failed');
+      }),
+    ).rejects.toThrow('the change failed');
     expect(await MailOutbox.count()).toBe(0);
     expect(await newSender().drain()).toBe(0);
   });
@@ -126,8 +136,12 @@ describe('the mail sender', () => {
     const row = await queueInvitationMail('retry@example.test');
     const start = Date.now();
     const failing = createMailSender({
-      transport: unreachable, from: server.config.mailFrom, onError: () => undefined, retryBaseMs: 10_000,
-      maxAttempts: 3, clock: () => new Date(start),
+      transport: unreachable,
+      from: server.config.mailFrom,
+      onError: () => undefined,
+      retryBaseMs: 10_000,
+      maxAttempts: 3,
+      clock: () => new Date(start),
     });
     expect(await failing.drain()).toBe(0);
     await row.reload();
@@ -140,8 +154,12 @@ describe('the mail sender', () => {
     expect((await MailOutbox.findByPk(row.id))!.attempts).toBe(1);
 
     const second = createMailSender({
-      transport: unreachable, from: server.config.mailFrom, onError: () => undefined, retryBaseMs: 10_000,
-      maxAttempts: 3, clock: () => new Date(start + 10_000),
+      transport: unreachable,
+      from: server.config.mailFrom,
+      onError: () => undefined,
+      retryBaseMs: 10_000,
+      maxAttempts: 3,
+      clock: () => new Date(start + 10_000),
     });
     await second.drain();
     await row.reload();
@@ -149,8 +167,12 @@ describe('the mail sender', () => {
     expect(row.nextAttemptAt.getTime()).toBe(start + 10_000 + 20_000);
 
     const third = createMailSender({
-      transport: unreachable, from: server.config.mailFrom, onError: () => undefined, retryBaseMs: 10_000,
-      maxAttempts: 3, clock: () => new Date(start + 30_000),
+      transport: unreachable,
+      from: server.config.mailFrom,
+      onError: () => undefined,
+      retryBaseMs: 10_000,
+      maxAttempts: 3,
+      clock: () => new Date(start + 30_000),
     });
     await third.drain();
     await row.reload();
@@ -225,7 +247,11 @@ describe('GET /api/mail', () => {
 
   it('answers 400 naming the field for bad paging, sorting or unknown filters', async () => {
     const { agent } = await signedInAgent(server, 'admin@example.test');
-    for (const [query, field] of [['pageSize=500', 'pageSize'], ['sort=html', 'sort'], ['state=sent', 'state']]) {
+    for (const [query, field] of [
+      ['pageSize=500', 'pageSize'],
+      ['sort=html', 'sort'],
+      ['state=sent', 'state'],
+    ]) {
       const response = await agent.get(`/api/mail?${query}`).expect(400);
       expect(response.body.error.message).toMatch(new RegExp(`^${field}`));
     }

@@ -42,8 +42,12 @@ beforeAll(async () => {
     await addPairsetClip(server, { projectId: project.id, uploaderId: admin.id, frames: 9, seed, cutsBefore: [5] });
   }
   pairset = await buildPairsetNow(runtime, engineer, {
-    projectIds: [project.id], views: ['frame', 'neighbour', 'luma', 'motion'], deltas: [1], graph: 'full',
-    split: { val: 0.5, seed: 2 }, shardMB: 0.1,
+    projectIds: [project.id],
+    views: ['frame', 'neighbour', 'luma', 'motion'],
+    deltas: [1],
+    graph: 'full',
+    split: { val: 0.5, seed: 2 },
+    shardMB: 0.1,
   });
   token = (await createApiToken(engineer.id, 'reader test')).token;
   listener = server.app.listen(0, '127.0.0.1');
@@ -58,11 +62,11 @@ afterAll(async () => {
   fs.rmSync(work, { recursive: true, force: true });
 });
 
-const bash = (script: string) => run('bash', ['-euo', 'pipefail', '-c', script],
-  { cwd: work, env: { ...process.env, KINEFOLD_TOKEN: token } });
+const bash = (script: string) =>
+  run('bash', ['-euo', 'pipefail', '-c', script], { cwd: work, env: { ...process.env, KINEFOLD_TOKEN: token } });
 
 describe('downloading and reading a pairset with scripts', () => {
-  it('downloads every shard with the page\'s curl command and the token, and sha256sum accepts each', async () => {
+  it("downloads every shard with the page's curl command and the token, and sha256sum accepts each", async () => {
     expect(pairset.state).toBe('built');
     expect(pairset.shards.length).toBeGreaterThan(1);
     const { stdout } = await bash(curlCommand(origin, pairset.id, pairset.shards));
@@ -77,7 +81,8 @@ describe('downloading and reading a pairset with scripts', () => {
     const file = path.join(folder, shard.file);
     const whole = fs.readFileSync(file);
     fs.truncateSync(file, Math.floor(whole.length / 2));
-    const line = curlCommand(origin, pairset.id, pairset.shards).split('\n')
+    const line = curlCommand(origin, pairset.id, pairset.shards)
+      .split('\n')
       .find((candidate) => candidate.includes(`-o ${shard.file}`))!;
     await bash(`cd pairset-${pairset.id} && ${line}`);
     expect(fs.readFileSync(file).equals(whole)).toBe(true);

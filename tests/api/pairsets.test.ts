@@ -19,8 +19,13 @@ const FRAMES = 10;
 const CLIPS = 3;
 
 const definition = (fields: Record<string, unknown> = {}) => ({
-  name: 'rows and shade', projectIds: [projectId], views: ['frame', 'neighbour', 'motion'], deltas: [1, 2],
-  graph: 'core', split: { val: 0.3, seed: 5 }, ...fields,
+  name: 'rows and shade',
+  projectIds: [projectId],
+  views: ['frame', 'neighbour', 'motion'],
+  deltas: [1, 2],
+  graph: 'core',
+  split: { val: 0.3, seed: 5 },
+  ...fields,
 });
 
 function binary(res: request.Response, done: (error: Error | null, body: Buffer) => void) {
@@ -102,7 +107,8 @@ describe('who may use the pairset routes', () => {
     for (const role of ['engineer', 'admin'] as const) {
       for (const [method, url, body] of routes()) {
         const payload = url === '/api/pairsets' ? { ...body, name: `role matrix ${role}` } : body;
-        const response = await agents[role].agent[method as 'get'](url).set('x-csrf-token', agents[role].csrf)
+        const response = await agents[role].agent[method as 'get'](url)
+          .set('x-csrf-token', agents[role].csrf)
           .send(payload);
         expect([role, url, [401, 403].includes(response.status)]).toEqual([role, url, false]);
       }
@@ -142,7 +148,14 @@ describe('POST /api/pairsets', () => {
   it('creates a draft with defaults filled in, owned by its author, and records it', async () => {
     const response = await post(agents.engineer, '/api/pairsets', definition({ name: 'spring rows' })).expect(201);
     expect(response.body).toMatchObject({
-      name: 'spring rows', version: 1, state: 'draft', progress: 0, bytes: 0, seed: 5, shards: [], stats: null,
+      name: 'spring rows',
+      version: 1,
+      state: 'draft',
+      progress: 0,
+      bytes: 0,
+      seed: 5,
+      shards: [],
+      stats: null,
       ownerName: 'Test engineer',
       definition: { motionFormat: 'flo', shardMB: 256, temperature: 0.07, deltas: [1, 2], graph: 'core' },
     });
@@ -172,15 +185,22 @@ describe('POST /api/pairsets/preview', () => {
     const withField = CLIPS * (FRAMES - 1);
     const three = { views: ['frame', 'luma', 'chroma'], deltas: [] };
     expect(kinds(await preview({ ...three, graph: 'core' }))).toEqual({ 'frame~luma': all, 'frame~chroma': all });
-    expect(kinds(await preview({ ...three, graph: 'full' })))
-      .toEqual({ 'frame~luma': all, 'frame~chroma': all, 'luma~chroma': all });
+    expect(kinds(await preview({ ...three, graph: 'full' }))).toEqual({
+      'frame~luma': all,
+      'frame~chroma': all,
+      'luma~chroma': all,
+    });
     const four = { views: ['frame', 'luma', 'chroma', 'motion'], deltas: [] };
     const core = await preview({ ...four, graph: 'core' });
     expect(kinds(core)).toEqual({ 'frame~luma': all, 'frame~chroma': all, 'frame~motion': withField });
     const full = await preview({ ...four, graph: 'full' });
     expect(kinds(full)).toEqual({
-      'frame~luma': all, 'frame~chroma': all, 'frame~motion': withField, 'luma~chroma': all,
-      'luma~motion': withField, 'chroma~motion': withField,
+      'frame~luma': all,
+      'frame~chroma': all,
+      'frame~motion': withField,
+      'luma~chroma': all,
+      'luma~motion': withField,
+      'chroma~motion': withField,
     });
     expect(full.pairs.total).toBe(3 * all + 3 * withField);
     expect(full.views).toEqual(['frame', 'luma', 'chroma', 'motion']);
@@ -259,14 +279,18 @@ describe('building, cancelling and versions', () => {
     await post(agents.admin, `/api/pairsets/${id}/cancel`).expect(200);
   });
 
-  it('never changes a built pairset; a new version copies its definition into the next version\'s draft', async () => {
-    expect((await post(agents.engineer, `/api/pairsets/${builtId}/build`).expect(409)).body.error.code)
-      .toBe('pairset_built');
+  it("never changes a built pairset; a new version copies its definition into the next version's draft", async () => {
+    expect((await post(agents.engineer, `/api/pairsets/${builtId}/build`).expect(409)).body.error.code).toBe(
+      'pairset_built',
+    );
     const original = (await Pairset.findByPk(builtId))!;
     const latest = (await Pairset.max<number, Pairset>('version', { where: { name: original.name } }))!;
     const response = await post(agents.other, `/api/pairsets/${builtId}/new-version`).expect(201);
     expect(response.body).toMatchObject({
-      name: original.name, version: latest + 1, state: 'draft', definition: original.definition,
+      name: original.name,
+      version: latest + 1,
+      state: 'draft',
+      definition: original.definition,
     });
     expect(response.body.ownerId).toBe((await User.findByEmail('other@example.test'))!.id);
     await post(agents.other, '/api/pairsets/987654/new-version').expect(404);
@@ -278,15 +302,19 @@ describe('files of a built pairset', () => {
     const manifest = await agents.other.agent.get(`/api/pairsets/${builtId}/manifest`).expect(200);
     expect(manifest.headers['content-type']).toMatch(/^application\/json/);
     expect(manifest.body.pairset.id).toBe(builtId);
-    const shard = await agents.other.agent.get(`/api/pairsets/${builtId}/shards/0`).buffer(true).parse(binary)
+    const shard = await agents.other.agent
+      .get(`/api/pairsets/${builtId}/shards/0`)
+      .buffer(true)
+      .parse(binary)
       .expect(200);
     expect(shard.headers['content-type']).toBe('application/x-tar');
     expect(shard.headers['content-disposition']).toContain(manifest.body.shards[0].file);
     expect((shard.body as Buffer).length).toBe(manifest.body.shards[0].bytes);
     const count = manifest.body.shards.length as number;
     await agents.other.agent.get(`/api/pairsets/${builtId}/shards/${count}`).expect(404);
-    expect((await agents.other.agent.get(`/api/pairsets/${builtId}/shards/-1`).expect(400)).body.error.message)
-      .toMatch(/^index/);
+    expect((await agents.other.agent.get(`/api/pairsets/${builtId}/shards/-1`).expect(400)).body.error.message).toMatch(
+      /^index/,
+    );
     const draftId = await createDraft(agents.engineer, { name: 'draft only' });
     for (const part of ['manifest', 'shards/0', 'difficulty']) {
       const response = await agents.engineer.agent.get(`/api/pairsets/${draftId}/${part}`).expect(409);
@@ -297,20 +325,31 @@ describe('files of a built pairset', () => {
   it('answers a Range of a shard with 206 and exactly those bytes (resumable downloads)', async () => {
     const whole = (await agents.other.agent.get(`/api/pairsets/${builtId}/shards/0`).buffer(true).parse(binary))
       .body as Buffer;
-    const part = await agents.other.agent.get(`/api/pairsets/${builtId}/shards/0`).set('Range', 'bytes=512-1535')
-      .buffer(true).parse(binary).expect(206);
+    const part = await agents.other.agent
+      .get(`/api/pairsets/${builtId}/shards/0`)
+      .set('Range', 'bytes=512-1535')
+      .buffer(true)
+      .parse(binary)
+      .expect(206);
     expect(part.headers['content-range']).toBe(`bytes 512-1535/${whole.length}`);
     expect(part.body).toEqual(whole.subarray(512, 1536));
-    const tail = await agents.other.agent.get(`/api/pairsets/${builtId}/shards/0`)
-      .set('Range', `bytes=${whole.length - 1024}-`).buffer(true).parse(binary).expect(206);
+    const tail = await agents.other.agent
+      .get(`/api/pairsets/${builtId}/shards/0`)
+      .set('Range', `bytes=${whole.length - 1024}-`)
+      .buffer(true)
+      .parse(binary)
+      .expect(206);
     expect((tail.body as Buffer).every((byte) => byte === 0)).toBe(true);
   });
 
   it('serves the pair-difficulty report', async () => {
     const { body } = await agents.other.agent.get(`/api/pairsets/${builtId}/difficulty`).expect(200);
     expect(body).toMatchObject({ temperature: 0.07, ks: [16, 64, 256] });
-    expect(body.kinds.map((kind: { kind: string }) => kind.kind)).toEqual(['frame~neighbour+1', 'frame~neighbour+2',
-      'frame~motion']);
+    expect(body.kinds.map((kind: { kind: string }) => kind.kind)).toEqual([
+      'frame~neighbour+1',
+      'frame~neighbour+2',
+      'frame~motion',
+    ]);
     expect(body.kinds[0].results[0]).toMatchObject({ k: 16, reading: expect.any(String), message: expect.any(String) });
   });
 });
@@ -329,8 +368,8 @@ describe('bytes and deleting', () => {
 
     const building = await createDraft(agents.engineer, { name: 'busy' });
     await post(agents.engineer, `/api/pairsets/${building}/build`).expect(202);
-    const remove = (id: number) => agents.engineer.agent.delete(`/api/pairsets/${id}`)
-      .set('x-csrf-token', agents.engineer.csrf);
+    const remove = (id: number) =>
+      agents.engineer.agent.delete(`/api/pairsets/${id}`).set('x-csrf-token', agents.engineer.csrf);
     const busy = await remove(building);
     expect([busy.status, busy.body.error.code]).toEqual([409, 'build_running']);
     await post(agents.engineer, `/api/pairsets/${building}/cancel`).expect(200);

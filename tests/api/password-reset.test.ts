@@ -2,7 +2,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, MailOutbox, PasswordReset, User } from '../../server/core/models';
 import { messagesTo, startTestMail, tokenFromLink } from '../helpers/mail';
 import {
-  TEST_PASSWORD, addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer,
+  TEST_PASSWORD,
+  addUser,
+  agentWithCsrf,
+  signedInAgent,
+  startTestServer,
+  type TestServer,
 } from '../helpers/test-server';
 
 let server: TestServer;
@@ -48,8 +53,11 @@ describe('POST /api/auth/reset-request', () => {
     expect(bad.status).toBe(400);
     expect(bad.body.error.message).toMatch(/^email/);
     const { agent, csrf } = await agentWithCsrf(server);
-    const extra = await agent.post('/api/auth/reset-request').set('x-csrf-token', csrf)
-      .send({ email: 'operator@example.test', role: 'admin' }).expect(400);
+    const extra = await agent
+      .post('/api/auth/reset-request')
+      .set('x-csrf-token', csrf)
+      .send({ email: 'operator@example.test', role: 'admin' })
+      .expect(400);
     expect(extra.body.error.message).toMatch(/role/);
   });
 
@@ -82,9 +90,12 @@ describe('POST /api/auth/reset-request', () => {
 
 describe('POST /api/auth/reset', () => {
   it('answers 400 naming the field for bad input', async () => {
-    for (const [body, field] of [[{ password: 'long-enough-passphrase' }, 'token'],
-      [{ token: 'short', password: 'long-enough-passphrase' }, 'token'], [{ token: 'x'.repeat(43) }, 'password'],
-      [{ token: 'x'.repeat(43), password: 'long-enough-passphrase', email: 'a@example.test' }, 'email']] as const) {
+    for (const [body, field] of [
+      [{ password: 'long-enough-passphrase' }, 'token'],
+      [{ token: 'short', password: 'long-enough-passphrase' }, 'token'],
+      [{ token: 'x'.repeat(43) }, 'password'],
+      [{ token: 'x'.repeat(43), password: 'long-enough-passphrase', email: 'a@example.test' }, 'email'],
+    ] as const) {
       const response = await submitReset(body);
       expect(response.status).toBe(400);
       expect(response.body.error.message).toMatch(new RegExp(`^${field}`));
@@ -149,9 +160,14 @@ describe('POST /api/users/:id/password-reset', () => {
     const { agent, csrf } = await agentWithCsrf(server);
     await agent.post(`/api/users/${operator.id}/password-reset`).set('x-csrf-token', csrf).expect(401);
     for (const role of ['operator', 'curator', 'engineer']) {
-      const signedIn = await signedInAgent(server, `${role}@example.test`,
-        role === 'curator' ? 'fresh-frames-at-noon' : TEST_PASSWORD);
-      await signedIn.agent.post(`/api/users/${operator.id}/password-reset`).set('x-csrf-token', signedIn.csrf)
+      const signedIn = await signedInAgent(
+        server,
+        `${role}@example.test`,
+        role === 'curator' ? 'fresh-frames-at-noon' : TEST_PASSWORD,
+      );
+      await signedIn.agent
+        .post(`/api/users/${operator.id}/password-reset`)
+        .set('x-csrf-token', signedIn.csrf)
         .expect(403);
     }
   });
@@ -172,9 +188,11 @@ describe('POST /api/users/:id/password-reset', () => {
     expect(Date.parse(sent.body.expiresAt) - Date.now()).toBeGreaterThan(59 * 60_000);
     const reset = await PasswordReset.findOne({ where: { userId: target.id } });
     expect(reset!.requestedById).toBe(admin.id);
-    expect(await AuditEvent.count({
-      where: { action: 'password.reset_link', actorId: admin.id, targetId: String(target.id) },
-    })).toBe(1);
+    expect(
+      await AuditEvent.count({
+        where: { action: 'password.reset_link', actorId: admin.id, targetId: String(target.id) },
+      }),
+    ).toBe(1);
     await mail.deliver();
     const [message] = await messagesTo('forgetful@example.test');
     expect(message!.text).toMatch(/An admin asked Kinefold/);

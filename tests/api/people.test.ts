@@ -58,7 +58,9 @@ describe('PATCH /api/users/:id', () => {
 
   it('changes role, name and quota, and records each change with before and after', async () => {
     const response = await patchAs('admin@example.test', operator.id, {
-      role: 'curator', name: 'Tove M. Marrick', quotaBytes: 50 * 1024 ** 3,
+      role: 'curator',
+      name: 'Tove M. Marrick',
+      quotaBytes: 50 * 1024 ** 3,
     });
     expect(response.status).toBe(200);
     expect(response.body).toMatchObject({ role: 'curator', name: 'Tove M. Marrick', quotaBytes: 53687091200 });
@@ -66,7 +68,8 @@ describe('PATCH /api/users/:id', () => {
     expect(operator.role).toBe('curator');
     expect(Number(operator.quotaBytes)).toBe(53687091200);
     const event = await AuditEvent.findOne({
-      where: { action: 'user.update', targetId: String(operator.id) }, order: [['id', 'DESC']],
+      where: { action: 'user.update', targetId: String(operator.id) },
+      order: [['id', 'DESC']],
     });
     expect(event!.actorId).toBe(admin.id);
     expect(event!.detail).toEqual({

@@ -1,7 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, Session, User } from '../../server/core/models';
 import {
-  TEST_PASSWORD, addUser, agentWithCsrf, appWith, signedInAgent, startTestServer, type TestServer,
+  TEST_PASSWORD,
+  addUser,
+  agentWithCsrf,
+  appWith,
+  signedInAgent,
+  startTestServer,
+  type TestServer,
 } from '../helpers/test-server';
 
 let server: TestServer;
@@ -26,8 +32,13 @@ describe('PATCH /api/me', () => {
 
   it('answers 400 naming the field for bad input, and refuses fields a person may not set', async () => {
     const { agent, csrf } = await signedInAgent(server, 'operator@example.test');
-    for (const [body, field] of [[{ name: '' }, 'name'], [{}, 'name'], [{ name: 'x'.repeat(201) }, 'name'],
-      [{ name: 'Tove', role: 'admin' }, 'role'], [{ name: 'Tove', quotaBytes: null }, 'quotaBytes']] as const) {
+    for (const [body, field] of [
+      [{ name: '' }, 'name'],
+      [{}, 'name'],
+      [{ name: 'x'.repeat(201) }, 'name'],
+      [{ name: 'Tove', role: 'admin' }, 'role'],
+      [{ name: 'Tove', quotaBytes: null }, 'quotaBytes'],
+    ] as const) {
       const response = await agent.patch('/api/me').set('x-csrf-token', csrf).send(body).expect(400);
       expect(response.body.error.message).toMatch(new RegExp(`^${field}`));
     }
@@ -37,7 +48,10 @@ describe('PATCH /api/me', () => {
   it('lets every role rename themselves, and records the change', async () => {
     for (const role of ROLES) {
       const { agent, csrf } = await signedInAgent(server, `${role}@example.test`);
-      const response = await agent.patch('/api/me').set('x-csrf-token', csrf).send({ name: `  New ${role} ` })
+      const response = await agent
+        .patch('/api/me')
+        .set('x-csrf-token', csrf)
+        .send({ name: `  New ${role} ` })
         .expect(200);
       expect(response.body).toMatchObject({ name: `New ${role}`, role, email: `${role}@example.test` });
       const user = (await User.findByEmail(`${role}@example.test`))!;
@@ -53,15 +67,20 @@ describe('PATCH /api/me', () => {
 describe('POST /api/me/password', () => {
   it('is 401 signed out', async () => {
     const { agent, csrf } = await agentWithCsrf(server);
-    await agent.post('/api/me/password').set('x-csrf-token', csrf)
-      .send({ currentPassword: TEST_PASSWORD, password: 'a-new-long-passphrase' }).expect(401);
+    await agent
+      .post('/api/me/password')
+      .set('x-csrf-token', csrf)
+      .send({ currentPassword: TEST_PASSWORD, password: 'a-new-long-passphrase' })
+      .expect(401);
   });
 
   it('answers 400 naming the field for a bad body', async () => {
     const { agent, csrf } = await signedInAgent(server, 'curator@example.test');
-    for (const [body, field] of [[{ password: 'a-new-long-passphrase' }, 'currentPassword'],
+    for (const [body, field] of [
+      [{ password: 'a-new-long-passphrase' }, 'currentPassword'],
       [{ currentPassword: TEST_PASSWORD }, 'password'],
-      [{ currentPassword: TEST_PASSWORD, password: 'a-new-long-passphrase', userId: 1 }, 'userId']] as const) {
+      [{ currentPassword: TEST_PASSWORD, password: 'a-new-long-passphrase', userId: 1 }, 'userId'],
+    ] as const) {
       const response = await agent.post('/api/me/password').set('x-csrf-token', csrf).send(body).expect(400);
       expect(response.body.error.message).toMatch(new RegExp(`^${field}`));
     }
@@ -94,8 +113,11 @@ describe('POST /api/me/password', () => {
     const elsewhere = await signedInAgent(server, 'engineer@example.test');
     const engineer = (await User.findByEmail('engineer@example.test'))!;
     const sessionsBefore = await Session.count({ where: { userId: engineer.id } });
-    await here.agent.post('/api/me/password').set('x-csrf-token', here.csrf)
-      .send({ currentPassword: TEST_PASSWORD, password: 'shards-and-manifests-07' }).expect(204);
+    await here.agent
+      .post('/api/me/password')
+      .set('x-csrf-token', here.csrf)
+      .send({ currentPassword: TEST_PASSWORD, password: 'shards-and-manifests-07' })
+      .expect(204);
     await here.agent.get('/api/me').expect(200);
     await elsewhere.agent.get('/api/me').expect(401);
     expect(await Session.count({ where: { userId: engineer.id } })).toBe(1);
@@ -112,8 +134,11 @@ describe('POST /api/me/password limits', () => {
     try {
       const signedIn = async (email: string) => {
         const { agent, csrf } = await signedInAgent(limited, email);
-        return (currentPassword: string) => agent.post('/api/me/password').set('x-csrf-token', csrf)
-          .send({ currentPassword, password: 'rows-of-pear-trees-09' });
+        return (currentPassword: string) =>
+          agent
+            .post('/api/me/password')
+            .set('x-csrf-token', csrf)
+            .send({ currentPassword, password: 'rows-of-pear-trees-09' });
       };
       const operator = await signedIn('operator@example.test');
       expect((await operator('guess-number-one')).status).toBe(400);
@@ -141,8 +166,11 @@ describe('GET /api/me/storage', () => {
     const operator = (await User.findByEmail('operator@example.test'))!;
     await operator.update({ quotaBytes: 5 * 1024 ** 3 });
     for (const role of ROLES) {
-      const { agent } = await signedInAgent(server, `${role}@example.test`, role === 'engineer'
-        ? 'shards-and-manifests-07' : TEST_PASSWORD);
+      const { agent } = await signedInAgent(
+        server,
+        `${role}@example.test`,
+        role === 'engineer' ? 'shards-and-manifests-07' : TEST_PASSWORD,
+      );
       const response = await agent.get('/api/me/storage').expect(200);
       expect(response.body).toEqual({ usedBytes: 0, quotaBytes: role === 'operator' ? 5 * 1024 ** 3 : null });
     }

@@ -28,10 +28,17 @@ describe('projects', () => {
   });
 
   it('take documented defaults and answer 201', async () => {
-    const response = await admin.agent.post('/api/projects').set('x-csrf-token', admin.csrf)
-      .send({ name: 'Terrace rows', description: 'Spring pass', quotaBytes: 5_000_000 }).expect(201);
+    const response = await admin.agent
+      .post('/api/projects')
+      .set('x-csrf-token', admin.csrf)
+      .send({ name: 'Terrace rows', description: 'Spring pass', quotaBytes: 5_000_000 })
+      .expect(201);
     expect(response.body).toMatchObject({
-      name: 'Terrace rows', quotaBytes: 5_000_000, archived: false, usedBytes: 0, clipCount: 0,
+      name: 'Terrace rows',
+      quotaBytes: 5_000_000,
+      archived: false,
+      usedBytes: 0,
+      clipCount: 0,
       settings: { sampleFps: 5, workingSize: 320, deltas: [1, 2, 4], estimator: 'dis' },
     });
     expect(response.body.settings.flagThresholds.blurryLaplacianVariance).toBe(100);
@@ -51,14 +58,20 @@ describe('projects', () => {
       const response = await admin.agent.post('/api/projects').set('x-csrf-token', admin.csrf).send(body).expect(400);
       expect(response.body.error.message).toMatch(new RegExp(`^${field}`));
     }
-    const taken = await admin.agent.post('/api/projects').set('x-csrf-token', admin.csrf)
-      .send({ name: 'Terrace rows' }).expect(409);
+    const taken = await admin.agent
+      .post('/api/projects')
+      .set('x-csrf-token', admin.csrf)
+      .send({ name: 'Terrace rows' })
+      .expect(409);
     expect(taken.body.error.message).toMatch(/already exists/);
   });
 
   it('check processing settings when saved: a typo or an impossible value is 400 naming the field', async () => {
     const post = (body: Record<string, unknown>) =>
-      admin.agent.post('/api/projects').set('x-csrf-token', admin.csrf).send({ name: 'Settings check', ...body });
+      admin.agent
+        .post('/api/projects')
+        .set('x-csrf-token', admin.csrf)
+        .send({ name: 'Settings check', ...body });
     const refused: [Record<string, unknown>, string][] = [
       [{ estimator: 'farneback', estimatorParams: { winsize: 9 } }, 'estimatorParams.winsize: is not a parameter'],
       [{ estimator: 'farneback', estimatorParams: { pyrScale: 1 } }, 'estimatorParams.pyrScale: must be in \\(0, 1\\)'],
@@ -74,8 +87,8 @@ describe('projects', () => {
     expect(await Project.count({ where: { name: 'Settings check' } })).toBe(0);
 
     const created = await post({ estimator: 'farneback', estimatorParams: { winSize: 9 } }).expect(201);
-    const patch = (body: Record<string, unknown>) => admin.agent.patch(`/api/projects/${created.body.id}`)
-      .set('x-csrf-token', admin.csrf).send(body);
+    const patch = (body: Record<string, unknown>) =>
+      admin.agent.patch(`/api/projects/${created.body.id}`).set('x-csrf-token', admin.csrf).send(body);
     // Changing the estimator alone would leave farneback's parameters on dis: refused, nothing saved.
     const switched = await patch({ estimator: 'dis' }).expect(400);
     expect(switched.body.error.message).toMatch(/^estimatorParams\.winSize: is not a parameter of dis/);
@@ -88,8 +101,11 @@ describe('projects', () => {
 
   it('check the flag defaults for new projects when saved', async () => {
     const current = await admin.agent.get('/api/settings').expect(200);
-    const response = await admin.agent.put('/api/settings').set('x-csrf-token', admin.csrf)
-      .send({ ...current.body, projectFlagDefaults: { blurryLaplacianVarience: 80 } }).expect(400);
+    const response = await admin.agent
+      .put('/api/settings')
+      .set('x-csrf-token', admin.csrf)
+      .send({ ...current.body, projectFlagDefaults: { blurryLaplacianVarience: 80 } })
+      .expect(400);
     expect(response.body.error.message).toMatch(/^projectFlagDefaults\.blurryLaplacianVarience/);
   });
 
@@ -100,8 +116,11 @@ describe('projects', () => {
     await operator.agent.get(`/api/projects/${id}`).expect(200);
     await operator.agent.get('/api/projects/999').expect(404);
     await operator.agent.get('/api/projects/abc').expect(400);
-    const archived = await admin.agent.patch(`/api/projects/${id}`).set('x-csrf-token', admin.csrf)
-      .send({ archived: true, quotaBytes: null }).expect(200);
+    const archived = await admin.agent
+      .patch(`/api/projects/${id}`)
+      .set('x-csrf-token', admin.csrf)
+      .send({ archived: true, quotaBytes: null })
+      .expect(200);
     expect(archived.body).toMatchObject({ archived: true, quotaBytes: null });
     expect((await Project.findByPk(id))?.archived).toBe(true);
   });

@@ -24,8 +24,16 @@ const outcomes = (results: BulkResult[]) => Object.fromEntries(results.map((r) =
 
 beforeAll(async () => {
   server = await startTestServer();
-  ({ uploader: uploader, curatorUser, operator, engineer, curator, secondCurator, admin, projectId } =
-    await castForReview(server, 'Bulk'));
+  ({
+    uploader: uploader,
+    curatorUser,
+    operator,
+    engineer,
+    curator,
+    secondCurator,
+    admin,
+    projectId,
+  } = await castForReview(server, 'Bulk'));
   otherUploader = await addUser(server, 'operator', 'second-operator@example.test');
 });
 afterAll(async () => {
@@ -36,8 +44,11 @@ describe('POST /api/review/bulk', () => {
   it('is for curators and admins and validates the body', async () => {
     const id = (await insertReviewClip({ projectId, uploaderId: uploader.id })).id;
     const anonymous = await agentWithCsrf(server);
-    await anonymous.agent.post('/api/review/bulk').set('x-csrf-token', anonymous.csrf)
-      .send({ clipIds: [id], decision: 'accept' }).expect(401);
+    await anonymous.agent
+      .post('/api/review/bulk')
+      .set('x-csrf-token', anonymous.csrf)
+      .send({ clipIds: [id], decision: 'accept' })
+      .expect(401);
     await bulk(operator, { clipIds: [id], decision: 'accept' }).expect(403);
     await bulk(engineer, { clipIds: [id], decision: 'accept' }).expect(403);
     const neither = await bulk(curator, { decision: 'accept' }).expect(400);
@@ -50,8 +61,10 @@ describe('POST /api/review/bulk', () => {
     expect(badFilter.body.error.message).toMatch(/^filter\.hasFlag/);
     const unknownFilter = await bulk(curator, { filter: { state: 'accepted' }, decision: 'accept' }).expect(400);
     expect(unknownFilter.body.error.message).toMatch(/state/);
-    const tooMany = await bulk(curator, { clipIds: Array.from({ length: 1001 }, (_, i) => i + 1), decision: 'accept' })
-      .expect(400);
+    const tooMany = await bulk(curator, {
+      clipIds: Array.from({ length: 1001 }, (_, i) => i + 1),
+      decision: 'accept',
+    }).expect(400);
     expect(tooMany.body.error.message).toMatch(/^clipIds: at most 1000/);
     expect((await Clip.findByPk(id))!.state).toBe('awaiting_review');
   });
@@ -68,11 +81,17 @@ describe('POST /api/review/bulk', () => {
     await Clip.update({ claimExpiresAt: new Date(Date.now() - 1000) }, { where: { id: lapsed } });
 
     const { body } = await bulk(curator, {
-      clipIds: [free, mine, theirs, lapsed, decided, 99_999], decision: 'reject', reason: 'blurry',
+      clipIds: [free, mine, theirs, lapsed, decided, 99_999],
+      decision: 'reject',
+      reason: 'blurry',
       comment: 'focus off',
     }).expect(200);
     expect(outcomes(body.results)).toEqual({
-      [free]: 'applied', [mine]: 'applied', [theirs]: 'skipped', [lapsed]: 'applied', [decided]: 'skipped',
+      [free]: 'applied',
+      [mine]: 'applied',
+      [theirs]: 'skipped',
+      [lapsed]: 'applied',
+      [decided]: 'skipped',
       99999: 'skipped',
     });
     const skipped = body.results.find((r: BulkResult) => r.clipId === theirs);
@@ -80,7 +99,10 @@ describe('POST /api/review/bulk', () => {
 
     const states = await Clip.findAll({ where: { id: [free, mine, theirs, lapsed, decided] }, order: [['id', 'ASC']] });
     expect(states.map((clip) => [clip.state, clip.claimedBy])).toEqual([
-      ['rejected', null], ['rejected', null], ['awaiting_review', expect.any(Number)], ['rejected', null],
+      ['rejected', null],
+      ['rejected', null],
+      ['awaiting_review', expect.any(Number)],
+      ['rejected', null],
       ['accepted', null],
     ]);
     const verdicts = await Verdict.findAll({ where: { clipId: [free, mine, lapsed] } });
@@ -94,27 +116,39 @@ describe('POST /api/review/bulk', () => {
     expect(perClip).toHaveLength(3);
     const action = await AuditEvent.findOne({ where: { action: 'review.bulk' }, order: [['id', 'DESC']] });
     expect(action!.detail).toMatchObject({
-      decision: 'reject', applied: [free, mine, lapsed], skipped: 3, chosenBy: 'clipIds',
+      decision: 'reject',
+      applied: [free, mine, lapsed],
+      skipped: 3,
+      chosenBy: 'clipIds',
     });
     // Both uploaders of rejected clips get a digest job.
     const jobs = await Job.findAll({ where: { kind: 'send-rejection-digest' } });
-    expect(jobs.map((job) => (job.payload as { uploaderId: number }).uploaderId).sort())
-      .toEqual([uploader.id, otherUploader.id].sort());
+    expect(jobs.map((job) => (job.payload as { uploaderId: number }).uploaderId).sort()).toEqual(
+      [uploader.id, otherUploader.id].sort(),
+    );
   });
 
   it('decides every clip matching a queue filter, e.g. all flagged dark', async () => {
-    const dark = await Promise.all([1, 2, 3].map(() =>
-      insertReviewClip({ projectId, uploaderId: uploader.id, flags: ['dark'], site: 'Cellar' })));
+    const dark = await Promise.all(
+      [1, 2, 3].map(() => insertReviewClip({ projectId, uploaderId: uploader.id, flags: ['dark'], site: 'Cellar' })),
+    );
     const darkAndBlurry = await insertReviewClip({
-      projectId, uploaderId: uploader.id, flags: ['dark', 'blurry'], site: 'Cellar',
+      projectId,
+      uploaderId: uploader.id,
+      flags: ['dark', 'blurry'],
+      site: 'Cellar',
     });
     const bright = await insertReviewClip({ projectId, uploaderId: uploader.id, flags: [], site: 'Cellar' });
     await claim(secondCurator, dark[0]!.id).expect(200);
     const { body } = await bulk(admin, {
-      filter: { site: 'Cellar', hasFlag: 'dark', lacksFlag: ['blurry'] }, decision: 'reject', reason: 'too-dark',
+      filter: { site: 'Cellar', hasFlag: 'dark', lacksFlag: ['blurry'] },
+      decision: 'reject',
+      reason: 'too-dark',
     }).expect(200);
     expect(outcomes(body.results)).toEqual({
-      [dark[0]!.id]: 'skipped', [dark[1]!.id]: 'applied', [dark[2]!.id]: 'applied',
+      [dark[0]!.id]: 'skipped',
+      [dark[1]!.id]: 'applied',
+      [dark[2]!.id]: 'applied',
     });
     expect((await Clip.findByPk(darkAndBlurry.id))!.state).toBe('awaiting_review');
     expect((await Clip.findByPk(bright.id))!.state).toBe('awaiting_review');
@@ -123,9 +157,16 @@ describe('POST /api/review/bulk', () => {
   });
 
   it('refuses a filter matching more than 1000 clips, changing nothing', async () => {
-    await Clip.bulkCreate(Array.from({ length: 1001 }, (_, i) => reviewClipRow({
-      projectId, uploaderId: uploader.id, site: 'Everywhere', originalName: `many-${i}.mp4`,
-    })));
+    await Clip.bulkCreate(
+      Array.from({ length: 1001 }, (_, i) =>
+        reviewClipRow({
+          projectId,
+          uploaderId: uploader.id,
+          site: 'Everywhere',
+          originalName: `many-${i}.mp4`,
+        }),
+      ),
+    );
     const refused = await bulk(curator, { filter: { site: 'Everywhere' }, decision: 'accept' }).expect(422);
     expect(refused.body.error.code).toBe('too_many_clips');
     expect(await Clip.count({ where: { site: 'Everywhere', state: { [Op.ne]: 'awaiting_review' } } })).toBe(0);

@@ -22,8 +22,16 @@ const newClip = async () => (await insertReviewClip({ projectId, uploaderId })).
 beforeAll(async () => {
   server = await startTestServer();
   let uploaderUser: User;
-  ({ uploader: uploaderUser, curatorUser, operator, engineer, curator, secondCurator, admin, projectId } =
-    await castForReview(server, 'Claims'));
+  ({
+    uploader: uploaderUser,
+    curatorUser,
+    operator,
+    engineer,
+    curator,
+    secondCurator,
+    admin,
+    projectId,
+  } = await castForReview(server, 'Claims'));
   uploaderId = uploaderUser.id;
 });
 afterAll(async () => {
@@ -112,7 +120,7 @@ describe('DELETE /api/clips/:id/claim', () => {
     await claim(secondCurator, id).expect(200);
   });
 
-  it('refuses another curator, lets an admin release anyone\'s claim', async () => {
+  it("refuses another curator, lets an admin release anyone's claim", async () => {
     const id = await newClip();
     await claim(curator, id).expect(200);
     const refused = await release(secondCurator, id).expect(403);

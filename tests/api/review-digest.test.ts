@@ -22,8 +22,10 @@ async function decide(uploaderId: number, name: string, body: object): Promise<n
   return id;
 }
 
-const queuedDigests = (uploaderId: number) => Job.findAll({ where: { kind: 'send-rejection-digest', state: 'queued' } })
-  .then((jobs) => jobs.filter((job) => (job.payload as { uploaderId: number }).uploaderId === uploaderId));
+const queuedDigests = (uploaderId: number) =>
+  Job.findAll({ where: { kind: 'send-rejection-digest', state: 'queued' } }).then((jobs) =>
+    jobs.filter((job) => (job.payload as { uploaderId: number }).uploaderId === uploaderId),
+  );
 
 /** Moves the uploader's last digest back by `ms`, and makes their waiting digest job due now. */
 async function letTimePass(uploaderId: number, ms: number): Promise<void> {
@@ -40,10 +42,17 @@ beforeAll(async () => {
   otherUploader = await addUser(server, 'operator', 'second-operator@example.test');
   await addUser(server, 'curator');
   curator = await signedInAgent(server, 'curator@example.test');
-  projectId = (await Project.create({
-    name: 'Digest', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1],
-    flagThresholds: {},
-  })).id;
+  projectId = (
+    await Project.create({
+      name: 'Digest',
+      estimator: 'farneback',
+      estimatorParams: {},
+      sampleFps: 5,
+      workingSize: 320,
+      deltas: [1],
+      flagThresholds: {},
+    })
+  ).id;
 });
 afterAll(async () => {
   await mail?.stop();
@@ -55,8 +64,11 @@ describe('the rejection digest', () => {
   let firstRejected: number;
 
   it('mails each uploader their rejected clips with reasons and comments, and nothing about acceptances', async () => {
-    firstRejected = await decide(uploader.id, 'dawn-row-3.mp4',
-      { decision: 'reject', reason: 'too-dark', comment: 'sun not up yet' });
+    firstRejected = await decide(uploader.id, 'dawn-row-3.mp4', {
+      decision: 'reject',
+      reason: 'too-dark',
+      comment: 'sun not up yet',
+    });
     const second = await decide(uploader.id, 'dawn-row-4.mp4', { decision: 'reject', reason: 'blurry' });
     await decide(uploader.id, 'noon-row-1.mp4', { decision: 'accept' });
     await decide(otherUploader.id, 'gate.mp4', { decision: 'reject', reason: 'privacy-concern', comment: 'faces' });
@@ -84,8 +96,11 @@ describe('the rejection digest', () => {
     const changed = await decide(uploader.id, 'dusk-row-10.mp4', { decision: 'reject', reason: 'blurry' });
     // The curator changes their mind before the digest goes: that clip drops out of it.
     await curator.agent.post(`/api/clips/${changed}/claim`).set('x-csrf-token', curator.csrf).expect(200);
-    await curator.agent.post(`/api/clips/${changed}/verdict`).set('x-csrf-token', curator.csrf)
-      .send({ decision: 'accept' }).expect(200);
+    await curator.agent
+      .post(`/api/clips/${changed}/verdict`)
+      .set('x-csrf-token', curator.csrf)
+      .send({ decision: 'accept' })
+      .expect(200);
 
     const [waiting] = await queuedDigests(uploader.id);
     const last = await RejectionDigest.findOne({ where: { uploaderId: uploader.id }, order: [['at', 'DESC']] });

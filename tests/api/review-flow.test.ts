@@ -27,12 +27,18 @@ const next = (as: SignedIn, query: Record<string, string | number>) =>
 
 beforeAll(async () => {
   server = await startTestServer();
-  ({ uploader, curatorUser, operator, curator, secondCurator, admin, projectId } =
-    await castForReview(server, 'Flow'));
-  orderProjectId = (await Project.create({
-    name: 'Flow order', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1],
-    flagThresholds: {},
-  })).id;
+  ({ uploader, curatorUser, operator, curator, secondCurator, admin, projectId } = await castForReview(server, 'Flow'));
+  orderProjectId = (
+    await Project.create({
+      name: 'Flow order',
+      estimator: 'farneback',
+      estimatorParams: {},
+      sampleFps: 5,
+      workingSize: 320,
+      deltas: [1],
+      flagThresholds: {},
+    })
+  ).id;
 });
 afterAll(async () => {
   await server.close();
@@ -47,8 +53,11 @@ describe('GET /api/review/queue/next', () => {
       return clip.update({ medianSharpness });
     };
     return [
-      await make(300, ['dark']), await make(100, ['blurry']), await make(null, ['blurry']),
-      await make(200, ['blurry']), await make(100, []),
+      await make(300, ['dark']),
+      await make(100, ['blurry']),
+      await make(null, ['blurry']),
+      await make(200, ['blurry']),
+      await make(100, []),
     ].map((clip) => clip.id);
   }
 
@@ -78,8 +87,9 @@ describe('GET /api/review/queue/next', () => {
     // Blurry only, going down: d, b, c. The anchor b is decided first: what follows it stays the same.
     await claim(curator, b!).expect(200);
     await decide(curator, b!, { decision: 'accept' }).expect(200);
-    const blurry = await next(curator, { ...filter, hasFlag: 'blurry', sort: '-medianSharpness', after: b! })
-      .expect(200);
+    const blurry = await next(curator, { ...filter, hasFlag: 'blurry', sort: '-medianSharpness', after: b! }).expect(
+      200,
+    );
     expect(blurry.body.items.map((item: { id: number }) => item.id)).toEqual([c]);
     // A clip someone else holds is passed over.
     await claim(secondCurator, d!).expect(200);
@@ -117,7 +127,8 @@ describe('POST /api/clips/:id/verdict/undo', () => {
     expect(body.verdicts).toHaveLength(1);
     expect(body.verdicts[0].supersededAt).not.toBeNull();
     const events = await AuditEvent.findAll({
-      where: { targetType: 'clip', targetId: String(id) }, order: [['id', 'ASC']],
+      where: { targetType: 'clip', targetId: String(id) },
+      order: [['id', 'ASC']],
     });
     const actions = events.map((event) => event.action);
     expect(actions).toEqual(['clip.verdict', 'clip.verdict_undo']);
@@ -142,7 +153,7 @@ describe('POST /api/clips/:id/verdict/undo', () => {
     expect((await Clip.findByPk(changed.id))!.state).toBe('rejected');
   });
 
-  it('lets an admin undo a curator\'s verdict', async () => {
+  it("lets an admin undo a curator's verdict", async () => {
     const { id, verdictId } = await decided(curator);
     await undo(admin, id, { verdictId }).expect(200);
     expect((await Clip.findByPk(id))!.state).toBe('awaiting_review');
@@ -176,10 +187,18 @@ describe('GET /api/clips/:id/compare/:otherId', () => {
     const copy = await withFrames(['ffffffffffffffff', frames[0]!, '000000000000fe00', frames[2]!, frames[3]!]);
     const { body } = await compare(curator, original, copy).expect(200);
     expect(body).toMatchObject({
-      shift: 1, maxDistance: 5,
-      clip: { id: original, frameCount: 4, state: 'awaiting_review' }, other: { id: copy, frameCount: 5 },
+      shift: 1,
+      maxDistance: 5,
+      clip: { id: original, frameCount: 4, state: 'awaiting_review' },
+      other: { id: copy, frameCount: 5 },
     });
-    expect(body.steps.map((step: { otherIndex: number; distance: number }) => [step.otherIndex, step.distance]))
-      .toEqual([[1, 0], [2, 1], [3, 0], [4, 0]]);
+    expect(
+      body.steps.map((step: { otherIndex: number; distance: number }) => [step.otherIndex, step.distance]),
+    ).toEqual([
+      [1, 0],
+      [2, 1],
+      [3, 0],
+      [4, 0],
+    ]);
   });
 });

@@ -36,24 +36,71 @@ beforeAll(async () => {
   curator = await signedInAgent(server, 'curator@example.test');
   admin = await signedInAgent(server, 'admin@example.test');
   const settings = {
-    estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1], flagThresholds: {},
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: 320,
+    deltas: [1],
+    flagThresholds: {},
   };
   northRows = (await Project.create({ name: 'North rows', ...settings })).id;
   creek = (await Project.create({ name: 'Creek', ...settings })).id;
   const first = { projectId: northRows, uploaderId: firstUploader.id };
   const second = { projectId: northRows, uploaderId: secondUploader.id };
-  clip.dusk = (await insertReviewClip({ ...first, originalName: 'dusk.mp4', flags: ['dark'], site: 'North',
-    medianSharpness: 30, meanMotion: 0.1, capturedAt: new Date('2026-03-01T06:00:00Z'), createdAt: days(3) })).id;
-  clip.night = (await insertReviewClip({ ...first, originalName: 'night.mp4', flags: ['dark', 'blurry'], site: 'North',
-    medianSharpness: 10, meanMotion: null, capturedAt: new Date('2026-03-02T06:00:00Z'), createdAt: days(2) })).id;
-  clip.noon = (await insertReviewClip({ ...second, originalName: 'noon.mp4', site: 'South', medianSharpness: 300,
-    meanMotion: 2.5, usablePairs: 120, capturedAt: new Date('2026-03-05T12:00:00Z'), createdAt: days(1) })).id;
+  clip.dusk = (
+    await insertReviewClip({
+      ...first,
+      originalName: 'dusk.mp4',
+      flags: ['dark'],
+      site: 'North',
+      medianSharpness: 30,
+      meanMotion: 0.1,
+      capturedAt: new Date('2026-03-01T06:00:00Z'),
+      createdAt: days(3),
+    })
+  ).id;
+  clip.night = (
+    await insertReviewClip({
+      ...first,
+      originalName: 'night.mp4',
+      flags: ['dark', 'blurry'],
+      site: 'North',
+      medianSharpness: 10,
+      meanMotion: null,
+      capturedAt: new Date('2026-03-02T06:00:00Z'),
+      createdAt: days(2),
+    })
+  ).id;
+  clip.noon = (
+    await insertReviewClip({
+      ...second,
+      originalName: 'noon.mp4',
+      site: 'South',
+      medianSharpness: 300,
+      meanMotion: 2.5,
+      usablePairs: 120,
+      capturedAt: new Date('2026-03-05T12:00:00Z'),
+      createdAt: days(1),
+    })
+  ).id;
   clip.decided = (await insertReviewClip({ ...second, flags: ['blurry'], state: 'accepted' })).id;
-  clip.cuts = (await insertReviewClip({ projectId: creek, uploaderId: firstUploader.id, originalName: 'cuts.mp4',
-    flags: ['cut-heavy'], site: 'Creek', medianSharpness: 200, cutCount: 9, usablePairs: 12 })).id;
+  clip.cuts = (
+    await insertReviewClip({
+      projectId: creek,
+      uploaderId: firstUploader.id,
+      originalName: 'cuts.mp4',
+      flags: ['cut-heavy'],
+      site: 'Creek',
+      medianSharpness: 200,
+      cutCount: 9,
+      usablePairs: 12,
+    })
+  ).id;
   clip.busy = (await insertReviewClip({ ...first, state: 'processing' })).id;
-  await Clip.update({ claimedBy: curatorUser.id, claimExpiresAt: new Date(Date.now() + 600_000) },
-    { where: { id: clip.dusk } });
+  await Clip.update(
+    { claimedBy: curatorUser.id, claimExpiresAt: new Date(Date.now() + 600_000) },
+    { where: { id: clip.dusk } },
+  );
 });
 afterAll(async () => {
   await server.close();
@@ -84,8 +131,14 @@ describe('GET /api/review/queue', () => {
     expect(ids(body)).toEqual([clip.dusk, clip.night, clip.noon, clip.cuts]);
     const dusk = body.items[0] as ReviewQueueItem;
     expect(dusk).toMatchObject({
-      originalName: 'dusk.mp4', projectName: 'North rows', uploaderName: 'Test operator', site: 'North',
-      flags: ['dark'], medianSharpness: 30, meanMotion: 0.1, capturedAt: '2026-03-01T06:00:00.000Z',
+      originalName: 'dusk.mp4',
+      projectName: 'North rows',
+      uploaderName: 'Test operator',
+      site: 'North',
+      flags: ['dark'],
+      medianSharpness: 30,
+      meanMotion: 0.1,
+      capturedAt: '2026-03-01T06:00:00.000Z',
       claim: { holderName: 'Test curator' },
     });
     expect(body.items[1].meanMotion).toBeNull();
@@ -107,8 +160,10 @@ describe('GET /api/review/queue', () => {
     expect(await has(`projectId=${creek}`)).toEqual([clip.cuts]);
     expect(await has('site=South')).toEqual([clip.noon]);
     expect(await has(`uploaderId=${secondUploader.id}`)).toEqual([clip.noon]);
-    expect(await has('capturedFrom=2026-03-01T12:00:00Z&capturedTo=2026-03-06T00:00:00%2B02:00'))
-      .toEqual([clip.night, clip.noon]);
+    expect(await has('capturedFrom=2026-03-01T12:00:00Z&capturedTo=2026-03-06T00:00:00%2B02:00')).toEqual([
+      clip.night,
+      clip.noon,
+    ]);
   });
 
   it('sorts by any signal both ways and pages', async () => {
@@ -138,9 +193,15 @@ describe('every sort key', () => {
 
   it('keeps the count on the narrowest index for each filter', async () => {
     // Each query names a different index for its total (review-queue.ts countIndex); all agree with the fixture.
-    const totals = await Promise.all([`uploaderId=${firstUploader.id}`, 'site=North', `projectId=${northRows}`,
-      'capturedFrom=2026-01-01T00:00:00Z', 'flagged=true'].map(async (query) =>
-      (await curator.agent.get(`/api/review/queue?${query}`).expect(200)).body.total));
+    const totals = await Promise.all(
+      [
+        `uploaderId=${firstUploader.id}`,
+        'site=North',
+        `projectId=${northRows}`,
+        'capturedFrom=2026-01-01T00:00:00Z',
+        'flagged=true',
+      ].map(async (query) => (await curator.agent.get(`/api/review/queue?${query}`).expect(200)).body.total),
+    );
     expect(totals).toEqual([3, 2, 3, 3, 3]);
   });
 });
@@ -152,14 +213,21 @@ describe('the flagMask column', () => {
     // FLAG_NAMES.
     for (const flag of FLAG_NAMES) {
       const row = await insertReviewClip({ ...idle, flags: [flag] });
-      const [stored] = await server.sequelize.query('SELECT flagMask, flagCount FROM clips WHERE id = ?',
-        { replacements: [row.id], plain: false, raw: true }) as [{ flagMask: number; flagCount: number }[], unknown];
+      const [stored] = (await server.sequelize.query('SELECT flagMask, flagCount FROM clips WHERE id = ?', {
+        replacements: [row.id],
+        plain: false,
+        raw: true,
+      })) as [{ flagMask: number; flagCount: number }[], unknown];
       expect(stored[0]).toEqual({ flagMask: flagBits([flag]), flagCount: 1 });
     }
     const all = await insertReviewClip({ ...idle, flags: [...FLAG_NAMES] });
-    const maskOf = async (id: number) => ((await server.sequelize.query(
-      'SELECT flagMask, flagCount FROM clips WHERE id = ?', { replacements: [id], raw: true },
-    )) as [{ flagMask: number; flagCount: number }[], unknown])[0][0];
+    const maskOf = async (id: number) =>
+      (
+        (await server.sequelize.query('SELECT flagMask, flagCount FROM clips WHERE id = ?', {
+          replacements: [id],
+          raw: true,
+        })) as [{ flagMask: number; flagCount: number }[], unknown]
+      )[0][0];
     expect(await maskOf(all.id)).toEqual({ flagMask: 2 ** FLAG_NAMES.length - 1, flagCount: FLAG_NAMES.length });
     // Reprocessing rewrites the flags; the mask follows.
     await all.update({ flags: ['blurry', 'shaky'] });
@@ -179,6 +247,10 @@ describe('GET /api/review/facets', () => {
       { id: secondUploader.id, name: 'Second operator', count: 1 },
       { id: firstUploader.id, name: 'Test operator', count: 3 },
     ]);
-    expect(body.sites).toEqual([{ site: 'Creek', count: 1 }, { site: 'North', count: 2 }, { site: 'South', count: 1 }]);
+    expect(body.sites).toEqual([
+      { site: 'Creek', count: 1 },
+      { site: 'North', count: 2 },
+      { site: 'South', count: 1 },
+    ]);
   });
 });

@@ -23,10 +23,17 @@ beforeAll(async () => {
   operator = await signedInAgent(server, 'operator@example.test');
   curator = await signedInAgent(server, 'curator@example.test');
   admin = await signedInAgent(server, 'admin@example.test');
-  projectId = (await Project.create({
-    name: 'Reasons', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1],
-    flagThresholds: {},
-  })).id;
+  projectId = (
+    await Project.create({
+      name: 'Reasons',
+      estimator: 'farneback',
+      estimatorParams: {},
+      sampleFps: 5,
+      workingSize: 320,
+      deltas: [1],
+      flagThresholds: {},
+    })
+  ).id;
 });
 afterAll(async () => {
   await server.close();
@@ -40,8 +47,16 @@ describe('GET /api/settings/reject-reasons', () => {
     // The issue's defaults: too dark, overexposed, blurry, no motion, camera shake, scene cuts, duplicate,
     // privacy concern, off-topic, other.
     expect(body.reasons.map((reason: { label: string }) => reason.label)).toEqual([
-      'Too dark', 'Overexposed', 'Blurry', 'No motion', 'Camera shake', 'Scene cuts', 'Duplicate', 'Privacy concern',
-      'Off-topic', 'Other',
+      'Too dark',
+      'Overexposed',
+      'Blurry',
+      'No motion',
+      'Camera shake',
+      'Scene cuts',
+      'Duplicate',
+      'Privacy concern',
+      'Off-topic',
+      'Other',
     ]);
   });
 });
@@ -55,8 +70,11 @@ describe('PUT /api/settings/reject-reasons', () => {
 
   it('is for admins only and validates the list', async () => {
     const anonymous = await agentWithCsrf(server);
-    await anonymous.agent.put('/api/settings/reject-reasons').set('x-csrf-token', anonymous.csrf)
-      .send({ reasons }).expect(401);
+    await anonymous.agent
+      .put('/api/settings/reject-reasons')
+      .set('x-csrf-token', anonymous.csrf)
+      .send({ reasons })
+      .expect(401);
     await put(curator, { reasons }).expect(403);
     await put(operator, { reasons }).expect(403);
     const empty = await put(admin, { reasons: [] }).expect(400);
@@ -72,8 +90,11 @@ describe('PUT /api/settings/reject-reasons', () => {
   it('replaces the list for everyone, records who did, and new verdicts use it', async () => {
     const clip = await insertReviewClip({ projectId, uploaderId });
     await curator.agent.post(`/api/clips/${clip.id}/claim`).set('x-csrf-token', curator.csrf).expect(200);
-    await curator.agent.post(`/api/clips/${clip.id}/verdict`).set('x-csrf-token', curator.csrf)
-      .send({ decision: 'reject', reason: 'camera-shake' }).expect(200);
+    await curator.agent
+      .post(`/api/clips/${clip.id}/verdict`)
+      .set('x-csrf-token', curator.csrf)
+      .send({ decision: 'reject', reason: 'camera-shake' })
+      .expect(200);
 
     const { body } = await put(admin, { reasons }).expect(200);
     expect(body.reasons).toEqual(reasons);
@@ -84,10 +105,16 @@ describe('PUT /api/settings/reject-reasons', () => {
 
     const next = await insertReviewClip({ projectId, uploaderId });
     await curator.agent.post(`/api/clips/${next.id}/claim`).set('x-csrf-token', curator.csrf).expect(200);
-    await curator.agent.post(`/api/clips/${next.id}/verdict`).set('x-csrf-token', curator.csrf)
-      .send({ decision: 'reject', reason: 'camera-shake' }).expect(400);
-    const decided = await curator.agent.post(`/api/clips/${next.id}/verdict`).set('x-csrf-token', curator.csrf)
-      .send({ decision: 'reject', reason: 'lens-dirt' }).expect(200);
+    await curator.agent
+      .post(`/api/clips/${next.id}/verdict`)
+      .set('x-csrf-token', curator.csrf)
+      .send({ decision: 'reject', reason: 'camera-shake' })
+      .expect(400);
+    const decided = await curator.agent
+      .post(`/api/clips/${next.id}/verdict`)
+      .set('x-csrf-token', curator.csrf)
+      .send({ decision: 'reject', reason: 'lens-dirt' })
+      .expect(200);
     expect(decided.body.verdict.reasonLabel).toBe('Dirt on the lens');
     // The earlier verdict keeps the words it was given with.
     const earlier = await operator.agent.get(`/api/clips/${clip.id}`).expect(200);

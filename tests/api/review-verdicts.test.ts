@@ -28,8 +28,16 @@ async function ageVerdicts(clipId: number, hours: number): Promise<void> {
 
 beforeAll(async () => {
   server = await startTestServer();
-  ({ uploader: uploader, curatorUser, operator, engineer, curator, secondCurator, admin, projectId } =
-    await castForReview(server, 'Verdicts'));
+  ({
+    uploader: uploader,
+    curatorUser,
+    operator,
+    engineer,
+    curator,
+    secondCurator,
+    admin,
+    projectId,
+  } = await castForReview(server, 'Verdicts'));
 });
 afterAll(async () => {
   await server.close();
@@ -39,8 +47,11 @@ describe('POST /api/clips/:id/verdict', () => {
   it('is for curators and admins and validates the body', async () => {
     const id = await newClip();
     const anonymous = await agentWithCsrf(server);
-    await anonymous.agent.post(`/api/clips/${id}/verdict`).set('x-csrf-token', anonymous.csrf)
-      .send({ decision: 'accept' }).expect(401);
+    await anonymous.agent
+      .post(`/api/clips/${id}/verdict`)
+      .set('x-csrf-token', anonymous.csrf)
+      .send({ decision: 'accept' })
+      .expect(401);
     await decide(operator, id, { decision: 'accept' }).expect(403);
     await decide(engineer, id, { decision: 'accept' }).expect(403);
     const noReason = await decide(curator, id, { decision: 'reject' }).expect(400);
@@ -73,8 +84,14 @@ describe('POST /api/clips/:id/verdict', () => {
     await claim(curator, id).expect(200);
     const { body } = await decide(curator, id, { decision: 'accept', comment: 'steady pan, good light' }).expect(200);
     expect(body).toMatchObject({ id, state: 'accepted', claim: null });
-    expect(body.verdict).toMatchObject({ decision: 'accept', reason: null, comment: 'steady pan, good light',
-      curatorName: 'Test curator', supersededAt: null, bulk: false });
+    expect(body.verdict).toMatchObject({
+      decision: 'accept',
+      reason: null,
+      comment: 'steady pan, good light',
+      curatorName: 'Test curator',
+      supersededAt: null,
+      bulk: false,
+    });
     const clip = (await Clip.findByPk(id))!;
     expect([clip.state, clip.claimedBy]).toEqual(['accepted', null]);
     const event = await AuditEvent.findOne({ where: { action: 'clip.verdict', targetId: String(id) } });
@@ -84,14 +101,19 @@ describe('POST /api/clips/:id/verdict', () => {
     expect(await Job.count({ where: { kind: 'send-rejection-digest' } })).toBe(0);
   });
 
-  it('rejects with a reason from the list, keeps its words, and queues the uploader\'s digest', async () => {
+  it("rejects with a reason from the list, keeps its words, and queues the uploader's digest", async () => {
     const id = await newClip();
     await claim(curator, id).expect(200);
-    const { body } = await decide(curator, id, { decision: 'reject', reason: 'too-dark', comment: 'lens cap?' })
-      .expect(200);
+    const { body } = await decide(curator, id, { decision: 'reject', reason: 'too-dark', comment: 'lens cap?' }).expect(
+      200,
+    );
     expect(body.state).toBe('rejected');
-    expect(body.verdict).toMatchObject({ decision: 'reject', reason: 'too-dark', reasonLabel: 'Too dark',
-      comment: 'lens cap?' });
+    expect(body.verdict).toMatchObject({
+      decision: 'reject',
+      reason: 'too-dark',
+      reasonLabel: 'Too dark',
+      comment: 'lens cap?',
+    });
     const jobs = await Job.findAll({ where: { kind: 'send-rejection-digest' } });
     expect(jobs.map((job) => job.payload)).toEqual([{ uploaderId: uploader.id }]);
   });
@@ -106,7 +128,10 @@ describe('POST /api/clips/:id/verdict', () => {
     const { body } = await decide(curator, id, { decision: 'reject', reason: 'camera-shake' }).expect(200);
     expect(body.state).toBe('rejected');
     const inForce = (v: { decision: string; supersededAt: string | null }) => [v.decision, v.supersededAt === null];
-    expect(body.verdicts.map(inForce)).toEqual([['accept', false], ['reject', true]]);
+    expect(body.verdicts.map(inForce)).toEqual([
+      ['accept', false],
+      ['reject', true],
+    ]);
     expect(await AuditEvent.count({ where: { action: 'clip.verdict_change', targetId: String(id) } })).toBe(1);
   });
 
@@ -127,10 +152,13 @@ describe('POST /api/clips/:id/verdict', () => {
     const notTheirs = await decide(secondCurator, other, { decision: 'reject', reason: 'blurry' }).expect(403);
     expect(notTheirs.body.error.message).toMatch(/decided by Test curator/);
 
-    const byAdmin = await decide(admin, id, { decision: 'reject', reason: 'duplicate', comment: 'same as 12' })
-      .expect(200);
+    const byAdmin = await decide(admin, id, { decision: 'reject', reason: 'duplicate', comment: 'same as 12' }).expect(
+      200,
+    );
     expect(byAdmin.body.verdict).toMatchObject({
-      decision: 'reject', curatorName: 'Test admin', reasonLabel: 'Duplicate',
+      decision: 'reject',
+      curatorName: 'Test admin',
+      reasonLabel: 'Duplicate',
     });
     expect(byAdmin.body.verdicts).toHaveLength(2);
     expect(await Verdict.count({ where: { clipId: id, supersededAt: null } })).toBe(1);
@@ -147,19 +175,23 @@ describe('verdicts on the clip API', () => {
   it('show the operator the verdict, reason and comment on their clips, in the library and the detail', async () => {
     const id = await newClip();
     await claim(curator, id).expect(200);
-    await decide(curator, id, { decision: 'reject', reason: 'privacy-concern', comment: 'faces at the gate' })
-      .expect(200);
+    await decide(curator, id, { decision: 'reject', reason: 'privacy-concern', comment: 'faces at the gate' }).expect(
+      200,
+    );
     const list = await operator.agent.get('/api/clips?state=rejected&pageSize=200').expect(200);
     const row = list.body.items.find((item: { id: number }) => item.id === id);
     expect(row.verdict).toMatchObject({
-      reasonLabel: 'Privacy concern', comment: 'faces at the gate', curatorName: 'Test curator',
+      reasonLabel: 'Privacy concern',
+      comment: 'faces at the gate',
+      curatorName: 'Test curator',
     });
     expect(row.uploaderName).toBe(uploader.name);
     expect(row.projectName).not.toBe('');
     const detail = await operator.agent.get(`/api/clips/${id}`).expect(200);
     expect(detail.body.verdicts).toHaveLength(1);
     expect(detail.body.history.at(-1)).toMatchObject({
-      action: 'clip.verdict', actorName: 'Test curator',
+      action: 'clip.verdict',
+      actorName: 'Test curator',
       detail: { message: 'rejected: Privacy concern (“faces at the gate”)' },
     });
   });

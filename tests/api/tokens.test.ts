@@ -7,7 +7,12 @@ import { buildPairsetNow } from '../helpers/pairset-build';
 import { addProject } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import {
-  addUser, agentWithCsrf, signedInAgent, startTestServer, TEST_PASSWORD, type TestServer,
+  addUser,
+  agentWithCsrf,
+  signedInAgent,
+  startTestServer,
+  TEST_PASSWORD,
+  type TestServer,
 } from '../helpers/test-server';
 
 let server: TestServer;
@@ -70,14 +75,23 @@ describe('token routes', () => {
   });
 
   it('refuse a bad body with 400 naming the field', async () => {
-    const cases = [[{}, 'name'], [{ name: ' ' }, 'name'], [{ name: 'ok', scope: 'all' }, 'scope']] as const;
+    const cases = [
+      [{}, 'name'],
+      [{ name: ' ' }, 'name'],
+      [{ name: 'ok', scope: 'all' }, 'scope'],
+    ] as const;
     for (const [body, field] of cases) {
-      const response = await engineer.agent.post('/api/tokens').set('x-csrf-token', engineer.csrf).send(body)
+      const response = await engineer.agent
+        .post('/api/tokens')
+        .set('x-csrf-token', engineer.csrf)
+        .send(body)
         .expect(400);
       expect(response.body.error.message).toMatch(new RegExp(`^${field}`));
     }
-    expect((await engineer.agent.delete('/api/tokens/abc').set('x-csrf-token', engineer.csrf).expect(400))
-      .body.error.message).toMatch(/^id/);
+    expect(
+      (await engineer.agent.delete('/api/tokens/abc').set('x-csrf-token', engineer.csrf).expect(400)).body.error
+        .message,
+    ).toMatch(/^id/);
   });
 
   it('create a token shown once, stored only as a SHA-256 with a visible prefix', async () => {
@@ -90,13 +104,17 @@ describe('token routes', () => {
     const list = await engineer.agent.get('/api/tokens').expect(200);
     const listed = list.body.items.find((item: { id: number }) => item.id === created.id);
     expect(listed).toEqual({
-      id: created.id, name: 'training box', prefix: created.prefix, lastUsedAt: null, revokedAt: null,
+      id: created.id,
+      name: 'training box',
+      prefix: created.prefix,
+      lastUsedAt: null,
+      revokedAt: null,
       createdAt: expect.any(String),
     });
     expect(await AuditEvent.count({ where: { action: 'token.create', targetId: String(created.id) } })).toBe(1);
   });
 
-  it('list only the person\'s own tokens', async () => {
+  it("list only the person's own tokens", async () => {
     const second = await signedInAgent(server, 'second@example.test');
     await newToken(second, 'someone else');
     const mine = await engineer.agent.get('/api/tokens').expect(200);
@@ -113,8 +131,12 @@ describe('Authorization: Bearer', () => {
     await bearer(token).get(`/api/pairsets/${pairsetId}/difficulty`).expect(200);
     const whole = await bearer(token).get(`/api/pairsets/${pairsetId}/shards/0`).buffer(true).parse(binary).expect(200);
     expect((whole.body as Buffer).length).toBe(detail.body.shards[0].bytes);
-    const part = await bearer(token).get(`/api/pairsets/${pairsetId}/shards/0`).set('Range', 'bytes=0-511')
-      .buffer(true).parse(binary).expect(206);
+    const part = await bearer(token)
+      .get(`/api/pairsets/${pairsetId}/shards/0`)
+      .set('Range', 'bytes=0-511')
+      .buffer(true)
+      .parse(binary)
+      .expect(206);
     expect(part.body).toEqual((whole.body as Buffer).subarray(0, 512));
     expect((await ApiToken.findByPk(id))!.lastUsedAt).toBeInstanceOf(Date);
   });
@@ -144,16 +166,19 @@ describe('Authorization: Bearer', () => {
     const withToken = (test: request.Test) => test.set('Authorization', `Bearer ${token}`);
     const csrf = (await withToken(anonymous.agent.get('/api/auth/csrf')).expect(200)).body.token as string;
     const signIn = await withToken(anonymous.agent.post('/api/auth/sign-in').set('x-csrf-token', csrf))
-      .send({ email: 'second@example.test', password: TEST_PASSWORD }).expect(200);
+      .send({ email: 'second@example.test', password: TEST_PASSWORD })
+      .expect(200);
     expect(signIn.body.email).toBe('second@example.test');
     const other = await agentWithCsrf(server);
     await withToken(other.agent.post('/api/auth/reset-request').set('x-csrf-token', other.csrf))
-      .send({ email: 'nobody@example.test' }).expect(202);
+      .send({ email: 'nobody@example.test' })
+      .expect(202);
     const unknownCode = 'A'.repeat(43);
     expect((await withToken(other.agent.get(`/api/invitations/${unknownCode}`))).status).not.toBe(403);
     // Ignored means ignored: the token signs no one in there, and CSRF still guards the writes.
     await withToken(request(server.app).post('/api/auth/sign-in'))
-      .send({ email: 'second@example.test', password: TEST_PASSWORD }).expect(403);
+      .send({ email: 'second@example.test', password: TEST_PASSWORD })
+      .expect(403);
     expect((await bearer(token).get('/api/me')).status).toBe(403);
   });
 
@@ -166,13 +191,14 @@ describe('Authorization: Bearer', () => {
     await bearer(token).get('/api/pairsets').expect(200);
     const revoked = await engineer.agent.delete(`/api/tokens/${id}`).set('x-csrf-token', engineer.csrf).expect(200);
     expect(revoked.body.revokedAt).toEqual(expect.any(String));
-    expect((await bearer(token).get(`/api/pairsets/${pairsetId}/shards/0`).expect(401)).body.error.code)
-      .toBe('token_invalid');
+    expect((await bearer(token).get(`/api/pairsets/${pairsetId}/shards/0`).expect(401)).body.error.code).toBe(
+      'token_invalid',
+    );
     await engineer.agent.delete(`/api/tokens/${id}`).set('x-csrf-token', engineer.csrf).expect(409);
     expect(await AuditEvent.count({ where: { action: 'token.revoke', targetId: String(id) } })).toBe(1);
   });
 
-  it('cannot be revoked by another engineer, and follows its owner\'s role and account', async () => {
+  it("cannot be revoked by another engineer, and follows its owner's role and account", async () => {
     const { id, token } = await newToken(engineer, 'follows owner');
     const second = await signedInAgent(server, 'second@example.test');
     await second.agent.delete(`/api/tokens/${id}`).set('x-csrf-token', second.csrf).expect(404);

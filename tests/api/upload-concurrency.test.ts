@@ -51,14 +51,24 @@ describe('many uploads at once', () => {
     // Room for ten reservations (a reservation is the request's whole Content-Length), so fourteen must be refused.
     const quotaBytes = FITTING * requestBytes + requestBytes / 2;
     const project = await Project.create({
-      name: 'Busy week', quotaBytes, estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320,
-      deltas: [1], flagThresholds: {},
+      name: 'Busy week',
+      quotaBytes,
+      estimator: 'farneback',
+      estimatorParams: {},
+      sampleFps: 5,
+      workingSize: 320,
+      deltas: [1],
+      flagThresholds: {},
     });
-    const answers = await Promise.all(files.map((file, index) =>
-      postUpload(baseUrl, sessions[index % SESSIONS]!, project.id, file)));
+    const answers = await Promise.all(
+      files.map((file, index) => postUpload(baseUrl, sessions[index % SESSIONS]!, project.id, file)),
+    );
     const statuses = answers.map((answer) => answer.status);
     const bodies = await Promise.all(answers.map((answer) => answer.text()));
-    expect(statuses.filter((status) => status !== 201 && status !== 413), bodies.join('\n')).toEqual([]);
+    expect(
+      statuses.filter((status) => status !== 201 && status !== 413),
+      bodies.join('\n'),
+    ).toEqual([]);
     const created = statuses.filter((status) => status === 201).length;
     expect(created).toBeGreaterThan(0);
     expect(created).toBeLessThanOrEqual(FITTING);

@@ -34,12 +34,16 @@ async function halfUpload(baseUrl: string, session: { cookie: string; csrf: stri
   const request = http.request(`${baseUrl}/api/clips`, {
     method: 'POST',
     headers: {
-      cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-type': type, 'content-length': body.length,
+      cookie: session.cookie,
+      'x-csrf-token': session.csrf,
+      'content-type': type,
+      'content-length': body.length,
     },
   });
   request.on('error', () => undefined);
   request.write(body.subarray(0, Math.floor(body.length / 3)));
-  await expect.poll(() => fs.existsSync(incoming) && fs.readdirSync(incoming).length > 0, { timeout: 10_000 })
+  await expect
+    .poll(() => fs.existsSync(incoming) && fs.readdirSync(incoming).length > 0, { timeout: 10_000 })
     .toBe(true);
   return request;
 }
@@ -50,7 +54,8 @@ describe('a server killed mid-upload', () => {
     const admin = await app.signIn('admin');
     const requestBytes = uploadBody(0, file).body.length;
     const created = await app.api(admin, 'POST', '/api/projects', {
-      name: 'Creek block', quotaBytes: Math.floor(requestBytes * 1.5),
+      name: 'Creek block',
+      quotaBytes: Math.floor(requestBytes * 1.5),
     });
     expect(created.status).toBe(201);
     const projectId = ((await created.json()) as { id: number }).id;

@@ -36,16 +36,23 @@ afterAll(async () => {
 
 async function newProject(name: string, quotaBytes: number | null) {
   return Project.create({
-    name, quotaBytes, estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1],
+    name,
+    quotaBytes,
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: 320,
+    deltas: [1],
     flagThresholds: {},
   });
 }
 
 function multipart(projectId: number, file: string): { body: Buffer; type: string } {
   const boundary = `----kinefold${Math.random().toString(16).slice(2)}`;
-  const head = `--${boundary}\r\nContent-Disposition: form-data; name="projectId"\r\n\r\n${projectId}\r\n`
-    + `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${path.basename(file)}"\r\n`
-    + 'Content-Type: video/mp4\r\n\r\n';
+  const head =
+    `--${boundary}\r\nContent-Disposition: form-data; name="projectId"\r\n\r\n${projectId}\r\n` +
+    `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${path.basename(file)}"\r\n` +
+    'Content-Type: video/mp4\r\n\r\n';
   const body = Buffer.concat([Buffer.from(head), fs.readFileSync(file), Buffer.from(`\r\n--${boundary}--\r\n`)]);
   return { body, type: `multipart/form-data; boundary=${boundary}` };
 }
@@ -53,7 +60,9 @@ function multipart(projectId: number, file: string): { body: Buffer; type: strin
 function post(projectId: number, file: string): Promise<Response> {
   const { body, type } = multipart(projectId, file);
   return fetch(`${baseUrl}/api/clips`, {
-    method: 'POST', body: new Uint8Array(body), headers: { cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-type': type },
+    method: 'POST',
+    body: new Uint8Array(body),
+    headers: { cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-type': type },
   });
 }
 
@@ -70,15 +79,16 @@ describe('upload quotas', () => {
     const statuses = answers.map((answer) => answer.status).sort();
     expect(statuses).toEqual([201, 413]);
     const refused = answers.find((answer) => answer.status === 413)!;
-    expect(((await refused.json()) as { error: { message: string } }).error.message)
-      .toMatch(/Project "Creek block"'s quota of .* has .* left; this upload needs/);
+    expect(((await refused.json()) as { error: { message: string } }).error.message).toMatch(
+      /Project "Creek block"'s quota of .* has .* left; this upload needs/,
+    );
     const used = (await Clip.sum('storedBytes', { where: { projectId: project.id } })) ?? 0;
     expect(Number(used)).toBeLessThanOrEqual(Number(project.quotaBytes));
     expect(await UploadReservation.count()).toBe(0);
     expect(incomingFiles()).toEqual([]);
   });
 
-  it('refuses an upload over the uploader\'s own quota and says which quota', async () => {
+  it("refuses an upload over the uploader's own quota and says which quota", async () => {
     const project = await newProject('Orchard terraces', null);
     const user = await User.findByEmail('operator@example.test');
     await user!.update({ quotaBytes: 1000 });
@@ -99,7 +109,10 @@ describe('upload quotas', () => {
       const request = http.request(`${baseUrl}/api/clips`, {
         method: 'POST',
         headers: {
-          cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-type': type, 'content-length': body.length,
+          cookie: session.cookie,
+          'x-csrf-token': session.csrf,
+          'content-type': type,
+          'content-length': body.length,
         },
       });
       request.on('error', () => resolve());
@@ -109,8 +122,9 @@ describe('upload quotas', () => {
         resolve();
       }, 300);
     });
-    await expect.poll(async () => (await UploadReservation.count()) === 0 && incomingFiles().length === 0,
-      { timeout: 5000 }).toBe(true);
+    await expect
+      .poll(async () => (await UploadReservation.count()) === 0 && incomingFiles().length === 0, { timeout: 5000 })
+      .toBe(true);
     expect(await Clip.count()).toBe(before);
     const health = await fetch(`${baseUrl}/api/health`);
     expect(health.status).toBe(200);

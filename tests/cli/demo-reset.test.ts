@@ -9,7 +9,12 @@ import { afterAll, beforeEach, describe, expect, it } from 'vitest';
 
 const run = promisify(execFile);
 const storageDir = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-cli-reset-'));
-const KINEFOLD_FILES = ['db/kinefold.sqlite', 'incoming/upload-1.part', 'clips/3/source.mp4', 'pairsets/1/pairset.json'];
+const KINEFOLD_FILES = [
+  'db/kinefold.sqlite',
+  'incoming/upload-1.part',
+  'clips/3/source.mp4',
+  'pairsets/1/pairset.json',
+];
 const OTHER_FILE = 'notes-kept-by-someone.txt';
 
 /** Runs `npm run demo:reset` exactly as a person would, with PORT pointing where the test says. */

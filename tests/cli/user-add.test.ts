@@ -25,15 +25,30 @@ afterAll(() => fs.rmSync(storageDir, { recursive: true, force: true }));
 
 describe('npm run user:add', () => {
   it('creates a user', async () => {
-    const result = await userAdd('--email', 'field@example.test', '--role', 'operator',
-      '--password', 'a-long-field-phrase', '--name', 'Field Person');
+    const result = await userAdd(
+      '--email',
+      'field@example.test',
+      '--role',
+      'operator',
+      '--password',
+      'a-long-field-phrase',
+      '--name',
+      'Field Person',
+    );
     expect(result.stderr).toBe('');
     expect(result.code).toBe(0);
     expect(result.stdout).toMatch(/created operator field@example\.test/);
   });
 
   it('refuses a duplicate with a clear message', async () => {
-    const result = await userAdd('--email', 'FIELD@example.test', '--role', 'curator', '--password', 'another-long-phrase');
+    const result = await userAdd(
+      '--email',
+      'FIELD@example.test',
+      '--role',
+      'curator',
+      '--password',
+      'another-long-phrase',
+    );
     expect(result.code).toBe(1);
     expect(result.stderr).toMatch(/already exists/);
   });

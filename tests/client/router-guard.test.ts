@@ -7,8 +7,14 @@ import { stubbedRoutes } from './stub-routes';
 
 function userWith(role: Role): Me {
   return {
-    id: 1, email: `${role}@example.test`, name: 'Someone', role, disabled: false, quotaBytes: null,
-    lastSignInAt: null, createdAt: '2026-01-01T00:00:00Z',
+    id: 1,
+    email: `${role}@example.test`,
+    name: 'Someone',
+    role,
+    disabled: false,
+    quotaBytes: null,
+    lastSignInAt: null,
+    createdAt: '2026-01-01T00:00:00Z',
   };
 }
 

@@ -14,10 +14,12 @@ describe('SignInView', () => {
   beforeEach(() => setActivePinia(createPinia()));
   afterEach(() => vi.unstubAllGlobals());
 
-  it('shows the server\'s error message when sign-in is refused', async () => {
+  it("shows the server's error message when sign-in is refused", async () => {
     const fetchMock = vi.fn(async (url: string) => {
       if (url.startsWith('/api/auth/csrf')) return jsonResponse(200, { token: 'token-1' });
-      return jsonResponse(401, { error: { code: 'wrong_credentials', message: 'E-mail address or password is wrong.' } });
+      return jsonResponse(401, {
+        error: { code: 'wrong_credentials', message: 'E-mail address or password is wrong.' },
+      });
     });
     vi.stubGlobal('fetch', fetchMock);
     const router = createRouter({ history: createMemoryHistory(), routes: stubbedRoutes() });

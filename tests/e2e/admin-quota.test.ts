@@ -18,8 +18,14 @@ beforeAll(async () => {
   server = await startRunningServer();
   browser = await launchBrowser();
   await Project.create({
-    name: 'Terrace quota trial', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320,
-    deltas: [1], flagThresholds: {}, quotaBytes: 1024 ** 3,
+    name: 'Terrace quota trial',
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: 320,
+    deltas: [1],
+    flagThresholds: {},
+    quotaBytes: 1024 ** 3,
   });
   clip = await makeTestClip(media, 'terrace-late.mp4', { seed: 9 });
 });
@@ -32,7 +38,7 @@ afterAll(async () => {
 const account = (role: string) => DEMO_ACCOUNTS.find((entry) => entry.role === role)!;
 
 describe('an admin lowering a project quota', () => {
-  it('makes the operator\'s next upload refused with a message naming the quota', async () => {
+  it("makes the operator's next upload refused with a message naming the quota", async () => {
     const adminPage = await browser.newPage({ viewport: { width: 1440, height: 1000 } });
     await signInThroughForm(adminPage, server.baseUrl, account('admin').email, account('admin').password);
     await adminPage.click('[data-test="nav-projects"]');
@@ -56,8 +62,9 @@ describe('an admin lowering a project quota', () => {
     await page.setInputFiles('input[type="file"]', [clip]);
     await page.click('[data-test="upload-start"]');
     await page.waitForSelector('[data-test="upload-state-terrace-late.mp4"]:has-text("refused")');
-    expect(await page.textContent('[data-test="upload-message-terrace-late.mp4"]'))
-      .toMatch(/Project "Terrace quota trial"'s quota of 10\.2 KiB has 10\.2 KiB left; this upload needs/);
+    expect(await page.textContent('[data-test="upload-message-terrace-late.mp4"]')).toMatch(
+      /Project "Terrace quota trial"'s quota of 10\.2 KiB has 10\.2 KiB left; this upload needs/,
+    );
     await page.close();
   });
 });

@@ -26,8 +26,13 @@ beforeAll(async () => {
   browser = await launchBrowser();
   runtime = startTestRuntime(server);
   const project = await Project.create({
-    name: 'Creek-side block', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320,
-    deltas: [1, 2], flagThresholds: {},
+    name: 'Creek-side block',
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: 320,
+    deltas: [1, 2],
+    flagThresholds: {},
   });
   const operator = (await User.findByEmail('operator@kinefold.test'))!;
   const file = await makeTestClip(media, 'creek-pass.mp4', { seconds: 4, size: '480x270', seed: 6 });
@@ -35,11 +40,18 @@ beforeAll(async () => {
   fs.mkdirSync(path.dirname(incoming), { recursive: true });
   fs.copyFileSync(file, incoming);
   const reservationId = await reserveUpload(project.id, operator.id, fs.statSync(incoming).size);
-  const clip = await admitUpload({
-    path: incoming, size: fs.statSync(incoming).size, reservationId,
-    sha256: createHash('sha256').update(fs.readFileSync(incoming)).digest('hex'),
-    fields: { projectId: project.id, site: 'Creek bank', rig: 'handheld', capturedAt: null, tags: [], notes: '' },
-  }, 'creek-pass.mp4', operator.id, { paths: storagePaths(server.storageDir), publicUrl: server.config.publicUrl });
+  const clip = await admitUpload(
+    {
+      path: incoming,
+      size: fs.statSync(incoming).size,
+      reservationId,
+      sha256: createHash('sha256').update(fs.readFileSync(incoming)).digest('hex'),
+      fields: { projectId: project.id, site: 'Creek bank', rig: 'handheld', capturedAt: null, tags: [], notes: '' },
+    },
+    'creek-pass.mp4',
+    operator.id,
+    { paths: storagePaths(server.storageDir), publicUrl: server.config.publicUrl },
+  );
   clipId = clip.id;
   expect(await runtime.drain()).toBe(1);
 });
@@ -61,14 +73,19 @@ describe('a processed clip', () => {
     expect(await page.$$eval('[data-test="frame-strip"] button', (frames) => frames.length)).toBe(20);
     await page.waitForSelector('[data-test="signal-chart"] canvas');
     await page.click('[data-test="frame-strip"] button:nth-child(6)');
-    await page.waitForFunction(() => [...document.querySelectorAll('[data-test="frame-views"] img')]
-      .every((image) => (image as HTMLImageElement).complete && (image as HTMLImageElement).naturalWidth > 0));
+    await page.waitForFunction(() =>
+      [...document.querySelectorAll('[data-test="frame-views"] img')].every(
+        (image) => (image as HTMLImageElement).complete && (image as HTMLImageElement).naturalWidth > 0,
+      ),
+    );
     const views = await page.$$eval('[data-test="frame-views"] img', (images) =>
-      images.map((image) => (image as HTMLImageElement).naturalWidth));
+      images.map((image) => (image as HTMLImageElement).naturalWidth),
+    );
     // Frame, luma, chroma and the motion picture of the field to the next frame.
     expect(views).toEqual([320, 320, 320, 320]);
-    expect(await page.$$eval('[data-test="frame-strip"] [data-test="strip-motion"]', (pictures) => pictures.length))
-      .toBeGreaterThan(0);
+    expect(
+      await page.$$eval('[data-test="frame-strip"] [data-test="strip-motion"]', (pictures) => pictures.length),
+    ).toBeGreaterThan(0);
     await page.waitForSelector('[data-test="motion-wheel-legend"] canvas');
 
     const played = await page.$eval('[data-test="clip-preview"]', async (element) => {

@@ -4,7 +4,12 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
-  DEMO_CLIPS, DEMO_INVITATION, DEMO_PAIRSET, DEMO_PROJECTS, DEMO_TOKEN_NAME, DEMO_VERDICTS,
+  DEMO_CLIPS,
+  DEMO_INVITATION,
+  DEMO_PAIRSET,
+  DEMO_PROJECTS,
+  DEMO_TOKEN_NAME,
+  DEMO_VERDICTS,
 } from '../../server/demo/scenario';
 import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import type { ListPage } from '../../shared/api-types';
@@ -47,8 +52,10 @@ async function until<T>(what: string, read: () => Promise<T | null>): Promise<T>
 /** The rows of a table once at least `atLeast` have rendered (lazy tables fill in after their request returns). */
 async function rows(page: Page, table: string, atLeast = 1): Promise<number> {
   const selector = `[data-test="${table}"] tbody tr:not(.p-datatable-empty-message)`;
-  await page.waitForFunction(([rowSelector, least]) => document.querySelectorAll(rowSelector as string).length
-    >= (least as number), [selector, atLeast] as const);
+  await page.waitForFunction(
+    ([rowSelector, least]) => document.querySelectorAll(rowSelector as string).length >= (least as number),
+    [selector, atLeast] as const,
+  );
   return page.locator(selector).count();
 }
 
@@ -57,13 +64,15 @@ async function rows(page: Page, table: string, atLeast = 1): Promise<number> {
  * pictures that are inside the window.
  */
 async function shot(page: Page, name: string): Promise<void> {
-  await page.waitForFunction(() => [...document.querySelectorAll('img')]
-    .filter((image) => {
-      const box = image.getBoundingClientRect();
-      const inWindow = box.bottom > 0 && box.top < window.innerHeight && box.left < window.innerWidth;
-      return box.width > 0 && (image.loading !== 'lazy' || inWindow);
-    })
-    .every((image) => image.complete && image.naturalWidth > 0));
+  await page.waitForFunction(() =>
+    [...document.querySelectorAll('img')]
+      .filter((image) => {
+        const box = image.getBoundingClientRect();
+        const inWindow = box.bottom > 0 && box.top < window.innerHeight && box.left < window.innerWidth;
+        return box.width > 0 && (image.loading !== 'lazy' || inWindow);
+      })
+      .every((image) => image.complete && image.naturalWidth > 0),
+  );
   await screenshot(page, name);
 }
 

@@ -25,65 +25,64 @@ afterAll(async () => {
 const INVITEE = 'marit.solberg@kinefold.test';
 
 describe('inviting a person', () => {
-  it('the admin invites someone who opens the link from the mail log, sets a password and lands on their home',
-    async () => {
-      const adminContext = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-      const page = await adminContext.newPage();
-      const admin = DEMO_ACCOUNTS.find((account) => account.role === 'admin')!;
-      await signInThroughForm(page, server.baseUrl, admin.email, admin.password);
-      await page.waitForSelector('[data-test="home-admin"]');
+  it('the admin invites someone who opens the link from the mail log, sets a password and lands on their home', async () => {
+    const adminContext = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const page = await adminContext.newPage();
+    const admin = DEMO_ACCOUNTS.find((account) => account.role === 'admin')!;
+    await signInThroughForm(page, server.baseUrl, admin.email, admin.password);
+    await page.waitForSelector('[data-test="home-admin"]');
 
-      await page.click('[data-test="nav-people"]');
-      await page.click('[data-test="invite-open"]');
-      await page.fill('#invite-email', INVITEE);
-      await page.click('[data-test="invite-dialog"] .p-select');
-      await page.getByRole('option', { name: 'curator', exact: true }).click();
-      await page.click('[data-test="invite-dialog"] button[type="submit"]');
-      await page.waitForSelector(`[data-test="invitations-table"] tr:has-text("${INVITEE}")`);
-      expect(await page.textContent(`[data-test="invitations-table"] tr:has-text("${INVITEE}")`)).toMatch(/pending/);
-      await screenshot(page, 'people-invitations');
+    await page.click('[data-test="nav-people"]');
+    await page.click('[data-test="invite-open"]');
+    await page.fill('#invite-email', INVITEE);
+    await page.click('[data-test="invite-dialog"] .p-select');
+    await page.getByRole('option', { name: 'curator', exact: true }).click();
+    await page.click('[data-test="invite-dialog"] button[type="submit"]');
+    await page.waitForSelector(`[data-test="invitations-table"] tr:has-text("${INVITEE}")`);
+    expect(await page.textContent(`[data-test="invitations-table"] tr:has-text("${INVITEE}")`)).toMatch(/pending/);
+    await screenshot(page, 'people-invitations');
 
-      // The server's sender delivers the outbox to the fake SMTP server in the background.
-      await expect.poll(() => MailMessage.count({ where: { to: INVITEE } }), { timeout: 15_000 }).toBe(1);
-      await page.click('[data-test="nav-mail-log"]');
-      await page.click(`[data-test="mail-table"] tr:has-text("${INVITEE}")`);
-      const text = (await page.textContent('[data-test="mail-text"]')) ?? '';
-      expect(text).toContain(`${admin.name} invited you to Kinefold as a curator`);
-      const link = text.match(/\S+\/invite\/[A-Za-z0-9_-]{43}/)?.[0] ?? '';
-      expect(link.startsWith(`${server.config.publicUrl}/invite/`)).toBe(true);
-      await screenshot(page, 'mail-log');
-      await page.getByRole('tab', { name: 'As formatted' }).click();
-      const formatted = page.frameLocator('iframe[title="Formatted message"]');
-      expect(await formatted.locator('a').first().getAttribute('href')).toBe(link);
-      await screenshot(page, 'mail-log-formatted');
-      await adminContext.close();
+    // The server's sender delivers the outbox to the fake SMTP server in the background.
+    await expect.poll(() => MailMessage.count({ where: { to: INVITEE } }), { timeout: 15_000 }).toBe(1);
+    await page.click('[data-test="nav-mail-log"]');
+    await page.click(`[data-test="mail-table"] tr:has-text("${INVITEE}")`);
+    const text = (await page.textContent('[data-test="mail-text"]')) ?? '';
+    expect(text).toContain(`${admin.name} invited you to Kinefold as a curator`);
+    const link = text.match(/\S+\/invite\/[A-Za-z0-9_-]{43}/)?.[0] ?? '';
+    expect(link.startsWith(`${server.config.publicUrl}/invite/`)).toBe(true);
+    await screenshot(page, 'mail-log');
+    await page.getByRole('tab', { name: 'As formatted' }).click();
+    const formatted = page.frameLocator('iframe[title="Formatted message"]');
+    expect(await formatted.locator('a').first().getAttribute('href')).toBe(link);
+    await screenshot(page, 'mail-log-formatted');
+    await adminContext.close();
 
-      // A fresh context shares nothing with the admin's. Links carry KINEFOLD_PUBLIC_URL; this server listens on
-      // a port of its own, so the link's path is opened there.
-      const inviteeContext = await browser.newContext({ viewport: { width: 1280, height: 800 } });
-      const invitee = await inviteeContext.newPage();
-      await invitee.goto(`${server.baseUrl}${new URL(link).pathname}`);
-      await invitee.waitForSelector('[data-test="invitation-form"]');
-      expect(await invitee.textContent('[data-test="invitation-form"]')).toContain(INVITEE);
-      await invitee.fill('#invitation-name', 'Marit Solberg');
-      await invitee.fill('#invitation-password', 'ridge');
-      expect(await invitee.textContent('[data-test="password-problem"]')).toMatch(/at least 12 characters/);
-      await invitee.fill('#invitation-password', 'frames-from-the-ridge-09');
-      await screenshot(invitee, 'invitation-form');
-      await invitee.click('[data-test="invitation-form"] button[type="submit"]');
-      await invitee.waitForSelector('[data-test="home-curator"]');
-      expect(new URL(invitee.url()).pathname).toBe('/');
-      expect(await invitee.textContent('[data-test="signed-in-user"]')).toContain('Marit Solberg');
-      await screenshot(invitee, 'invitation-home');
-      await inviteeContext.close();
+    // A fresh context shares nothing with the admin's. Links carry KINEFOLD_PUBLIC_URL; this server listens on
+    // a port of its own, so the link's path is opened there.
+    const inviteeContext = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const invitee = await inviteeContext.newPage();
+    await invitee.goto(`${server.baseUrl}${new URL(link).pathname}`);
+    await invitee.waitForSelector('[data-test="invitation-form"]');
+    expect(await invitee.textContent('[data-test="invitation-form"]')).toContain(INVITEE);
+    await invitee.fill('#invitation-name', 'Marit Solberg');
+    await invitee.fill('#invitation-password', 'ridge');
+    expect(await invitee.textContent('[data-test="password-problem"]')).toMatch(/at least 12 characters/);
+    await invitee.fill('#invitation-password', 'frames-from-the-ridge-09');
+    await screenshot(invitee, 'invitation-form');
+    await invitee.click('[data-test="invitation-form"] button[type="submit"]');
+    await invitee.waitForSelector('[data-test="home-curator"]');
+    expect(new URL(invitee.url()).pathname).toBe('/');
+    expect(await invitee.textContent('[data-test="signed-in-user"]')).toContain('Marit Solberg');
+    await screenshot(invitee, 'invitation-home');
+    await inviteeContext.close();
 
-      const laterContext = await browser.newContext();
-      const later = await laterContext.newPage();
-      await later.goto(`${server.baseUrl}${new URL(link).pathname}`);
-      await later.waitForSelector('[data-test="invitation-unusable"]');
-      expect(await later.textContent('[data-test="invitation-unusable"]')).toMatch(/already been used/);
-      await laterContext.close();
-    });
+    const laterContext = await browser.newContext();
+    const later = await laterContext.newPage();
+    await later.goto(`${server.baseUrl}${new URL(link).pathname}`);
+    await later.waitForSelector('[data-test="invitation-unusable"]');
+    expect(await later.textContent('[data-test="invitation-unusable"]')).toMatch(/already been used/);
+    await laterContext.close();
+  });
 
   it('a person who forgot their password gets a link, chooses a new one and then renames themselves', async () => {
     const operator = DEMO_ACCOUNTS.find((account) => account.role === 'operator')!;

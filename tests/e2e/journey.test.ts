@@ -83,16 +83,20 @@ describe('one clip through all four roles', () => {
     await engineer.click('[data-test="pairset-projects"]');
     await engineer.click(`li[role="option"]:has-text("${PROJECT}")`);
     await engineer.keyboard.press('Escape');
-    await engineer.waitForFunction(() => document.querySelector('[data-test="counts-clips"]')?.textContent
-      ?.trim().startsWith('1 '));
+    await engineer.waitForFunction(() =>
+      document.querySelector('[data-test="counts-clips"]')?.textContent?.trim().startsWith('1 '),
+    );
     await engineer.click('[data-test="pairset-create"]');
     await engineer.waitForSelector('[data-test="pairset-detail"]');
     await engineer.click('[data-test="pairset-build"]');
     await engineer.waitForSelector('[data-test="pairset-progress"]');
     const pairsetId = Number(new URL(engineer.url()).pathname.split('/').at(-1));
     expect(await runtime.drain()).toBe(1);
-    await engineer.waitForFunction(() => document.querySelector('[data-test="pairset-state"]')?.textContent === 'built',
-      undefined, { timeout: 30_000 });
+    await engineer.waitForFunction(
+      () => document.querySelector('[data-test="pairset-state"]')?.textContent === 'built',
+      undefined,
+      { timeout: 30_000 },
+    );
 
     // ... then a script on a training machine: a token made once on the tokens screen, then plain HTTP.
     await engineer.click('[data-test="nav-api-tokens"]');
@@ -101,8 +105,9 @@ describe('one clip through all four roles', () => {
     const token = (await (await engineer.waitForSelector('[data-test="token-value"]')).textContent())!.trim();
     await engineer.context().close();
     const authorised = { headers: { Authorization: `Bearer ${token}` } };
-    const manifest = await (await fetch(`${server.baseUrl}/api/pairsets/${pairsetId}/manifest`, authorised))
-      .json() as PairsetManifest;
+    const manifest = (await (
+      await fetch(`${server.baseUrl}/api/pairsets/${pairsetId}/manifest`, authorised)
+    ).json()) as PairsetManifest;
     expect(manifest.statistics.pairs.total).toBe(14 + 13 + 14);
     const shard = await fetch(`${server.baseUrl}/api/pairsets/${pairsetId}/shards/0`, authorised);
     expect(shard.status).toBe(200);

@@ -34,8 +34,11 @@ beforeAll(async () => {
   const operator = (await User.findByEmail('operator@kinefold.test'))!;
   const settings = { estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, flagThresholds: {} };
   // A long project name: the queue must still fit 1440 px in one line per row.
-  const orchard = await Project.create({ name: 'Terraced orchard, north block, spring rows', deltas: [1, 2],
-    ...settings });
+  const orchard = await Project.create({
+    name: 'Terraced orchard, north block, spring rows',
+    deltas: [1, 2],
+    ...settings,
+  });
   const file = await makeTestClip(media, 'terrace-row-4.mp4', { seconds: 3, size: '320x180', seed: 7 });
   processedId = (await insertClip(server, file, orchard.id, operator.id)).clip.id;
   expect(await runtime.drain()).toBe(1);
@@ -54,8 +57,10 @@ beforeAll(async () => {
   const sharpness = [140, 60, 90, 30, 120];
   const blurry = [];
   for (const [n, medianSharpness] of sharpness.entries()) {
-    blurry.push({ id: (await insertReviewClip({ ...row, originalName: `creek-${n}.mp4`, flags: ['blurry'],
-      medianSharpness })).id, medianSharpness });
+    blurry.push({
+      id: (await insertReviewClip({ ...row, originalName: `creek-${n}.mp4`, flags: ['blurry'], medianSharpness })).id,
+      medianSharpness,
+    });
     // Clips between them that the filter leaves out.
     await insertReviewClip({ ...row, originalName: `creek-sharp-${n}.mp4`, medianSharpness: medianSharpness + 5 });
   }
@@ -97,8 +102,15 @@ describe('the review screen at 1440 × 900', () => {
     await page.waitForSelector('[data-test="motion-scale"]');
     const panels = ['preview', 'flags', 'signals', 'neighbours', 'views', 'frames'];
     for (const panel of panels) await expectInView(`[data-panel="${panel}"]`);
-    for (const part of ['decision-bar', 'review-preview', 'neighbour-views', 'frame-views', 'motion-wheel-legend',
-      'frame-strip', 'signal-chart']) {
+    for (const part of [
+      'decision-bar',
+      'review-preview',
+      'neighbour-views',
+      'frame-views',
+      'motion-wheel-legend',
+      'frame-strip',
+      'signal-chart',
+    ]) {
       await expectInView(`[data-test="${part}"]`);
     }
     // The keys act on what is in view: → selects frame 1 in the strip, M lays the motion over the frame.
@@ -141,19 +153,26 @@ describe('flow through the queue', () => {
 
 describe('the queue at 1440 × 900', () => {
   /** [scroll width, client width] of the page and of the table's scroller. */
-  const widths = () => page.evaluate(() => {
-    const table = document.querySelector('[data-test="queue-table"] .p-datatable-table-container');
-    return [document.documentElement.scrollWidth - document.documentElement.clientWidth,
-      (table?.scrollWidth ?? 0) - (table?.clientWidth ?? 0)];
-  });
+  const widths = () =>
+    page.evaluate(() => {
+      const table = document.querySelector('[data-test="queue-table"] .p-datatable-table-container');
+      return [
+        document.documentElement.scrollWidth - document.documentElement.clientWidth,
+        (table?.scrollWidth ?? 0) - (table?.clientWidth ?? 0),
+      ];
+    });
 
   it('needs no sideways scrolling, with rows of one line at either density', async () => {
-    for (const [layout, tallest] of [['', 56], ['compact', 36]] as const) {
+    for (const [layout, tallest] of [
+      ['', 56],
+      ['compact', 36],
+    ] as const) {
       await page.goto(`${server.baseUrl}/review${layout ? `?layout=${layout}` : ''}`);
       await page.waitForSelector(`[data-test="queue-open-${processedId}"]`);
       expect(await widths()).toEqual([0, 0]);
-      const heights = await page.locator('[data-test="queue-table"] tbody tr').evaluateAll(
-        (rows) => rows.map((row) => row.getBoundingClientRect().height));
+      const heights = await page
+        .locator('[data-test="queue-table"] tbody tr')
+        .evaluateAll((rows) => rows.map((row) => row.getBoundingClientRect().height));
       expect(heights.length).toBe(12);
       expect(Math.max(...heights), layout).toBeLessThanOrEqual(tallest);
       await screenshot(page, `review-queue-${layout || 'rows'}`);
@@ -191,14 +210,17 @@ describe('a duplicate side by side', () => {
     // The copy is the same footage: every one of its 15 frames has a partner within the threshold.
     expect(await page.textContent('[data-test="compare-summary"]')).toContain('15 of 15 frames lie within 5');
     for (const side of ['compare-this', 'compare-other']) {
-      const loaded = await page.locator(`[data-test="${side}"] img`).evaluate(
-        (image: HTMLImageElement) => image.complete && image.naturalWidth > 0);
+      const loaded = await page
+        .locator(`[data-test="${side}"] img`)
+        .evaluate((image: HTMLImageElement) => image.complete && image.naturalWidth > 0);
       expect(loaded, side).toBe(true);
     }
-    expect(await page.getAttribute('[data-test="compare-other"] img', 'src'))
-      .toBe(`/api/clips/${processedId}/frames/0`);
+    expect(await page.getAttribute('[data-test="compare-other"] img', 'src')).toBe(
+      `/api/clips/${processedId}/frames/0`,
+    );
     await page.keyboard.press('ArrowRight');
-    await expect.poll(() => page.getAttribute('[data-test="compare-other"] img', 'src'))
+    await expect
+      .poll(() => page.getAttribute('[data-test="compare-other"] img', 'src'))
       .toBe(`/api/clips/${processedId}/frames/1`);
     expect(await page.textContent('[data-test="compare-distance"]')).toContain('near-identical');
     await screenshot(page, 'review-duplicate-compare');
@@ -207,7 +229,9 @@ describe('a duplicate side by side', () => {
     const rejected = (await Clip.findByPk(copyId))!;
     expect(rejected.state).toBe('rejected');
     const verdict = await Verdict.findOne({ where: { clipId: copyId, supersededAt: null } });
-    expect([verdict!.reason, verdict!.comment])
-      .toEqual(['duplicate', `Duplicate of clip ${processedId} (terrace-row-4.mp4).`]);
+    expect([verdict!.reason, verdict!.comment]).toEqual([
+      'duplicate',
+      `Duplicate of clip ${processedId} (terrace-row-4.mp4).`,
+    ]);
   });
 });

@@ -49,8 +49,13 @@ beforeAll(async () => {
   await addUser(server, 'curator', 'second-curator@example.test');
   await User.update({ name: 'Oda Lindqvist' }, { where: { email: 'second-curator@example.test' } });
   const project = await Project.create({
-    name: 'Orchard rows', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320,
-    deltas: [1, 2], flagThresholds: {},
+    name: 'Orchard rows',
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: 320,
+    deltas: [1, 2],
+    flagThresholds: {},
   });
   const file = await makeTestClip(media, 'orchard-row-1.mp4', { seconds: 3, size: '320x180', seed: 4 });
   clips.processed = (await insertClip(server, file, project.id, operator.id)).clip.id;
@@ -69,8 +74,9 @@ beforeAll(async () => {
   clips.second = (await insertReviewClip({ ...row, originalName: 'orchard-row-2.mp4' })).id;
   clips.third = (await insertReviewClip({ ...row, originalName: 'orchard-row-3.mp4' })).id;
   for (const n of [1, 2, 3]) {
-    clips[`dark${n}`] = (await insertReviewClip({ ...row, originalName: `cellar-${n}.mp4`, flags: ['dark'],
-      meanLuma: 12 })).id;
+    clips[`dark${n}`] = (
+      await insertReviewClip({ ...row, originalName: `cellar-${n}.mp4`, flags: ['dark'], meanLuma: 12 })
+    ).id;
   }
   curatorContext = await browser.newContext({ viewport: { width: 1440, height: 1000 } });
   secondContext = await browser.newContext({ viewport: { width: 1280, height: 900 } });
@@ -140,7 +146,8 @@ describe('the review queue and screen', () => {
     await page.waitForURL(/\/review\?lacksFlag=dark$/);
 
     const states = await Clip.findAll({
-      where: { id: [clips.processed!, clips.second!, clips.third!] }, order: [['id', 'ASC']],
+      where: { id: [clips.processed!, clips.second!, clips.third!] },
+      order: [['id', 'ASC']],
     });
     expect(states.map((clip) => clip.state)).toEqual(['accepted', 'rejected', 'awaiting_review']);
     const rejection = await Verdict.findOne({ where: { clipId: clips.second } });
@@ -167,18 +174,23 @@ describe('the review queue and screen', () => {
     await page.click('[data-test="bulk-confirm"]');
     await page.waitForSelector('[data-test="bulk-summary"]');
     expect(await page.textContent('[data-test="bulk-summary"]')).toContain('Rejected 2; skipped 1');
-    expect(await page.textContent('[data-test="bulk-skipped"]'))
-      .toContain(`clip ${clips.dark3}: claimed by Oda Lindqvist`);
+    expect(await page.textContent('[data-test="bulk-skipped"]')).toContain(
+      `clip ${clips.dark3}: claimed by Oda Lindqvist`,
+    );
     await screenshot(page, 'review-bulk-result');
     await page.click('[data-test="bulk-close"]');
     await page.waitForSelector('[data-test="bulk-dialog"]', { state: 'detached' });
 
     const dark = await Clip.findAll({
-      where: { id: [clips.dark1!, clips.dark2!, clips.dark3!] }, order: [['id', 'ASC']],
+      where: { id: [clips.dark1!, clips.dark2!, clips.dark3!] },
+      order: [['id', 'ASC']],
     });
     expect(dark.map((clip) => clip.state)).toEqual(['rejected', 'rejected', 'awaiting_review']);
     const verdicts = await Verdict.findAll({ where: { clipId: [clips.dark1!, clips.dark2!] } });
-    expect(verdicts.map((verdict) => [verdict.reason, verdict.bulk])).toEqual([['too-dark', true], ['too-dark', true]]);
+    expect(verdicts.map((verdict) => [verdict.reason, verdict.bulk])).toEqual([
+      ['too-dark', true],
+      ['too-dark', true],
+    ]);
     // The queue under the same filter now holds only the clip that was skipped.
     await page.waitForFunction(() => document.querySelectorAll('[data-test="queue-table"] tbody tr').length === 1);
     await screenshot(page, 'review-queue');

@@ -21,9 +21,22 @@ const EXPECTED_NAV: Record<string, string[]> = {
   operator: ['nav-home', 'nav-upload', 'nav-clips', 'nav-projects', 'nav-profile'],
   curator: ['nav-home', 'nav-clips', 'nav-review-queue', 'nav-projects', 'nav-profile'],
   engineer: ['nav-home', 'nav-clips', 'nav-projects', 'nav-pairsets', 'nav-api-tokens', 'nav-profile'],
-  admin: ['nav-home', 'nav-upload', 'nav-clips', 'nav-review-queue', 'nav-projects', 'nav-pairsets', 'nav-api-tokens',
-    'nav-people', 'nav-admin-usage', 'nav-admin-jobs', 'nav-admin-audit', 'nav-admin-settings', 'nav-mail-log',
-    'nav-profile'],
+  admin: [
+    'nav-home',
+    'nav-upload',
+    'nav-clips',
+    'nav-review-queue',
+    'nav-projects',
+    'nav-pairsets',
+    'nav-api-tokens',
+    'nav-people',
+    'nav-admin-usage',
+    'nav-admin-jobs',
+    'nav-admin-audit',
+    'nav-admin-settings',
+    'nav-mail-log',
+    'nav-profile',
+  ],
 };
 
 describe('signing in as each demo account', () => {
@@ -44,7 +57,9 @@ describe('signing in as each demo account', () => {
       await signInThroughForm(page, server.baseUrl, account.email, account.password);
       await page.waitForSelector(`[data-test="home-${account.role}"]`);
       expect(await page.textContent('[data-test="signed-in-user"]')).toContain(account.name);
-      const navTests = await page.$$eval('nav [data-test^="nav-"]', (links) => links.map((l) => l.getAttribute('data-test')));
+      const navTests = await page.$$eval('nav [data-test^="nav-"]', (links) =>
+        links.map((l) => l.getAttribute('data-test')),
+      );
       expect(navTests).toEqual(EXPECTED_NAV[account.role]);
       await screenshot(page, `home-${account.role}`);
       await context.close();
@@ -64,7 +79,7 @@ describe('signing in as each demo account', () => {
     await context.close();
   });
 
-  it('shows a wrong password as the server\'s message', async () => {
+  it("shows a wrong password as the server's message", async () => {
     const page = await browser.newPage();
     await signInThroughForm(page, server.baseUrl, 'admin@kinefold.test', 'not-the-right-one');
     await page.waitForSelector('[data-test="sign-in-error"]');

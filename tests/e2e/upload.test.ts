@@ -18,8 +18,13 @@ beforeAll(async () => {
   server = await startRunningServer();
   browser = await launchBrowser();
   await Project.create({
-    name: 'Glasshouse bench trials', estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320,
-    deltas: [1, 2], flagThresholds: {},
+    name: 'Glasshouse bench trials',
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: 320,
+    deltas: [1, 2],
+    flagThresholds: {},
   });
   files.push(await makeTestClip(media, 'bench-row-a.mp4', { seed: 4, seconds: 3 }));
   files.push(await makeTestClip(media, 'bench-row-b.mp4', { seed: 5, seconds: 3 }));

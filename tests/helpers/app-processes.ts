@@ -32,7 +32,12 @@ const HEALTH_PAUSE_MS = 200;
 
 /** A later Set-Cookie replaces an earlier one of the same name (the CSRF cookie changes after sign-in). */
 function cookieOf(response: Response, old = ''): string {
-  const jar = new Map(old.split('; ').filter(Boolean).map((pair) => [pair.split('=')[0]!, pair]));
+  const jar = new Map(
+    old
+      .split('; ')
+      .filter(Boolean)
+      .map((pair) => [pair.split('=')[0]!, pair]),
+  );
   for (const cookie of response.headers.getSetCookie()) jar.set(cookie.split('=')[0]!, cookie.split(';')[0]!);
   return [...jar.values()].join('; ');
 }
@@ -62,7 +67,10 @@ export async function startRunningApp(storageDir: string, options: AppOptions = 
   const port = 3400 + Math.floor(Math.random() * 500);
   const baseUrl = `http://127.0.0.1:${port}`;
   const env = {
-    ...process.env, PORT: String(port), KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DEMO: options.demo ?? 'accounts',
+    ...process.env,
+    PORT: String(port),
+    KINEFOLD_STORAGE_DIR: storageDir,
+    KINEFOLD_DEMO: options.demo ?? 'accounts',
   };
   await promisify(execFile)(process.execPath, ['--import', 'tsx', 'server/cli/prepare.ts'], { env });
   const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env, stdio: 'pipe' });
@@ -75,22 +83,30 @@ export async function startRunningApp(storageDir: string, options: AppOptions = 
     ? spawn(process.execPath, ['--import', 'tsx', 'worker/index.ts'], { env, stdio: ['ignore', 'ignore', 'inherit'] })
     : null;
   for (let i = 0; i < HEALTH_TRIES; i += 1) {
-    if (await fetch(`${baseUrl}/api/health`).then((r) => r.ok, () => false)) break;
+    if (
+      await fetch(`${baseUrl}/api/health`).then(
+        (r) => r.ok,
+        () => false,
+      )
+    )
+      break;
     await new Promise((done) => setTimeout(done, HEALTH_PAUSE_MS));
   }
 
-  const api = (session: Session, method: string, url: string, body?: unknown) => fetch(`${baseUrl}${url}`, {
-    method,
-    body: body === undefined ? undefined : JSON.stringify(body),
-    headers: { cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-type': 'application/json' },
-  });
+  const api = (session: Session, method: string, url: string, body?: unknown) =>
+    fetch(`${baseUrl}${url}`, {
+      method,
+      body: body === undefined ? undefined : JSON.stringify(body),
+      headers: { cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-type': 'application/json' },
+    });
 
   async function signIn(role: Role): Promise<Session> {
     const account = DEMO_ACCOUNTS.find((candidate) => candidate.role === role)!;
     const first = await fetch(`${baseUrl}/api/auth/csrf`);
     let cookie = cookieOf(first);
     const signedIn = await fetch(`${baseUrl}/api/auth/sign-in`, {
-      method: 'POST', body: JSON.stringify({ email: account.email, password: account.password }),
+      method: 'POST',
+      body: JSON.stringify({ email: account.email, password: account.password }),
       headers: { cookie, 'content-type': 'application/json', 'x-csrf-token': await tokenOf(first) },
     });
     if (!signedIn.ok) throw new Error(`signing in as the demo ${role} was answered ${signedIn.status}`);
@@ -101,23 +117,33 @@ export async function startRunningApp(storageDir: string, options: AppOptions = 
 
   function upload(session: Session, file: string, projectId: number) {
     const boundary = '----kinefoldbench';
-    const head = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="projectId"\r\n\r\n${projectId}\r\n`
-      + `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${path.basename(file)}"\r\n\r\n`);
+    const head = Buffer.from(
+      `--${boundary}\r\nContent-Disposition: form-data; name="projectId"\r\n\r\n${projectId}\r\n` +
+        `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${path.basename(file)}"\r\n\r\n`,
+    );
     const tail = Buffer.from(`\r\n--${boundary}--\r\n`);
     const length = head.length + fs.statSync(file).size + tail.length;
     return new Promise<{ status: number; body: string }>((resolve, reject) => {
-      const request = http.request(`${baseUrl}/api/clips`, {
-        method: 'POST',
-        headers: {
-          cookie: session.cookie, 'x-csrf-token': session.csrf, 'content-length': length,
-          'content-type': `multipart/form-data; boundary=${boundary}`,
+      const request = http.request(
+        `${baseUrl}/api/clips`,
+        {
+          method: 'POST',
+          headers: {
+            cookie: session.cookie,
+            'x-csrf-token': session.csrf,
+            'content-length': length,
+            'content-type': `multipart/form-data; boundary=${boundary}`,
+          },
         },
-      }, (response) => {
-        let body = '';
-        response.setEncoding('utf8');
-        response.on('data', (chunk: string) => { body += chunk; });
-        response.on('end', () => resolve({ status: response.statusCode ?? 0, body }));
-      });
+        (response) => {
+          let body = '';
+          response.setEncoding('utf8');
+          response.on('data', (chunk: string) => {
+            body += chunk;
+          });
+          response.on('end', () => resolve({ status: response.statusCode ?? 0, body }));
+        },
+      );
       request.on('error', reject);
       request.write(head);
       const stream = fs.createReadStream(file);
@@ -127,7 +153,11 @@ export async function startRunningApp(storageDir: string, options: AppOptions = 
   }
 
   return {
-    baseUrl, server, signIn, api, upload,
+    baseUrl,
+    server,
+    signIn,
+    api,
+    upload,
     async stop() {
       await Promise.all([stopped(server), worker ? stopped(worker) : Promise.resolve()]);
     },

@@ -12,8 +12,15 @@ export function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: '/usr/bin/chromium',
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update',
-      '--disable-sync', '--no-first-run', '--disable-quic'],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--no-first-run',
+      '--disable-quic',
+    ],
   });
 }
 
@@ -31,7 +38,10 @@ export async function signInThroughForm(page: Page, baseUrl: string, email: stri
 
 /** A new browser context signed in as the demo account of `role`, on its home page. */
 export async function signedInAsDemo(
-  browser: Browser, baseUrl: string, role: Role, viewport = { width: 1440, height: 1000 },
+  browser: Browser,
+  baseUrl: string,
+  role: Role,
+  viewport = { width: 1440, height: 1000 },
 ): Promise<Page> {
   const account = DEMO_ACCOUNTS.find((candidate) => candidate.role === role)!;
   const page = await (await browser.newContext({ viewport })).newPage();

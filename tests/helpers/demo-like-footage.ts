@@ -43,19 +43,28 @@ export async function demoLikeClip(dir: string, recipe: DemoClipRecipe): Promise
   const frames: Uint8Array[] = [];
   for (let index = 0; index < count; index += 1) {
     const t = index / PROJECT_DEFAULTS.sampleFps;
-    const window = sharp(texture).extract({
-      left: Math.floor(x(t)), top: Math.floor(y(t)), width: SOURCE.width, height: SOURCE.height,
-    }).removeAlpha();
+    const window = sharp(texture)
+      .extract({
+        left: Math.floor(x(t)),
+        top: Math.floor(y(t)),
+        width: SOURCE.width,
+        height: SOURCE.height,
+      })
+      .removeAlpha();
     const composite = crate(recipe, t);
     const source = composite ? sharp(await window.png().toBuffer()).composite([composite]) : window;
-    const { data } = await sharp(await source.png().toBuffer()).resize(width, height, { kernel: 'cubic' }).removeAlpha()
-      .raw().toBuffer({ resolveWithObject: true });
+    const { data } = await sharp(await source.png().toBuffer())
+      .resize(width, height, { kernel: 'cubic' })
+      .removeAlpha()
+      .raw()
+      .toBuffer({ resolveWithObject: true });
     frames.push(new Uint8Array(data));
   }
   const estimator = ESTIMATOR_REGISTRY[PROJECT_DEFAULTS.estimator] as EstimatorEntry<EstimatorParams[EstimatorName]>;
   const grey = frames.map((rgb) => rgbToGrey(rgb, new Float32Array(width * height)));
-  const fields = grey.slice(1).map((next, k) => estimator.estimate(grey[k]!, next, width, height,
-    estimator.defaults).slice());
+  const fields = grey
+    .slice(1)
+    .map((next, k) => estimator.estimate(grey[k]!, next, width, height, estimator.defaults).slice());
   return { recipe, width, height, frames, fields };
 }
 
@@ -77,8 +86,15 @@ function crate(recipe: DemoClipRecipe, t: number): OverlayOptions | null {
   const hex = String(colour);
   const rgb = [0, 2, 4].map((i) => parseInt(hex.slice(i, i + 2), 16));
   return {
-    input: { create: { width: Math.round(visible), height: h!, channels: 3,
-      background: { r: rgb[0]!, g: rgb[1]!, b: rgb[2]! } } },
-    left: Math.round(clipped), top: top!,
+    input: {
+      create: {
+        width: Math.round(visible),
+        height: h!,
+        channels: 3,
+        background: { r: rgb[0]!, g: rgb[1]!, b: rgb[2]! },
+      },
+    },
+    left: Math.round(clipped),
+    top: top!,
   };
 }

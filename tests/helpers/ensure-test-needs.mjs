@@ -19,7 +19,9 @@ function run(command) {
 
 if (!fs.existsSync(CHROMIUM)) {
   if (!isRoot) {
-    console.error(`Browser tests need Debian's Chromium at ${CHROMIUM}. Install it with:\n  sudo sh -c '${INSTALL_CHROMIUM}'`);
+    console.error(
+      `Browser tests need Debian's Chromium at ${CHROMIUM}. Install it with:\n  sudo sh -c '${INSTALL_CHROMIUM}'`,
+    );
     process.exit(1);
   }
   console.log(`Installing Debian's Chromium for the browser tests (${INSTALL_CHROMIUM}) ...`);
@@ -33,7 +35,9 @@ if (!fs.existsSync(GROVE3)) {
     if (isRoot) run('apt-get update >/dev/null');
     run(FETCH_GROVE3);
   } catch {
-    console.error(`Could not fetch Grove3; the motion accuracy suite needs it. Run: ${isRoot ? '' : 'sudo '}apt-get update && ${FETCH_GROVE3}`);
+    console.error(
+      `Could not fetch Grove3; the motion accuracy suite needs it. Run: ${isRoot ? '' : 'sudo '}apt-get update && ${FETCH_GROVE3}`,
+    );
     process.exit(1);
   }
 }

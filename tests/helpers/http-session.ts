@@ -2,7 +2,12 @@ import { TEST_PASSWORD } from './test-server';
 
 /** Cookie jar of one: merges Set-Cookie answers into a Cookie header. */
 function mergeCookies(current: string, response: Response): string {
-  const jar = new Map(current.split('; ').filter(Boolean).map((pair) => pair.split('=') as [string, string]));
+  const jar = new Map(
+    current
+      .split('; ')
+      .filter(Boolean)
+      .map((pair) => pair.split('=') as [string, string]),
+  );
   for (const cookie of response.headers.getSetCookie()) {
     const [pair] = cookie.split(';');
     const [name, ...value] = pair!.split('=');
@@ -18,7 +23,11 @@ export async function signInOverHttp(baseUrl: string, email: string): Promise<{ 
   cookie = mergeCookies(cookie, first);
   const signIn = await fetch(`${baseUrl}/api/auth/sign-in`, {
     method: 'POST',
-    headers: { cookie, 'content-type': 'application/json', 'x-csrf-token': ((await first.json()) as { token: string }).token },
+    headers: {
+      cookie,
+      'content-type': 'application/json',
+      'x-csrf-token': ((await first.json()) as { token: string }).token,
+    },
     body: JSON.stringify({ email, password: TEST_PASSWORD }),
   });
   if (!signIn.ok) throw new Error(`sign-in failed: ${signIn.status}`);

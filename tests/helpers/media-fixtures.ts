@@ -17,12 +17,28 @@ export async function ffmpegMake(output: string, args: string[]): Promise<string
 export function makeTestClip(
   dir: string,
   name: string,
-  { seconds = 2, size = '160x120', rate = 25, seed = 0 }: { seconds?: number; size?: string; rate?: number; seed?: number } = {},
+  {
+    seconds = 2,
+    size = '160x120',
+    rate = 25,
+    seed = 0,
+  }: { seconds?: number; size?: string; rate?: number; seed?: number } = {},
 ): Promise<string> {
   return ffmpegMake(path.join(dir, name), [
-    '-f', 'lavfi', '-i', `testsrc2=size=${size}:rate=${rate}:duration=${seconds}`,
-    '-vf', `hue=h=${seed * 37}`, '-c:v', 'libx264', '-preset', 'ultrafast', '-pix_fmt', 'yuv420p',
-    '-movflags', '+faststart',
+    '-f',
+    'lavfi',
+    '-i',
+    `testsrc2=size=${size}:rate=${rate}:duration=${seconds}`,
+    '-vf',
+    `hue=h=${seed * 37}`,
+    '-c:v',
+    'libx264',
+    '-preset',
+    'ultrafast',
+    '-pix_fmt',
+    'yuv420p',
+    '-movflags',
+    '+faststart',
   ]);
 }
 
@@ -37,14 +53,28 @@ export function makeStillImage(dir: string, name = 'still.png'): Promise<string>
 /** A 1×1 px video (lavfi's colour source refuses that size, so the test pattern is scaled down to it). */
 export function makeOnePixelClip(dir: string, name = 'one-pixel.mkv'): Promise<string> {
   return ffmpegMake(path.join(dir, name), [
-    '-f', 'lavfi', '-i', 'testsrc2=size=32x32:rate=10:duration=1', '-vf', 'scale=1:1', '-c:v', 'ffv1',
+    '-f',
+    'lavfi',
+    '-i',
+    'testsrc2=size=32x32:rate=10:duration=1',
+    '-vf',
+    'scale=1:1',
+    '-c:v',
+    'ffv1',
   ]);
 }
 
 /** The first half of a real MP4 whose index sits at the end, as a copy cut off in transfer would be. */
 export async function makeTruncatedClip(dir: string, name = 'cut-short.mp4'): Promise<string> {
   const whole = await ffmpegMake(path.join(dir, `whole-${name}`), [
-    '-f', 'lavfi', '-i', 'testsrc2=size=160x120:rate=25:duration=2', '-c:v', 'libx264', '-preset', 'ultrafast',
+    '-f',
+    'lavfi',
+    '-i',
+    'testsrc2=size=160x120:rate=25:duration=2',
+    '-c:v',
+    'libx264',
+    '-preset',
+    'ultrafast',
   ]);
   const bytes = fs.readFileSync(whole);
   const target = path.join(dir, name);

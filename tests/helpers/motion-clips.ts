@@ -29,7 +29,9 @@ export async function makeTexture(file: string, width: number, height: number, s
       rgb[o + 2] = Math.round(grey * 0.8 + 20);
     }
   }
-  await sharp(rgb, { raw: { width, height, channels: 3 } }).png().toFile(file);
+  await sharp(rgb, { raw: { width, height, channels: 3 } })
+    .png()
+    .toFile(file);
   return file;
 }
 
@@ -40,9 +42,30 @@ export function cropFilter(x: string, y: string): string {
 
 /** An H.264 clip of `seconds` of the still texture through the crop filter. */
 export async function makeWindowClip(file: string, textureFile: string, seconds: number, crop: string) {
-  await run(ffmpegInstaller.path, ['-v', 'error', '-y', '-loop', '1', '-framerate', String(SOURCE_FPS),
-    '-t', String(seconds), '-i', textureFile, '-vf', `${crop},format=yuv420p`, '-c:v', 'libx264', '-crf', '18',
-    '-preset', 'veryfast', '-movflags', '+faststart', file]);
+  await run(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    '-loop',
+    '1',
+    '-framerate',
+    String(SOURCE_FPS),
+    '-t',
+    String(seconds),
+    '-i',
+    textureFile,
+    '-vf',
+    `${crop},format=yuv420p`,
+    '-c:v',
+    'libx264',
+    '-crf',
+    '18',
+    '-preset',
+    'veryfast',
+    '-movflags',
+    '+faststart',
+    file,
+  ]);
   return file;
 }
 
@@ -54,11 +77,33 @@ export async function makeCutClip(file: string, textureFile: string, secondsEach
   const still = ['-loop', '1', '-framerate', String(SOURCE_FPS), '-t', String(secondsEach), '-i', textureFile];
   const size = `${CROP.width}x${CROP.height}`;
   const pattern = `testsrc2=size=${size}:rate=${SOURCE_FPS}:duration=${secondsEach}`;
-  const graph = `[0:v]${crop},setsar=1,format=yuv420p[a];[1:v]setsar=1,format=yuv420p[b];`
-    + `[2:v]${crop},setsar=1,format=yuv420p[c];[a][b][c]concat=n=3:v=1[v]`;
-  await run(ffmpegInstaller.path, ['-v', 'error', '-y', ...still, '-f', 'lavfi', '-i', pattern, ...still,
-    '-filter_complex', graph, '-map', '[v]', '-c:v', 'libx264', '-crf', '18', '-preset', 'veryfast',
-    '-movflags', '+faststart', file]);
+  const graph =
+    `[0:v]${crop},setsar=1,format=yuv420p[a];[1:v]setsar=1,format=yuv420p[b];` +
+    `[2:v]${crop},setsar=1,format=yuv420p[c];[a][b][c]concat=n=3:v=1[v]`;
+  await run(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    ...still,
+    '-f',
+    'lavfi',
+    '-i',
+    pattern,
+    ...still,
+    '-filter_complex',
+    graph,
+    '-map',
+    '[v]',
+    '-c:v',
+    'libx264',
+    '-crf',
+    '18',
+    '-preset',
+    'veryfast',
+    '-movflags',
+    '+faststart',
+    file,
+  ]);
   return file;
 }
 

@@ -16,9 +16,7 @@ export interface MotionPair {
 }
 
 export type Warp =
-  | { kind: 'shift'; dx: number; dy: number }
-  | { kind: 'rotate'; degrees: number }
-  | { kind: 'zoom'; factor: number };
+  { kind: 'shift'; dx: number; dy: number } | { kind: 'rotate'; degrees: number } | { kind: 'zoom'; factor: number };
 
 // Octave cell sizes in pixels, coarse to fine, and the amplitude ratio between octaves.
 const OCTAVE_CELLS = [48, 24, 12, 6, 3.5];

@@ -10,14 +10,21 @@ let serial = 0;
 export function pairsetDefinition(fields: Partial<PairsetDefinition> & Pick<PairsetDefinition, 'projectIds'>) {
   serial += 1;
   return pairsetDefinitionSchema.parse({
-    name: `pairs ${serial}`, views: ['frame', 'neighbour'], deltas: [1], graph: 'core', split: { val: 0.3, seed: 1 },
+    name: `pairs ${serial}`,
+    views: ['frame', 'neighbour'],
+    deltas: [1],
+    graph: 'core',
+    split: { val: 0.3, seed: 1 },
     ...fields,
   });
 }
 
 /** Defines, builds with the real job runtime, and returns the pairset as the API shows it. */
-export async function buildPairsetNow(runtime: TestRuntime, owner: User,
-  fields: Partial<PairsetDefinition> & Pick<PairsetDefinition, 'projectIds'>): Promise<PairsetDetail> {
+export async function buildPairsetNow(
+  runtime: TestRuntime,
+  owner: User,
+  fields: Partial<PairsetDefinition> & Pick<PairsetDefinition, 'projectIds'>,
+): Promise<PairsetDetail> {
   const created = await createPairset(pairsetDefinition(fields), owner.id);
   await startBuild(created.id, owner);
   await runtime.drain();

@@ -37,15 +37,39 @@ export interface PairsetClipOptions {
  */
 export async function addPairsetClip(server: TestServer, options: PairsetClipOptions): Promise<Clip> {
   const {
-    frames, width = 64, height = 48, shift = 1, seed = 0, cutsBefore = [], sampleFps = 5, motion = true,
+    frames,
+    width = 64,
+    height = 48,
+    shift = 1,
+    seed = 0,
+    cutsBefore = [],
+    sampleFps = 5,
+    motion = true,
   } = options;
   const name = `pattern-${seed}-${Date.now()}-${Math.random().toString(36).slice(2, 8)}.mp4`;
   const clip = await Clip.create({
-    projectId: options.projectId, uploaderId: options.uploaderId, originalName: name, sizeBytes: 1000,
-    storedBytes: 1000, sha256: createHash('sha256').update(name).digest('hex'), sourceExt: 'mp4',
-    state: options.state ?? 'accepted', container: 'mov,mp4', codec: 'h264', durationS: frames / sampleFps,
-    fps: 25, width, height, rotation: 0, site: options.site ?? '', rig: '', capturedAt: options.capturedAt ?? null,
-    tags: options.tags ?? [], notes: '', frameCount: frames, cutCount: cutsBefore.length,
+    projectId: options.projectId,
+    uploaderId: options.uploaderId,
+    originalName: name,
+    sizeBytes: 1000,
+    storedBytes: 1000,
+    sha256: createHash('sha256').update(name).digest('hex'),
+    sourceExt: 'mp4',
+    state: options.state ?? 'accepted',
+    container: 'mov,mp4',
+    codec: 'h264',
+    durationS: frames / sampleFps,
+    fps: 25,
+    width,
+    height,
+    rotation: 0,
+    site: options.site ?? '',
+    rig: '',
+    capturedAt: options.capturedAt ?? null,
+    tags: options.tags ?? [],
+    notes: '',
+    frameCount: frames,
+    cutCount: cutsBefore.length,
   });
   const layout = storagePaths(server.storageDir).clipDerived(clip.id);
   for (const dir of [layout.framesDir, layout.viewDir('luma'), layout.viewDir('chroma'), layout.motionDir]) {
@@ -53,22 +77,40 @@ export async function addPairsetClip(server: TestServer, options: PairsetClipOpt
   }
   for (let index = 0; index < frames; index += 1) {
     await sharp(patternFrame(width, height, index * shift, seed), { raw: { width, height, channels: 3 } })
-      .png().toFile(layout.frame(index));
+      .png()
+      .toFile(layout.frame(index));
     await writeFrameViews({
-      kind: 'views', frameFile: layout.frame(index), lumaFile: layout.view('luma', index),
+      kind: 'views',
+      frameFile: layout.frame(index),
+      lumaFile: layout.view('luma', index),
       chromaFile: layout.view('chroma', index),
     });
     await Frame.create({
-      clipId: clip.id, index, timeS: index / sampleFps, meanLuma: 120 + seed, contrast: 0.2,
-      sharpness: 100 + 10 * index + seed, clippedShare: 0, cutBefore: cutsBefore.includes(index),
+      clipId: clip.id,
+      index,
+      timeS: index / sampleFps,
+      meanLuma: 120 + seed,
+      contrast: 0.2,
+      sharpness: 100 + 10 * index + seed,
+      clippedShare: 0,
+      cutBefore: cutsBefore.includes(index),
     });
     const joined = index + 1 < frames && !cutsBefore.includes(index + 1);
     if (motion && joined) {
       fs.writeFileSync(layout.motionFlo(index), encodeFlo(uniformField(width, height, shift), width, height));
       await MotionField.create({
-        clipId: clip.id, fromIndex: index, toIndex: index + 1, direction: 'forward', estimator: 'farneback',
-        params: {}, meanMagnitude: Math.abs(shift) + index / 100, p95Magnitude: Math.abs(shift),
-        consistentShare: 0.9, medianU: shift, medianV: 0, maxMagnitude: Math.abs(shift),
+        clipId: clip.id,
+        fromIndex: index,
+        toIndex: index + 1,
+        direction: 'forward',
+        estimator: 'farneback',
+        params: {},
+        meanMagnitude: Math.abs(shift) + index / 100,
+        p95Magnitude: Math.abs(shift),
+        consistentShare: 0.9,
+        medianU: shift,
+        medianV: 0,
+        maxMagnitude: Math.abs(shift),
       });
     }
   }

@@ -19,8 +19,22 @@ export const TEST_PATTERN = 'testsrc2=size=320x240:rate=25';
 /** Makes an H.264 MP4 from lavfi sources with the bundled ffmpeg; `args` come between the inputs and the codec. */
 export async function makeClip(file: string, inputs: string[], args: string[] = []): Promise<string> {
   const sources = inputs.flatMap((input) => ['-f', 'lavfi', '-i', input]);
-  await run(ffmpegInstaller.path, ['-v', 'error', '-y', ...sources, ...args, '-c:v', 'libx264', '-preset', 'veryfast',
-    '-pix_fmt', 'yuv420p', '-movflags', '+faststart', file]);
+  await run(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    ...sources,
+    ...args,
+    '-c:v',
+    'libx264',
+    '-preset',
+    'veryfast',
+    '-pix_fmt',
+    'yuv420p',
+    '-movflags',
+    '+faststart',
+    file,
+  ]);
   return file;
 }
 
@@ -31,15 +45,39 @@ export function makePatternClip(file: string, durationS: number, filter?: string
 
 /** Encodes an existing clip again at another quality: other bytes, the same pictures. */
 export async function reencode(source: string, file: string, crf: number): Promise<string> {
-  await run(ffmpegInstaller.path, ['-v', 'error', '-y', '-i', source, '-c:v', 'libx264', '-crf', String(crf),
-    '-pix_fmt', 'yuv420p', '-movflags', '+faststart', file]);
+  await run(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    '-i',
+    source,
+    '-c:v',
+    'libx264',
+    '-crf',
+    String(crf),
+    '-pix_fmt',
+    'yuv420p',
+    '-movflags',
+    '+faststart',
+    file,
+  ]);
   return file;
 }
 
 /** The same stream in a new file whose metadata says to show it turned by `degrees` (as phones record). */
 export async function withRotation(source: string, file: string, degrees: number): Promise<string> {
-  await run(ffmpegInstaller.path, ['-v', 'error', '-y', '-i', source, '-c', 'copy',
-    '-metadata:s:v:0', `rotate=${degrees}`, file]);
+  await run(ffmpegInstaller.path, [
+    '-v',
+    'error',
+    '-y',
+    '-i',
+    source,
+    '-c',
+    'copy',
+    '-metadata:s:v:0',
+    `rotate=${degrees}`,
+    file,
+  ]);
   return file;
 }
 
@@ -63,15 +101,30 @@ export async function insertClip(server: TestServer, file: string, projectId: nu
   const { probe, ext } = await probeUpload(file, path.basename(file));
   const bytes = fs.readFileSync(file);
   const clip = await Clip.create({
-    projectId, uploaderId, originalName: path.basename(file), sizeBytes: bytes.length, storedBytes: bytes.length,
-    sha256: createHash('sha256').update(bytes).digest('hex'), sourceExt: ext, state: 'queued', ...probe,
-    site: '', rig: '', capturedAt: null, tags: [], notes: '',
+    projectId,
+    uploaderId,
+    originalName: path.basename(file),
+    sizeBytes: bytes.length,
+    storedBytes: bytes.length,
+    sha256: createHash('sha256').update(bytes).digest('hex'),
+    sourceExt: ext,
+    state: 'queued',
+    ...probe,
+    site: '',
+    rig: '',
+    capturedAt: null,
+    tags: [],
+    notes: '',
   });
   const paths = storagePaths(server.storageDir);
   fs.mkdirSync(paths.clipDir(clip.id), { recursive: true });
   fs.copyFileSync(file, paths.clipSource(clip.id, ext));
   const job = await Job.create({
-    kind: 'process-clip', clipId: clip.id, payload: { clipId: clip.id }, state: 'queued', runAfter: new Date(),
+    kind: 'process-clip',
+    clipId: clip.id,
+    payload: { clipId: clip.id },
+    state: 'queued',
+    runAfter: new Date(),
   });
   return { clip, job };
 }

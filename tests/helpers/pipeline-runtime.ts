@@ -13,11 +13,18 @@ export interface TestRuntime {
 }
 
 /** The worker's real job runtime and frame pool, in the test process, over a test server's database and storage. */
-export function startTestRuntime(server: TestServer, { handlers, owner = 'test-worker' }:
-  { handlers?: Handlers; owner?: string } = {}): TestRuntime {
+export function startTestRuntime(
+  server: TestServer,
+  { handlers, owner = 'test-worker' }: { handlers?: Handlers; owner?: string } = {},
+): TestRuntime {
   const pool = createFramePool();
   const runtime = createJobRuntime({
-    config: server.config, paths: storagePaths(server.storageDir), pool, owner, handlers, pollMs: 50,
+    config: server.config,
+    paths: storagePaths(server.storageDir),
+    pool,
+    owner,
+    handlers,
+    pollMs: 50,
   });
   return {
     runtime,

@@ -23,7 +23,12 @@ export async function castForReview(server: TestServer, projectName: string): Pr
   await second.update({ name: 'Second curator' });
   await addUser(server, 'admin');
   const project = await Project.create({
-    name: projectName, estimator: 'farneback', estimatorParams: {}, sampleFps: 5, workingSize: 320, deltas: [1],
+    name: projectName,
+    estimator: 'farneback',
+    estimatorParams: {},
+    sampleFps: 5,
+    workingSize: 320,
+    deltas: [1],
     flagThresholds: {},
   });
   return {

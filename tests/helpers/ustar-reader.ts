@@ -53,10 +53,18 @@ export function readUstar(archive: Buffer): UstarArchive {
     const size = octal(header, 124, 12);
     members.push({
       name: prefix ? `${prefix}/${name}` : name,
-      mode: octal(header, 100, 8), uid: octal(header, 108, 8), gid: octal(header, 116, 8), size,
-      mtime: octal(header, 136, 12), typeflag: text(header, 156, 1), magic: text(header, 257, 6),
-      version: archive.subarray(offset + 263, offset + 265).toString('latin1'), uname: text(header, 265, 32),
-      gname: text(header, 297, 32), offset, data: archive.subarray(offset + BLOCK, offset + BLOCK + size),
+      mode: octal(header, 100, 8),
+      uid: octal(header, 108, 8),
+      gid: octal(header, 116, 8),
+      size,
+      mtime: octal(header, 136, 12),
+      typeflag: text(header, 156, 1),
+      magic: text(header, 257, 6),
+      version: archive.subarray(offset + 263, offset + 265).toString('latin1'),
+      uname: text(header, 265, 32),
+      gname: text(header, 297, 32),
+      offset,
+      data: archive.subarray(offset + BLOCK, offset + BLOCK + size),
     });
     offset += BLOCK + Math.ceil(size / BLOCK) * BLOCK;
   }

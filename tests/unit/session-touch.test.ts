@@ -4,7 +4,12 @@ import { throttleTouches, TOUCH_EVERY_MS } from '../../server/middlewares/sessio
 
 function countingStore() {
   const touched: string[] = [];
-  const store = { touch: (sid: string, _session: unknown, done?: () => void) => { touched.push(sid); done?.(); } };
+  const store = {
+    touch: (sid: string, _session: unknown, done?: () => void) => {
+      touched.push(sid);
+      done?.();
+    },
+  };
   return { store: store as unknown as Store, touched };
 }
 

@@ -29,12 +29,15 @@ const pause = (ms: number) => new Promise((done) => setTimeout(done, ms));
 
 describe('writes that contend', () => {
   it('queue inside one process: 40 transactions and 40 lone writes at once all land', async () => {
-    const transactions = Array.from({ length: 40 }, (_, n) => server.transaction(async (transaction) => {
-      await server.query('INSERT INTO marks (who) VALUES (:who)', { replacements: { who: `t${n}` }, transaction });
-      await pause(2);
-    }));
+    const transactions = Array.from({ length: 40 }, (_, n) =>
+      server.transaction(async (transaction) => {
+        await server.query('INSERT INTO marks (who) VALUES (:who)', { replacements: { who: `t${n}` }, transaction });
+        await pause(2);
+      }),
+    );
     const lone = Array.from({ length: 40 }, (_, n) =>
-      server.query('INSERT INTO marks (who) VALUES (:who)', { replacements: { who: `w${n}` } }));
+      server.query('INSERT INTO marks (who) VALUES (:who)', { replacements: { who: `w${n}` } }),
+    );
     await Promise.all([...transactions, ...lone]);
     const [rows] = await server.query("SELECT COUNT(*) AS n FROM marks WHERE who GLOB '[tw]*'");
     expect((rows as { n: number }[])[0]!.n).toBe(80);

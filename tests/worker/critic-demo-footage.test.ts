@@ -54,8 +54,12 @@ beforeAll(async () => {
   const clips = [];
   for (const recipe of demoPairsetRecipes()) clips.push(await demoLikeClip(work, recipe));
   pool = createFramePool(2);
-  const report = await criticReport(inputs(clips), { pool, temperature: 0.07, seed: DEMO_PAIRSET.split.seed,
-    ks: [16, 64, 256] });
+  const report = await criticReport(inputs(clips), {
+    pool,
+    temperature: 0.07,
+    seed: DEMO_PAIRSET.split.seed,
+    ks: [16, 64, 256],
+  });
   kinds = report.kinds;
 }, 300_000);
 

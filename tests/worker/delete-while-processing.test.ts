@@ -56,8 +56,13 @@ describe('deleting a clip while the worker processes it', () => {
       const project = await addProject(adminId, `deleted in ${stage}`, settings);
       const { clip } = await insertClip(server, stage === 'sample' ? longSource : source, project.id, adminId);
       const running = worker.runtime.runOnce();
-      await expect.poll(async () => (await Clip.findByPk(clip.id))?.stage === stage
-        && (stage !== 'sample' || samplingUnderWay(clip.id)), { timeout: 60_000, interval: 10 }).toBe(true);
+      await expect
+        .poll(
+          async () =>
+            (await Clip.findByPk(clip.id))?.stage === stage && (stage !== 'sample' || samplingUnderWay(clip.id)),
+          { timeout: 60_000, interval: 10 },
+        )
+        .toBe(true);
       await admin.agent.delete(`/api/clips/${clip.id}`).set('x-csrf-token', admin.csrf).expect(204);
       await running;
       expect(await Job.count({ where: { clipId: clip.id } })).toBe(0);

@@ -7,7 +7,13 @@ import { DEFAULT_FLAG_THRESHOLDS, type FlagName } from '../../shared/flag-thresh
 import type { ClipFlagDetail } from '../../shared/types/clips';
 import { DEFAULT_CUT_THRESHOLD } from '../../worker/signals/cuts';
 import {
-  addProject, insertClip, makeClip, makePatternClip, reencode, TEST_PATTERN, workFolders,
+  addProject,
+  insertClip,
+  makeClip,
+  makePatternClip,
+  reencode,
+  TEST_PATTERN,
+  workFolders,
 } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { insertReviewClip } from '../helpers/review-clips';
@@ -41,13 +47,26 @@ beforeAll(async () => {
     ['re-encoded', 'field', await reencode(clean, file('re-encoded'), 35)],
     ['dark', 'dark', await makePatternClip(file('dark'), 4, 'lutrgb=r=val*0.12:g=val*0.12:b=val*0.12')],
     // Grey, then 2.5 times brighter with every channel capped at 255: the bright half of the picture blows out.
-    ['overexposed', 'overexposed', await makePatternClip(file('overexposed'), 4,
-      String.raw`hue=s=0,lutrgb=r=min(val*2.5\,255):g=min(val*2.5\,255):b=min(val*2.5\,255)`)],
+    [
+      'overexposed',
+      'overexposed',
+      await makePatternClip(
+        file('overexposed'),
+        4,
+        String.raw`hue=s=0,lutrgb=r=min(val*2.5\,255):g=min(val*2.5\,255):b=min(val*2.5\,255)`,
+      ),
+    ],
     ['blurred', 'blurred', await makePatternClip(file('blurred'), 4, 'boxblur=6:2')],
     ['short', 'short', await makePatternClip(file('short'), 1)],
-    ['scene-switch', 'scene-switch', await makeClip(file('scene-switch'),
-      [`${TEST_PATTERN}:duration=${SWITCH_S}`, 'mandelbrot=size=320x240:rate=25'],
-      ['-filter_complex', '[1:v]trim=duration=2,setpts=PTS-STARTPTS[m];[0:v][m]concat=n=2:v=1[v]', '-map', '[v]'])],
+    [
+      'scene-switch',
+      'scene-switch',
+      await makeClip(
+        file('scene-switch'),
+        [`${TEST_PATTERN}:duration=${SWITCH_S}`, 'mandelbrot=size=320x240:rate=25'],
+        ['-filter_complex', '[1:v]trim=duration=2,setpts=PTS-STARTPTS[m];[0:v][m]concat=n=2:v=1[v]', '-map', '[v]'],
+      ),
+    ],
   ];
   const projects = new Map<string, number>();
   for (const [name, projectName, source] of made) {
@@ -71,11 +90,13 @@ describe('every processed clip', () => {
   it('awaits review with exactly one row per frame, one file per frame, and no work folder', async () => {
     for (const clip of Object.values(clips)) {
       expect(clip.state).toBe('awaiting_review');
-      const indexes = (await Frame.findAll({ where: { clipId: clip.id }, order: [['index', 'ASC']] }))
-        .map((frame) => frame.index);
+      const indexes = (await Frame.findAll({ where: { clipId: clip.id }, order: [['index', 'ASC']] })).map(
+        (frame) => frame.index,
+      );
       expect(indexes).toEqual([...Array(clip.frameCount).keys()]);
-      expect(fs.readdirSync(storagePaths(server.storageDir).clipDerived(clip.id).framesDir))
-        .toHaveLength(clip.frameCount!);
+      expect(fs.readdirSync(storagePaths(server.storageDir).clipDerived(clip.id).framesDir)).toHaveLength(
+        clip.frameCount!,
+      );
       expect(workFolders(server, clip.id)).toEqual([]);
     }
   });
@@ -94,7 +115,8 @@ describe('flags', () => {
     const raised = detail('dark', 'dark');
     expect(raised).toMatchObject({ threshold: DEFAULT_FLAG_THRESHOLDS.darkMeanLuma });
     expect(raised!.value).toBeLessThan(DEFAULT_FLAG_THRESHOLDS.darkMeanLuma);
-    const lumas = (await Frame.findAll({ where: { clipId: clips.dark!.id } })).map((f) => f.meanLuma!)
+    const lumas = (await Frame.findAll({ where: { clipId: clips.dark!.id } }))
+      .map((f) => f.meanLuma!)
       .sort((x, y) => x - y);
     const middle = lumas.length >> 1;
     const median = lumas.length % 2 ? lumas[middle]! : (lumas[middle - 1]! + lumas[middle]!) / 2;
@@ -120,8 +142,10 @@ describe('flags', () => {
   });
 
   it('raises short on the one-second clip', () => {
-    expect(detail('short', 'short')).toMatchObject({ value: clips.short!.durationS,
-      threshold: DEFAULT_FLAG_THRESHOLDS.shortDurationS });
+    expect(detail('short', 'short')).toMatchObject({
+      value: clips.short!.durationS,
+      threshold: DEFAULT_FLAG_THRESHOLDS.shortDurationS,
+    });
   });
 
   // dHash (Krawetz, "Kind of Like That", 2013) with near = within 5 of 64 bits, common practice after his posts.
@@ -131,27 +155,34 @@ describe('flags', () => {
     expect(raised!.value).toBeGreaterThan(DEFAULT_FLAG_THRESHOLDS.duplicateShare);
   });
 
-  it('compares against the other clips a batch of clips at a time, in id order, leaving the clip itself out',
-    async () => {
-      const { projectId, uploaderId } = clips.clean!;
-      for (const name of ['row-copy-a.mp4', 'row-copy-b.mp4']) {
-        const extra = await insertReviewClip({ projectId, uploaderId, originalName: name });
-        await Frame.bulkCreate([0, 1].map((index) => ({
-          clipId: extra.id, index, timeS: index / 5, dhash: `00000000000000${extra.id}${index}`.slice(-16),
-        })));
-      }
-      const others = (await Clip.findAll({ where: { projectId }, order: [['id', 'ASC']] }))
-        .filter((clip) => clip.id !== clips.clean!.id);
-      expect(others).toHaveLength(3);
-      const batches = [];
-      for await (const batch of Frame.hashBatchesOfOtherClips(projectId, clips.clean!.id, 2)) batches.push(batch);
-      expect(batches.map((batch) => batch.map((entry) => entry.clipId)))
-        .toEqual([[others[0]!.id, others[1]!.id], [others[2]!.id]]);
-      for (const entry of batches.flat()) {
-        const stored = await Frame.findAll({ where: { clipId: entry.clipId }, order: [['index', 'ASC']] });
-        expect(entry.hashes).toEqual(stored.map((frame) => frame.dhash));
-      }
-    });
+  it('compares against the other clips a batch of clips at a time, in id order, leaving the clip itself out', async () => {
+    const { projectId, uploaderId } = clips.clean!;
+    for (const name of ['row-copy-a.mp4', 'row-copy-b.mp4']) {
+      const extra = await insertReviewClip({ projectId, uploaderId, originalName: name });
+      await Frame.bulkCreate(
+        [0, 1].map((index) => ({
+          clipId: extra.id,
+          index,
+          timeS: index / 5,
+          dhash: `00000000000000${extra.id}${index}`.slice(-16),
+        })),
+      );
+    }
+    const others = (await Clip.findAll({ where: { projectId }, order: [['id', 'ASC']] })).filter(
+      (clip) => clip.id !== clips.clean!.id,
+    );
+    expect(others).toHaveLength(3);
+    const batches = [];
+    for await (const batch of Frame.hashBatchesOfOtherClips(projectId, clips.clean!.id, 2)) batches.push(batch);
+    expect(batches.map((batch) => batch.map((entry) => entry.clipId))).toEqual([
+      [others[0]!.id, others[1]!.id],
+      [others[2]!.id],
+    ]);
+    for (const entry of batches.flat()) {
+      const stored = await Frame.findAll({ where: { clipId: entry.clipId }, order: [['index', 'ASC']] });
+      expect(entry.hashes).toEqual(stored.map((frame) => frame.dhash));
+    }
+  });
 });
 
 describe('cuts', () => {

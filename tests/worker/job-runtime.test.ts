@@ -6,9 +6,7 @@ import { claimJob, finishJob, renewLease } from '../../server/core/jobs/claim';
 import type { Handlers } from '../../worker/jobs/handler';
 import { HANDLERS } from '../../worker/jobs/handlers';
 import { RETRY_POLICIES } from '../../worker/jobs/retry-policy';
-import {
-  addProject, damageSecondPart, insertClip, makePatternClip, workFolders,
-} from '../helpers/pipeline-clips';
+import { addProject, damageSecondPart, insertClip, makePatternClip, workFolders } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
 
@@ -56,18 +54,33 @@ async function untilTrue(check: () => Promise<boolean>, timeoutMs = 60_000): Pro
 
 describe('claiming', () => {
   it('gives each due job to one claimer only, oldest first', async () => {
-    const jobs = await Promise.all([1, 2, 3].map(() => Job.create({
-      kind: 'process-clip', clipId: null, payload: { clipId: 0 }, state: 'queued', runAfter: new Date(Date.now() - 1000),
-    })));
+    const jobs = await Promise.all(
+      [1, 2, 3].map(() =>
+        Job.create({
+          kind: 'process-clip',
+          clipId: null,
+          payload: { clipId: 0 },
+          state: 'queued',
+          runAfter: new Date(Date.now() - 1000),
+        }),
+      ),
+    );
     const claims = await Promise.all(Array.from({ length: 6 }, (_, i) => claimJob(`claimer-${i}`, 60_000)));
-    const claimed = claims.filter((job) => job !== null).map((job) => job!.id).sort((a, b) => a - b);
+    const claimed = claims
+      .filter((job) => job !== null)
+      .map((job) => job!.id)
+      .sort((a, b) => a - b);
     expect(claimed).toEqual(jobs.map((job) => job.id));
     await Job.destroy({ where: { id: claimed } });
   });
 
   it('takes over a job whose lease ran out and counts the attempt; the old holder can no longer write', async () => {
     const job = await Job.create({
-      kind: 'process-clip', clipId: null, payload: { clipId: 0 }, state: 'queued', runAfter: new Date(Date.now() - 1000),
+      kind: 'process-clip',
+      clipId: null,
+      payload: { clipId: 0 },
+      state: 'queued',
+      runAfter: new Date(Date.now() - 1000),
     });
     expect((await claimJob('first', 1))!.id).toBe(job.id);
     await new Promise((done) => setTimeout(done, 10));
@@ -86,14 +99,22 @@ describe('failures', () => {
     const handlers: Handlers = {
       ...HANDLERS,
       'process-clip': {
-        run: async () => { throw new Error('the disk is full'); },
-        recordFailure: async (_claimed, failure) => { recorded.push(`${failure.final}: ${failure.message}`); },
+        run: async () => {
+          throw new Error('the disk is full');
+        },
+        recordFailure: async (_claimed, failure) => {
+          recorded.push(`${failure.final}: ${failure.message}`);
+        },
       },
     };
     const failing = startTestRuntime(server, { handlers, owner: 'failing-worker' });
     const policy = RETRY_POLICIES['process-clip'];
     const job = await Job.create({
-      kind: 'process-clip', clipId: null, payload: { clipId: 0 }, state: 'queued', runAfter: new Date(Date.now() - 1000),
+      kind: 'process-clip',
+      clipId: null,
+      payload: { clipId: 0 },
+      state: 'queued',
+      runAfter: new Date(Date.now() - 1000),
     });
     try {
       for (let attempt = 1; attempt < policy.maxAttempts; attempt += 1) {
@@ -116,32 +137,35 @@ describe('failures', () => {
     }
   });
 
-  it('fails a damaged clip at once with its stage and a plain message, mails the uploader once, '
-    + 'and goes on to the next job', async () => {
-    const damaged = await newClip(damagedFile);
-    const next = await newClip();
-    const loop = worker.runtime.run();
-    try {
-      await untilTrue(async () => (await next.clip.reload()).state === 'awaiting_review');
-    } finally {
-      await worker.runtime.stop();
-      await loop;
-    }
-    await damaged.clip.reload();
-    await damaged.job.reload();
-    expect(damaged.job).toMatchObject({ state: 'failed', attempts: 1 });
-    expect(damaged.clip).toMatchObject({ state: 'failed', stage: 'sample' });
-    expect(damaged.clip.error).toMatch(/^Only the first [\d.]+ s of 4\.0 s could be decoded .*damaged/);
-    const events = await AuditEvent.findAll({
-      where: { targetId: String(damaged.clip.id), action: 'clip.processing_failed' },
-    });
-    expect(events).toHaveLength(1);
-    expect(events[0]!.detail).toMatchObject({ stage: 'sample', message: damaged.clip.error });
-    const mails = await MailOutbox.findAll({ where: { to: operator.email, template: 'clip-failed' } });
-    expect(mails).toHaveLength(1);
-    expect(mails[0]!.text).toContain(damaged.clip.error!);
-    expect(workFolders(server, damaged.clip.id)).toEqual([]);
-  });
+  it(
+    'fails a damaged clip at once with its stage and a plain message, mails the uploader once, ' +
+      'and goes on to the next job',
+    async () => {
+      const damaged = await newClip(damagedFile);
+      const next = await newClip();
+      const loop = worker.runtime.run();
+      try {
+        await untilTrue(async () => (await next.clip.reload()).state === 'awaiting_review');
+      } finally {
+        await worker.runtime.stop();
+        await loop;
+      }
+      await damaged.clip.reload();
+      await damaged.job.reload();
+      expect(damaged.job).toMatchObject({ state: 'failed', attempts: 1 });
+      expect(damaged.clip).toMatchObject({ state: 'failed', stage: 'sample' });
+      expect(damaged.clip.error).toMatch(/^Only the first [\d.]+ s of 4\.0 s could be decoded .*damaged/);
+      const events = await AuditEvent.findAll({
+        where: { targetId: String(damaged.clip.id), action: 'clip.processing_failed' },
+      });
+      expect(events).toHaveLength(1);
+      expect(events[0]!.detail).toMatchObject({ stage: 'sample', message: damaged.clip.error });
+      const mails = await MailOutbox.findAll({ where: { to: operator.email, template: 'clip-failed' } });
+      expect(mails).toHaveLength(1);
+      expect(mails[0]!.text).toContain(damaged.clip.error!);
+      expect(workFolders(server, damaged.clip.id)).toEqual([]);
+    },
+  );
 
   it('fails a job that was claimed more often than its kind allows (its worker kept dying)', async () => {
     const { clip, job } = await newClip();

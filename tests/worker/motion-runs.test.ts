@@ -14,14 +14,22 @@ describe('neighbour runs', () => {
 
   it('leaves out the pair across each cut (DESIGN §2: no pair may span a cut)', () => {
     // Cuts before frames 3 and 4: pairs 2 → 3 and 3 → 4 go; 4 → 5 stays [C].
-    expect(neighbourRuns(frames(6, [3, 4]))).toEqual([{ first: 0, pairs: 2 }, { first: 4, pairs: 1 }]);
+    expect(neighbourRuns(frames(6, [3, 4]))).toEqual([
+      { first: 0, pairs: 2 },
+      { first: 4, pairs: 1 },
+    ]);
     expect(pairsOf(neighbourRuns(frames(6, [3, 4])))).toEqual([0, 1, 4]);
   });
 
   it('has no pair for a single frame, a cut at every frame, or a gap in the indices', () => {
     expect(neighbourRuns(frames(1))).toEqual([]);
     expect(neighbourRuns(frames(4, [1, 2, 3]))).toEqual([]);
-    expect(neighbourRuns([{ index: 0, cutBefore: false }, { index: 2, cutBefore: false }])).toEqual([]);
+    expect(
+      neighbourRuns([
+        { index: 0, cutBefore: false },
+        { index: 2, cutBefore: false },
+      ]),
+    ).toEqual([]);
   });
 });
 

@@ -3,15 +3,24 @@ import { clipMotionScale, type ScaledField } from '../../shared/motion/motion-sc
 import { consistentP95Magnitude } from '../../worker/motion/fields/consistent-magnitude';
 
 /** A forward field from frame `fromIndex` whose consistent vectors reach `p95` px a step. */
-const field = (fromIndex: number, p95: number, consistentShare = 0.9): ScaledField =>
-  ({ fromIndex, p95Magnitude: p95 + 1, consistentP95Magnitude: p95, consistentShare });
+const field = (fromIndex: number, p95: number, consistentShare = 0.9): ScaledField => ({
+  fromIndex,
+  p95Magnitude: p95 + 1,
+  consistentP95Magnitude: p95,
+  consistentShare,
+});
 
 describe('the motion scale of a clip', () => {
   it('leaves out the pair across a cut known from the frames table, so a 67 px jump cannot wash the clip out', () => {
     // The demo's paused-and-resumed clip: a steady pan of about 5 px a step and one pair, 5 → 6, across the cut.
     const fields = [4.8, 5.1, 5, 4.9, 5.2, 67.3, 5, 5.1].map((p95, t) => field(t, p95));
     expect(clipMotionScale(fields, new Set([6]))).toEqual({
-      pxPerStep: 5.2, fieldCount: 7, acrossCut: 1, inconsistent: 0, outliers: 0, consistentOnly: true,
+      pxPerStep: 5.2,
+      fieldCount: 7,
+      acrossCut: 1,
+      inconsistent: 0,
+      outliers: 0,
+      consistentOnly: true,
     });
   });
 

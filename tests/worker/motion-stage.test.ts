@@ -15,7 +15,13 @@ import { ESTIMATORS } from '../../shared/estimators';
 import { addProject, insertClip, workFolders } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import {
-  CROP, SOURCE_FPS, cropFilter, makeCutClip, makeTexture, makeWindowClip, textureFileIn,
+  CROP,
+  SOURCE_FPS,
+  cropFilter,
+  makeCutClip,
+  makeTexture,
+  makeWindowClip,
+  textureFileIn,
 } from '../helpers/motion-clips';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
 
@@ -58,7 +64,13 @@ async function processNew(file: string, projectName: string, settings = {}) {
 }
 
 async function fieldRows(clipId: number) {
-  return MotionField.findAll({ where: { clipId }, order: [['fromIndex', 'ASC'], ['direction', 'DESC']] });
+  return MotionField.findAll({
+    where: { clipId },
+    order: [
+      ['fromIndex', 'ASC'],
+      ['direction', 'DESC'],
+    ],
+  });
 }
 
 async function greyFrame(file: string): Promise<Float32Array> {
@@ -153,15 +165,17 @@ describe('a pan of known speed', () => {
     const forward = estimateMotion('farneback', a, b, WORKING_SIZE, 180).flow;
     const backward = estimateMotion('farneback', b, a, WORKING_SIZE, 180).flow;
     expect(Buffer.from(encodeFlo(forward, WORKING_SIZE, 180)).equals(fs.readFileSync(layout.motionFlo(6)))).toBe(true);
-    expect(Buffer.from(encodeFlo(backward, WORKING_SIZE, 180)).equals(fs.readFileSync(layout.motionBackwardFlo(6))))
-      .toBe(true);
+    expect(
+      Buffer.from(encodeFlo(backward, WORKING_SIZE, 180)).equals(fs.readFileSync(layout.motionBackwardFlo(6))),
+    ).toBe(true);
   });
 
   it('counts the motion files in the bytes stored and leaves no work folder', async () => {
-    const bytesOnDisk = (dir: string): number => fs.readdirSync(dir, { withFileTypes: true }).reduce((sum, entry) => {
-      const full = path.join(dir, entry.name);
-      return sum + (entry.isDirectory() ? bytesOnDisk(full) : fs.statSync(full).size);
-    }, 0);
+    const bytesOnDisk = (dir: string): number =>
+      fs.readdirSync(dir, { withFileTypes: true }).reduce((sum, entry) => {
+        const full = path.join(dir, entry.name);
+        return sum + (entry.isDirectory() ? bytesOnDisk(full) : fs.statSync(full).size);
+      }, 0);
     expect(Number(clip.storedBytes)).toBe(bytesOnDisk(paths().clipDir(clip.id)));
     expect(bytesOnDisk(paths().clipDerived(clip.id).motionDir)).toBeGreaterThan(0);
     expect(workFolders(server, clip.id)).toEqual([]);
@@ -187,8 +201,12 @@ describe('motion flags', () => {
 
   it('flags a camera that jumps about at random as shaky, not static', async () => {
     // The window jumps to a new random place each frame, up to 24 source px (12 working px) in x and y.
-    const file = await makeWindowClip(path.join(gen, 'shaky.mp4'), texture, SECONDS,
-      cropFilter('200+24*random(1)', '20+24*random(2)'));
+    const file = await makeWindowClip(
+      path.join(gen, 'shaky.mp4'),
+      texture,
+      SECONDS,
+      cropFilter('200+24*random(1)', '20+24*random(2)'),
+    );
     const { clip } = await processNew(file, 'shaky');
     expect(clip.flags).toContain('shaky');
     expect(clip.flags).not.toContain('static');
@@ -230,14 +248,21 @@ describe('the thread pool', () => {
     const frameFiles = [0, 1, 2].map((k) => path.join(frames, `${k}.png`));
     if (!fs.existsSync(frameFiles[2]!)) {
       for (const [k, out] of frameFiles.entries()) {
-        await sharp(texture).extract({ left: 8 * k, top: 30, width: CROP.width, height: CROP.height })
-          .resize(WORKING_SIZE).png().toFile(out);
+        await sharp(texture)
+          .extract({ left: 8 * k, top: 30, width: CROP.width, height: CROP.height })
+          .resize(WORKING_SIZE)
+          .png()
+          .toFile(out);
       }
     }
     const out = (kind: string) => [0, 1].map((k) => path.join(frames, `${name}-${kind}-${k}.flo`));
     const params = resolveParams(name);
     const summaries = await worker.pool.estimateMotionRun({
-      frameFiles, estimator: name, params, forwardFiles: out('forward'), backwardFiles: out('backward'),
+      frameFiles,
+      estimator: name,
+      params,
+      forwardFiles: out('forward'),
+      backwardFiles: out('backward'),
     });
     expect(summaries).toHaveLength(2);
     const greys = await Promise.all(frameFiles.map(greyFrame));
@@ -245,8 +270,9 @@ describe('the thread pool', () => {
       const forward = estimateMotion(name, greys[k]!, greys[k + 1]!, WORKING_SIZE, 180, params).flow;
       const backward = estimateMotion(name, greys[k + 1]!, greys[k]!, WORKING_SIZE, 180, params).flow;
       expect(Buffer.from(encodeFlo(forward, WORKING_SIZE, 180)).equals(fs.readFileSync(out('forward')[k]!))).toBe(true);
-      expect(Buffer.from(encodeFlo(backward, WORKING_SIZE, 180)).equals(fs.readFileSync(out('backward')[k]!)))
-        .toBe(true);
+      expect(Buffer.from(encodeFlo(backward, WORKING_SIZE, 180)).equals(fs.readFileSync(out('backward')[k]!))).toBe(
+        true,
+      );
     }
   });
 });
@@ -262,8 +288,11 @@ describe('redoing the stage', () => {
         const { id: _id, ...values } = row.get({ plain: true });
         return values;
       }),
-      files: Object.fromEntries(fs.readdirSync(layout.motionDir).map((name) => [name,
-        fs.readFileSync(path.join(layout.motionDir, name)).toString('base64')])),
+      files: Object.fromEntries(
+        fs
+          .readdirSync(layout.motionDir)
+          .map((name) => [name, fs.readFileSync(path.join(layout.motionDir, name)).toString('base64')]),
+      ),
     });
     const before = await snapshot();
     await reprocessClip(clip.id, adminId);
@@ -276,8 +305,10 @@ describe('redoing the stage', () => {
 
   it('replaces every field when the project changes its estimator, recording the new one', async () => {
     const { clip, project } = await processNew(await panClip(), 'switch');
-    await Project.update({ estimator: 'horn-schunck', estimatorParams: { iterations: 30 } },
-      { where: { id: project.id } });
+    await Project.update(
+      { estimator: 'horn-schunck', estimatorParams: { iterations: 30 } },
+      { where: { id: project.id } },
+    );
     await reprocessClip(clip.id, adminId);
     await worker.drain();
     const rows = await fieldRows(clip.id);

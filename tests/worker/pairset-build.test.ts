@@ -6,7 +6,11 @@ import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Job, MailOutbox, Pairset, QuotaWarning, Shard, type User } from '../../server/core/models';
 import {
-  cancelBuild, createPairset, getPairsetDetail, newPairsetVersion, startBuild,
+  cancelBuild,
+  createPairset,
+  getPairsetDetail,
+  newPairsetVersion,
+  startBuild,
 } from '../../server/core/pairsets/pairsets';
 import { storagePaths } from '../../server/core/storage/paths';
 import { decodeChroma } from '../../shared/colour/view-encoding';
@@ -47,8 +51,8 @@ const shardPath = (detail: PairsetDetail, index: number) =>
   paths().pairsetShard(detail.id, detail.shards[index]!.split, index);
 const readShard = (detail: PairsetDetail, index: number) => readUstar(fs.readFileSync(shardPath(detail, index)));
 const json = <T>(data: Buffer) => JSON.parse(data.toString('utf8')) as T;
-const pairsOf = (archive: UstarArchive) => archive.members.filter((member) => member.name.endsWith('/pair.json'))
-  .map((member) => json<PairJson>(member.data));
+const pairsOf = (archive: UstarArchive) =>
+  archive.members.filter((member) => member.name.endsWith('/pair.json')).map((member) => json<PairJson>(member.data));
 
 beforeAll(async () => {
   server = await startTestServer();
@@ -66,8 +70,12 @@ beforeAll(async () => {
   ids.rejected = (await addPairsetClip(server, { ...base, frames: 8, seed: 10, state: 'rejected' })).id;
   await addPairsetClip(server, { projectId: staticProjectId, uploaderId: admin.id, frames: 20, shift: 0, seed: 11 });
   built = await buildPairsetNow(runtime, engineer, {
-    projectIds: [projectId], views: ['frame', 'neighbour', 'luma', 'chroma', 'motion'], deltas: [2],
-    graph: 'core', split: { val: 0.4, seed: 3 }, shardMB: 0.25,
+    projectIds: [projectId],
+    views: ['frame', 'neighbour', 'luma', 'chroma', 'motion'],
+    deltas: [2],
+    graph: 'core',
+    split: { val: 0.4, seed: 3 },
+    shardMB: 0.25,
   });
 });
 afterAll(async () => {
@@ -100,7 +108,15 @@ describe('a built pairset', () => {
       expect(archive.trailingZeroBytes).toBeGreaterThanOrEqual(1024);
       for (const member of archive.members) {
         expect(member).toMatchObject({
-          mode: 0o644, uid: 0, gid: 0, mtime: 0, uname: '', gname: '', typeflag: '0', magic: 'ustar', version: '00',
+          mode: 0o644,
+          uid: 0,
+          gid: 0,
+          mtime: 0,
+          uname: '',
+          gname: '',
+          typeflag: '0',
+          magic: 'ustar',
+          version: '00',
         });
         expect(member.offset % 512).toBe(0);
       }
@@ -109,15 +125,21 @@ describe('a built pairset', () => {
   });
 
   it('reads back with GNU tar, index.json first, every pair as a.<ext>, b.<ext> and pair.json', () => {
-    const listing = execFileSync('tar', ['-tvf', shardPath(built, 0)], { encoding: 'utf8' }).trim().split('\n');
+    const listing = execFileSync('tar', ['-tvf', shardPath(built, 0)], { encoding: 'utf8' })
+      .trim()
+      .split('\n');
     expect(listing[0]).toMatch(/^-rw-r--r-- 0\/0 +\d+ 1970-01-01 00:00 index\.json$/);
-    const names = execFileSync('tar', ['-tf', shardPath(built, 0)], { encoding: 'utf8' }).trim().split('\n');
+    const names = execFileSync('tar', ['-tf', shardPath(built, 0)], { encoding: 'utf8' })
+      .trim()
+      .split('\n');
     const index = json<{ shard: number; split: string; pairs: string[] }>(readShard(built, 0).members[0]!.data);
     expect(index).toMatchObject({ shard: 0, split: 'train' });
-    expect(names.slice(1)).toEqual(index.pairs.flatMap((key) => {
-      const ext = key.endsWith('~motion') ? 'flo' : 'png';
-      return [`pairs/${key}/a.png`, `pairs/${key}/b.${ext}`, `pairs/${key}/pair.json`];
-    }));
+    expect(names.slice(1)).toEqual(
+      index.pairs.flatMap((key) => {
+        const ext = key.endsWith('~motion') ? 'flo' : 'png';
+        return [`pairs/${key}/a.png`, `pairs/${key}/b.${ext}`, `pairs/${key}/pair.json`];
+      }),
+    );
     expect(built.shards[0]!.pairCount).toBe(index.pairs.length);
   });
 
@@ -132,7 +154,8 @@ describe('a built pairset', () => {
     }
     expect(await Shard.count({ where: { pairsetId: built.id } })).toBe(manifest.shards.length);
     const folder = paths().pairsetDir(built.id);
-    const expectedBytes = fs.readdirSync(folder)
+    const expectedBytes = fs
+      .readdirSync(folder)
       .reduce((sum, name) => sum + fs.statSync(path.join(folder, name)).size, 0);
     expect((await Pairset.findByPk(built.id))!.bytes).toBe(expectedBytes);
   });
@@ -147,7 +170,11 @@ describe('a built pairset', () => {
     const splitOf = new Map<number, Set<string>>();
     for (const pair of pairs) splitOf.set(pair.clip.id, (splitOf.get(pair.clip.id) ?? new Set()).add(pair.split));
     for (const splits of splitOf.values()) expect(splits.size).toBe(1);
-    const frameCount = new Map([[ids.cut, 16], [ids.long, 14], [ids.short, 10]]);
+    const frameCount = new Map([
+      [ids.cut, 16],
+      [ids.long, 14],
+      [ids.short, 10],
+    ]);
     for (const pair of pairs) {
       const last = Math.max(pair.a.frame, pair.b.frame, pair.kind.endsWith('~motion') ? pair.moment.frame + 1 : 0);
       expect(last).toBeLessThan(frameCount.get(pair.clip.id) ?? 8);
@@ -188,30 +215,43 @@ describe('a built pairset', () => {
 
   it('counts statistics per view pair, split, site and project', () => {
     const stats = built.stats!;
-    expect(stats.kinds.map((kind) => kind.kind))
-      .toEqual(['frame~neighbour+2', 'frame~luma', 'frame~chroma', 'frame~motion']);
+    expect(stats.kinds.map((kind) => kind.kind)).toEqual([
+      'frame~neighbour+2',
+      'frame~luma',
+      'frame~chroma',
+      'frame~motion',
+    ]);
     // Per clip of n frames: frame~luma and frame~chroma at every frame; frame~motion where t+1 exists;
     // frame~neighbour+2 where t+2 exists; the cut clip loses the moments whose reach crosses frame 8.
     const perClip = (n: number, cut = false) => ({ neighbour: cut ? 12 : n - 2, same: n, motion: cut ? 14 : n - 1 });
     const clips = [perClip(16, true), perClip(14), perClip(10), perClip(8), perClip(8), perClip(8), perClip(8)];
     const total = (key: 'neighbour' | 'same' | 'motion') => clips.reduce((sum, clip) => sum + clip[key], 0);
-    expect(stats.kinds.map((kind) => kind.total))
-      .toEqual([total('neighbour'), total('same'), total('same'), total('motion')]);
+    expect(stats.kinds.map((kind) => kind.total)).toEqual([
+      total('neighbour'),
+      total('same'),
+      total('same'),
+      total('motion'),
+    ]);
     expect(stats.clips.total).toBe(7);
     expect(stats.footageHours.total).toBeCloseTo((16 + 14 + 10 + 4 * 8) / 5 / 3600, 12);
     expect(stats.bySite.map((site) => site.site).sort()).toEqual(['East', 'North', 'South']);
     expect(stats.byProject).toEqual([{ projectId, projectName: 'terraces', clips: 7, pairs: stats.pairs.total }]);
     expect(stats.sharpness.counts.reduce((sum, count) => sum + count, 0)).toBe(stats.moments);
-    expect(stats.motionMagnitude.counts.reduce((sum, count) => sum + count, 0) + stats.motionMagnitude.missing)
-      .toBe(stats.moments);
+    expect(stats.motionMagnitude.counts.reduce((sum, count) => sum + count, 0) + stats.motionMagnitude.missing).toBe(
+      stats.moments,
+    );
   });
 });
 
 describe('output size and motion format', () => {
   it('resizes every view with its channels and depth, and rescales KITTI motion with the picture', async () => {
     const detail = await buildPairsetNow(runtime, engineer, {
-      projectIds: [projectId], views: ['frame', 'luma', 'chroma', 'motion'], graph: 'full', outputSize: 32,
-      motionFormat: 'kitti-png', split: { val: 0, seed: 1 },
+      projectIds: [projectId],
+      views: ['frame', 'luma', 'chroma', 'motion'],
+      graph: 'full',
+      outputSize: 32,
+      motionFormat: 'kitti-png',
+      split: { val: 0, seed: 1 },
     });
     expect(detail.state).toBe('built');
     const archive = readShard(detail, 0);
@@ -238,7 +278,11 @@ describe('output size and motion format', () => {
 
   it('rescales .flo fields to the output size', async () => {
     const detail = await buildPairsetNow(runtime, engineer, {
-      projectIds: [projectId], views: ['frame', 'motion'], graph: 'core', outputSize: 16, split: { val: 0, seed: 1 },
+      projectIds: [projectId],
+      views: ['frame', 'motion'],
+      graph: 'core',
+      outputSize: 16,
+      split: { val: 0, seed: 1 },
     });
     const member = readShard(detail, 0).members.find((m) => m.name.endsWith('/b.flo'))!;
     const field = decodeFlo(member.data);
@@ -251,8 +295,12 @@ describe('output size and motion format', () => {
 describe('pair difficulty during the build', () => {
   it('reads exactly log K for views a fixed embedding cannot tell apart (a still camera)', async () => {
     const detail = await buildPairsetNow(runtime, engineer, {
-      projectIds: [staticProjectId], views: ['frame', 'neighbour'], deltas: [1], graph: 'core',
-      split: { val: 0, seed: 1 }, temperature: 0.5,
+      projectIds: [staticProjectId],
+      views: ['frame', 'neighbour'],
+      deltas: [1],
+      graph: 'core',
+      split: { val: 0, seed: 1 },
+      temperature: 0.5,
     });
     const difficulty = (await Pairset.findByPk(detail.id))!.difficulty!;
     expect(difficulty.temperature).toBe(0.5);
@@ -295,9 +343,12 @@ describe('pair difficulty during the build', () => {
       const training = kind.training!;
       // The fixed budget: every curveEvery steps one point, whatever the sample size.
       expect(training.steps).toBe(critic.options.steps);
-      expect(training.curve.map((point) => point.step))
-        .toEqual(Array.from({ length: critic.options.steps / critic.options.curveEvery },
-          (_, i) => (i + 1) * critic.options.curveEvery));
+      expect(training.curve.map((point) => point.step)).toEqual(
+        Array.from(
+          { length: critic.options.steps / critic.options.curveEvery },
+          (_, i) => (i + 1) * critic.options.curveEvery,
+        ),
+      );
       expect(training.keptStep).toBeLessThanOrEqual(training.steps);
       expect(training.fitPairs + training.stopPairs).toBe(kind.trainPairs);
       expect(kind.results.map((result) => result.k)).toEqual([16, 64, 256]);
@@ -318,10 +369,17 @@ describe('pair difficulty during the build', () => {
 
 describe('failing and cancelling', () => {
   it('stops a running build between pairs when cancelled, leaving no files and a cancelled job', async () => {
-    const created = await createPairset(pairsetDefinition({
-      projectIds: [projectId], views: ['frame', 'neighbour', 'luma', 'chroma', 'motion'], deltas: [1, 2, 3],
-      graph: 'full', outputSize: 48, motionFormat: 'kitti-png',
-    }), engineer.id);
+    const created = await createPairset(
+      pairsetDefinition({
+        projectIds: [projectId],
+        views: ['frame', 'neighbour', 'luma', 'chroma', 'motion'],
+        deltas: [1, 2, 3],
+        graph: 'full',
+        outputSize: 48,
+        motionFormat: 'kitti-png',
+      }),
+      engineer.id,
+    );
     await startBuild(created.id, engineer);
     const running = runtime.runtime.runOnce();
     while ((await Pairset.findByPk(created.id))!.progress === 0) await new Promise((done) => setTimeout(done, 20));
@@ -359,7 +417,11 @@ describe('a build that takes its owner past a quota threshold', () => {
     const warnings = await QuotaWarning.findAll({ where: { scope: 'user', scopeId: owner.id } });
     expect(warnings.map((warning) => warning.percent)).toEqual([80]);
     const mails = await MailOutbox.findAll({ where: { template: 'quota-threshold' }, order: [['id', 'ASC']] });
-    expect(mails.slice(before).map((mail) => mail.to).sort()).toEqual(['admin@example.test',
-      'quota-engineer@example.test']);
+    expect(
+      mails
+        .slice(before)
+        .map((mail) => mail.to)
+        .sort(),
+    ).toEqual(['admin@example.test', 'quota-engineer@example.test']);
   });
 });

@@ -33,8 +33,10 @@ describe('the shard checksum', () => {
   it.each([
     ['abc', 'ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad'],
     ['', 'e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855'],
-    ['abcdbcdecdefdefgefghfghighijhijkijkljklmklmnlmnomnopnopq',
-      '248d6a61d20638b8e5c026930c3e6039a33ce45964ff2167f6ecedd419db06c1'],
+    [
+      'abcdbcdecdefdefgefghfghighijhijkijkljklmklmnlmnomnopnopq',
+      '248d6a61d20638b8e5c026930c3e6039a33ce45964ff2167f6ecedd419db06c1',
+    ],
   ])('gives the published SHA-256 of %j', async (input, digest) => {
     expect(await digestOf(input ? [Buffer.from(input)] : [])).toEqual({ bytes: input.length, sha256: digest });
   });
@@ -42,7 +44,8 @@ describe('the shard checksum', () => {
   it('gives the published SHA-256 of a million "a" written in uneven chunks', async () => {
     const chunks = [Buffer.alloc(333_333, 'a'), Buffer.alloc(1, 'a'), Buffer.alloc(666_666, 'a')];
     expect(await digestOf(chunks)).toEqual({
-      bytes: 1_000_000, sha256: 'cdc76e5c9914fb9281a1c7e284d73e67f1809a48a497200e046d39ccc7112cd0',
+      bytes: 1_000_000,
+      sha256: 'cdc76e5c9914fb9281a1c7e284d73e67f1809a48a497200e046d39ccc7112cd0',
     });
   });
 });
@@ -61,7 +64,8 @@ describe('the shard writer', () => {
     const archive = readUstar(bytes);
     expect(archive.trailingZeroBytes).toBe(1024);
     expect(archive.members.map((member) => [member.name, member.size, member.data.toString()])).toEqual([
-      ['index.json', 12, '{"pairs":[]}'], ['pairs/000001-000002-frame~luma/a.png', 5, 'hello'],
+      ['index.json', 12, '{"pairs":[]}'],
+      ['pairs/000001-000002-frame~luma/a.png', 5, 'hello'],
     ]);
     // Field offsets of git's tar.h: magic "ustar\0" at 257, version "00" at 263, numbers in octal ASCII.
     expect(bytes.subarray(257, 263).toString('latin1')).toBe('ustar\0');

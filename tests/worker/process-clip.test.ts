@@ -10,7 +10,12 @@ import { reprocessClip } from '../../server/core/clips/clip-media';
 import { storagePaths } from '../../server/core/storage/paths';
 import { decodeChroma, decodeLuma } from '../../shared/colour/view-encoding';
 import {
-  addProject, insertClip, makeClip, makePatternClip, withRotation, workFolders,
+  addProject,
+  insertClip,
+  makeClip,
+  makePatternClip,
+  withRotation,
+  workFolders,
 } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
@@ -67,8 +72,10 @@ describe('process-clip on a clean clip', () => {
   const fps = 5;
 
   beforeAll(async () => {
-    ({ clip, job } = await processNew(await makePatternClip(path.join(gen, 'clean.mp4'), CLIP_S), 'clean',
-      { sampleFps: fps, workingSize: 320 }));
+    ({ clip, job } = await processNew(await makePatternClip(path.join(gen, 'clean.mp4'), CLIP_S), 'clean', {
+      sampleFps: fps,
+      workingSize: 320,
+    }));
   });
 
   it('passes every stage and awaits review, with its job done on the first try', () => {
@@ -96,16 +103,35 @@ describe('process-clip on a clean clip', () => {
     for (const view of ['luma', 'chroma'] as const) {
       expect(fs.readdirSync(layout.viewDir(view))).toHaveLength(clip.frameCount!);
     }
-    expect(await sharp(layout.view('luma', 0)).metadata())
-      .toMatchObject({ format: 'png', width: 320, height: 240, channels: 1, depth: 'uchar' });
-    expect(await sharp(layout.view('chroma', 0)).metadata())
-      .toMatchObject({ format: 'png', width: 320, height: 240, channels: 3, depth: 'ushort' });
+    expect(await sharp(layout.view('luma', 0)).metadata()).toMatchObject({
+      format: 'png',
+      width: 320,
+      height: 240,
+      channels: 1,
+      depth: 'uchar',
+    });
+    expect(await sharp(layout.view('chroma', 0)).metadata()).toMatchObject({
+      format: 'png',
+      width: 320,
+      height: 240,
+      channels: 3,
+      depth: 'ushort',
+    });
   });
 
   it('makes a browser-playable preview: H.264, yuv420p, index first, at the working size', async () => {
     const preview = paths().clipDerived(clip.id).preview;
-    const { stdout } = await probe(ffprobeInstaller.path, ['-v', 'error', '-select_streams', 'v:0',
-      '-show_entries', 'stream=codec_name,pix_fmt,width,height', '-of', 'json', preview]);
+    const { stdout } = await probe(ffprobeInstaller.path, [
+      '-v',
+      'error',
+      '-select_streams',
+      'v:0',
+      '-show_entries',
+      'stream=codec_name,pix_fmt,width,height',
+      '-of',
+      'json',
+      preview,
+    ]);
     expect(JSON.parse(stdout).streams[0]).toEqual({ codec_name: 'h264', pix_fmt: 'yuv420p', width: 320, height: 240 });
     const boxes = topLevelBoxes(preview);
     expect(boxes.indexOf('moov')).toBeGreaterThan(-1);
@@ -115,10 +141,11 @@ describe('process-clip on a clean clip', () => {
   it('makes a thumbnail, counts the bytes on disk and leaves no work folder', async () => {
     expect(clip.toApi()).toMatchObject({ hasThumbnail: true, hasPreview: true, frameCount: clip.frameCount });
     expect((await sharp(paths().clipDerived(clip.id).thumbnail).metadata()).format).toBe('jpeg');
-    const bytesOnDisk = (dir: string): number => fs.readdirSync(dir, { withFileTypes: true }).reduce((sum, entry) => {
-      const full = path.join(dir, entry.name);
-      return sum + (entry.isDirectory() ? bytesOnDisk(full) : fs.statSync(full).size);
-    }, 0);
+    const bytesOnDisk = (dir: string): number =>
+      fs.readdirSync(dir, { withFileTypes: true }).reduce((sum, entry) => {
+        const full = path.join(dir, entry.name);
+        return sum + (entry.isDirectory() ? bytesOnDisk(full) : fs.statSync(full).size);
+      }, 0);
     expect(Number(clip.storedBytes)).toBe(bytesOnDisk(paths().clipDir(clip.id)));
     expect(workFolders(server, clip.id)).toEqual([]);
   });
@@ -144,12 +171,18 @@ describe('views of a known colour', () => {
     const layout = paths().clipDerived(clip.id);
     const centre = 160 + 120 * 320;
     const rgb = await sharp(layout.frame(0)).raw().toBuffer();
-    for (const [channel, pure] of [[0, 255], [1, 0], [2, 0]]) {
+    for (const [channel, pure] of [
+      [0, 255],
+      [1, 0],
+      [2, 0],
+    ]) {
       expect(Math.abs(rgb[centre * 3 + channel]! - pure!)).toBeLessThanOrEqual(MAX_CODE_DEVIATION);
     }
     const lumaBytes = await sharp(layout.view('luma', 0)).extractChannel(0).raw().toBuffer();
     const l = decodeLuma(new Uint8Array(lumaBytes.buffer, lumaBytes.byteOffset, lumaBytes.length));
-    const chromaBytes = await sharp(layout.view('chroma', 0)).toColourspace('rgb16').raw({ depth: 'ushort' })
+    const chromaBytes = await sharp(layout.view('chroma', 0))
+      .toColourspace('rgb16')
+      .raw({ depth: 'ushort' })
       .toBuffer();
     const chroma = new Uint16Array(chromaBytes.buffer, chromaBytes.byteOffset, chromaBytes.length / 2);
     const a = new Float32Array(l.length);
@@ -166,8 +199,10 @@ describe('sampling by timestamps', () => {
   it('applies rotation and samples a variable-frame-rate clip evenly in time', async () => {
     // Frames 25–59 of 100 are dropped and the rest keep their timestamps (variable frame rate), and the stream
     // says to show it turned a quarter: frames must come out upright (240×320) and evenly spaced in time.
-    const vfr = await makePatternClip(path.join(gen, 'vfr.mp4'), CLIP_S, "select='not(between(n,25,59))'",
-      ['-vsync', 'vfr']);
+    const vfr = await makePatternClip(path.join(gen, 'vfr.mp4'), CLIP_S, "select='not(between(n,25,59))'", [
+      '-vsync',
+      'vfr',
+    ]);
     const file = await withRotation(vfr, path.join(gen, 'rotated-vfr.mp4'), 90);
     const fps = 5;
     const { clip } = await processNew(file, 'rotated', { sampleFps: fps });
@@ -203,8 +238,12 @@ describe('reprocessing', () => {
 describe('a clip deleted while it is processed', () => {
   it('stops quietly and leaves nothing behind', async () => {
     const project = await addProject(adminId, 'deleted');
-    const { clip } = await insertClip(server, await makePatternClip(path.join(gen, 'gone.mp4'), CLIP_S), project.id,
-      adminId);
+    const { clip } = await insertClip(
+      server,
+      await makePatternClip(path.join(gen, 'gone.mp4'), CLIP_S),
+      project.id,
+      adminId,
+    );
     const running = worker.runtime.runOnce();
     while ((await Clip.findByPk(clip.id))?.stage !== 'signals') await new Promise((done) => setTimeout(done, 20));
     // What removing a clip does: its rows go (the job cascades with it), then its folder.

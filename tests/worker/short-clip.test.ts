@@ -30,7 +30,10 @@ afterAll(async () => {
 });
 
 describe('a clip shorter than one sampling step', () => {
-  for (const [frames, seconds] of [[1, 0.04], [2, 0.08]] as const) {
+  for (const [frames, seconds] of [
+    [1, 0.04],
+    [2, 0.08],
+  ] as const) {
     it(`of ${frames} frame(s) is processed with its first frame sampled`, async () => {
       const project = await addProject(adminId, `blink ${frames}`, { sampleFps: 5 });
       const file = await makePatternClip(path.join(gen, `blink-${frames}.mp4`), seconds);

@@ -87,9 +87,11 @@ describe('a worker killed at random moments', () => {
     for (let attempt = 0; killedIn.length < KILLS; attempt += 1) {
       const target = STAGES.indexOf(STAGES[attempt % STAGES.length]!);
       const child = startWorker();
-      const job = await until(() => Job.findOne({
-        where: { state: 'running', leaseOwner: { [Op.like]: `%:${child.pid}:%` } },
-      }));
+      const job = await until(() =>
+        Job.findOne({
+          where: { state: 'running', leaseOwner: { [Op.like]: `%:${child.pid}:%` } },
+        }),
+      );
       await until(async () => (await job.reload()).state !== 'running' || STAGES.indexOf(job.stage ?? '') >= target);
       await new Promise((done) => setTimeout(done, Math.random() * MAX_DELAY_IN_STAGE_MS));
       child.kill('SIGKILL');
@@ -102,8 +104,10 @@ describe('a worker killed at random moments', () => {
     console.log(`killed ${KILLS} times mid-processing, in: ${killedIn.join(', ')}; clips: ${clips.length}`);
 
     const last = startWorker();
-    await until(async () => (await Clip.count({ where: { projectId, state: 'awaiting_review' } })) === clips.length,
-      60_000);
+    await until(
+      async () => (await Clip.count({ where: { projectId, state: 'awaiting_review' } })) === clips.length,
+      60_000,
+    );
     // KINEFOLD_WORKER_NICE's default (or the test's own niceness, if higher): the heavy work yields to the server.
     expect(niceOf(last.pid!)).toBe(Math.max(10, os.getPriority()));
     last.kill('SIGTERM');
@@ -113,8 +117,9 @@ describe('a worker killed at random moments', () => {
     for (const clip of clips) {
       await clip.reload();
       expect(clip).toMatchObject({ state: 'awaiting_review', stage: null, error: null, frameCount: CLIP_S * 5 });
-      const indexes = (await Frame.findAll({ where: { clipId: clip.id }, order: [['index', 'ASC']] }))
-        .map((frame) => frame.index);
+      const indexes = (await Frame.findAll({ where: { clipId: clip.id }, order: [['index', 'ASC']] })).map(
+        (frame) => frame.index,
+      );
       expect(indexes).toEqual([...Array(clip.frameCount).keys()]);
       const layout = paths.clipDerived(clip.id);
       expect(fs.readdirSync(layout.framesDir)).toHaveLength(clip.frameCount!);

@@ -51,8 +51,10 @@ export const buildPairset: Handler<'build-pairset'> = {
   },
 
   async recordFailure({ payload }, failure, _context, transaction) {
-    await Pairset.update({ state: 'failed', error: failure.message },
-      { where: { id: payload.pairsetId, state: 'building' }, transaction });
+    await Pairset.update(
+      { state: 'failed', error: failure.message },
+      { where: { id: payload.pairsetId, state: 'building' }, transaction },
+    );
   },
 };
 
@@ -70,23 +72,36 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
   const { pairs } = definitionViews(definition);
   const planned = planPairs(sources, pairs, definition.split, definition);
   if (planned.length === 0) {
-    throw new FinalJobError('The definition gives no pairs: no accepted clip matches it, or every moment is '
-      + 'filtered out (cuts, clip ends, missing motion fields, motion filters). Check the counts in the form.');
+    throw new FinalJobError(
+      'The definition gives no pairs: no accepted clip matches it, or every moment is ' +
+        'filtered out (cuts, clip ends, missing motion fields, motion filters). Check the counts in the form.',
+    );
   }
   const shards = await writeShards(planned, {
-    outDir, stagingDir, shardMB: definition.shardMB, clips: new Map(sources.map((clip) => [clip.id, clip])),
+    outDir,
+    stagingDir,
+    shardMB: definition.shardMB,
+    clips: new Map(sources.map((clip) => [clip.id, clip])),
     member: { paths, motionFormat: definition.motionFormat, outputSize: definition.outputSize },
     progress: (share) => progress(share * SHARDS_SHARE),
   });
   const difficulty = await difficultyReport(planned, pairs, {
-    paths, pool: context.pool, signal, temperature: definition.temperature, seed: definition.split.seed,
+    paths,
+    pool: context.pool,
+    signal,
+    temperature: definition.temperature,
+    seed: definition.split.seed,
     progress: (share) => progress(SHARDS_SHARE + share * (1 - SHARDS_SHARE)),
   });
   const statistics = pairsetStatistics(planned, pairs, sources);
   const manifest: PairsetManifest = {
     format: PAIRSET_FORMAT,
     pairset: { id: pairset.id, name: pairset.name, version: pairset.version },
-    definition, seed: pairset.seed, shards, statistics, difficulty,
+    definition,
+    seed: pairset.seed,
+    shards,
+    statistics,
+    difficulty,
   };
   const manifestBytes = Buffer.from(`${stableJson(manifest, 2)}\n`);
   await fs.promises.writeFile(path.join(outDir, PAIRSET_MANIFEST), manifestBytes);
@@ -107,20 +122,38 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
 }
 
 /** Records the built pairset and finishes the job in one transaction, if the pairset is still being built. */
-async function commit(pairsetId: number, shards: ShardSummary[],
-  result: Pick<Pairset, 'stats' | 'difficulty' | 'bytes'>, context: JobContext): Promise<boolean> {
+async function commit(
+  pairsetId: number,
+  shards: ShardSummary[],
+  result: Pick<Pairset, 'stats' | 'difficulty' | 'bytes'>,
+  context: JobContext,
+): Promise<boolean> {
   return Pairset.sequelize!.transaction(async (transaction) => {
     const current = await Pairset.findByPk(pairsetId, { transaction });
     if (!current || current.state !== 'building') return false;
     if (!(await finishJob(context.lease, transaction))) throw new LeaseLostError(context.lease.jobId);
     await Shard.destroy({ where: { pairsetId }, transaction });
-    await Shard.bulkCreate(shards.map((shard) => ({
-      pairsetId, index: shard.index, split: shard.split, pairCount: shard.pairCount, bytes: shard.bytes,
-      sha256: shard.sha256,
-    })), { transaction });
-    await current.update({
-      ...result, state: 'built', progress: 1, error: null, builtAt: new Date(),
-    }, { transaction });
+    await Shard.bulkCreate(
+      shards.map((shard) => ({
+        pairsetId,
+        index: shard.index,
+        split: shard.split,
+        pairCount: shard.pairCount,
+        bytes: shard.bytes,
+        sha256: shard.sha256,
+      })),
+      { transaction },
+    );
+    await current.update(
+      {
+        ...result,
+        state: 'built',
+        progress: 1,
+        error: null,
+        builtAt: new Date(),
+      },
+      { transaction },
+    );
     await checkUserQuotaThresholds(current.ownerId, context.config.publicUrl, transaction);
     return true;
   });
@@ -130,6 +163,9 @@ async function commit(pairsetId: number, shards: ShardSummary[],
 async function removeLeftoverWork(paths: StoragePaths, pairsetId: number): Promise<void> {
   const prefix = pairsetWorkPrefix(pairsetId);
   const entries = await fs.promises.readdir(paths.pairsetsDir).catch(() => [] as string[]);
-  await Promise.all(entries.filter((name) => name.startsWith(prefix))
-    .map((name) => fs.promises.rm(path.join(paths.pairsetsDir, name), { recursive: true, force: true })));
+  await Promise.all(
+    entries
+      .filter((name) => name.startsWith(prefix))
+      .map((name) => fs.promises.rm(path.join(paths.pairsetsDir, name), { recursive: true, force: true })),
+  );
 }

@@ -34,8 +34,12 @@ export interface JobFailure {
  */
 export interface Handler<K extends JobKind> {
   run(claimed: ClaimedJob<K>, context: JobContext): Promise<void>;
-  recordFailure(claimed: ClaimedJob<K>, failure: JobFailure, context: JobContext, transaction: Transaction):
-    Promise<void>;
+  recordFailure(
+    claimed: ClaimedJob<K>,
+    failure: JobFailure,
+    context: JobContext,
+    transaction: Transaction,
+  ): Promise<void>;
 }
 
 export type Handlers = { [K in JobKind]: Handler<K> };

@@ -36,7 +36,10 @@ export const processClip: Handler<'process-clip'> = {
     const clipDir = context.paths.clipDir(payload.clipId);
     if (!(await Clip.findByPk(payload.clipId))) return;
     await removeLeftoverWorkDirs(clipDir);
-    const first = Math.max(0, STAGES.findIndex((stage) => stage.name === job.stage));
+    const first = Math.max(
+      0,
+      STAGES.findIndex((stage) => stage.name === job.stage),
+    );
     try {
       for (let i = first; i < STAGES.length; i += 1) {
         if (!(await runStage(STAGES[i]!, STAGES[i + 1] ?? null, payload.clipId, context))) return;
@@ -52,7 +55,7 @@ export const processClip: Handler<'process-clip'> = {
 /** Runs one stage on a freshly loaded clip; false when the clip was deleted meanwhile. */
 async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId: number, context: JobContext) {
   const clip = await Clip.findByPk(clipId);
-  const project = clip && await Project.findByPk(clip.projectId);
+  const project = clip && (await Project.findByPk(clip.projectId));
   if (!clip || !project) return false;
   const settings = pipelineSettings(project);
   await enterStage(stage, clip, context.lease);
@@ -61,7 +64,12 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
   let work: WorkDir | null = null;
   try {
     await stage.run({
-      clip, project, settings, paths: context.paths, pool: context.pool, signal: context.signal,
+      clip,
+      project,
+      settings,
+      paths: context.paths,
+      pool: context.pool,
+      signal: context.signal,
       progress: progress.report,
       workDir: async () => (work ??= await openWorkDir(clipDir, stage.name)),
       async commit(write) {
@@ -89,8 +97,10 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
 async function enterStage(stage: PipelineStage, clip: Clip, lease: Lease): Promise<void> {
   await Clip.sequelize!.transaction(async (transaction) => {
     if (!(await enterJobStage(lease, stage.name, transaction))) throw new LeaseLostError(lease.jobId);
-    await Clip.update({ stage: stage.name, state: stateWhileProcessing(clip.state), error: null },
-      { where: { id: clip.id }, transaction });
+    await Clip.update(
+      { stage: stage.name, state: stateWhileProcessing(clip.state), error: null },
+      { where: { id: clip.id }, transaction },
+    );
   });
 }
 
@@ -109,7 +119,10 @@ function progressWriter(lease: Lease, stage: string) {
       lastAt = now;
       pending = pending
         .then(() => reportJobProgress(lease, stage, Math.round(share * 1000) / 1000))
-        .then(() => undefined, (error: unknown) => console.warn(`Kinefold worker: progress not saved: ${error}`));
+        .then(
+          () => undefined,
+          (error: unknown) => console.warn(`Kinefold worker: progress not saved: ${error}`),
+        );
     },
     settled: () => pending,
   };

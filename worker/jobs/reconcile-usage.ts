@@ -23,7 +23,9 @@ export function utcDay(now = new Date()): string {
  */
 export const reconcileUsage: Handler<'reconcile-usage'> = {
   async run({ payload }, { paths }) {
-    const folders = (await fs.promises.readdir(paths.clipsDir).catch(() => [] as string[])).filter((name) => /^\d+$/.test(name));
+    const folders = (await fs.promises.readdir(paths.clipsDir).catch(() => [] as string[])).filter((name) =>
+      /^\d+$/.test(name),
+    );
     const clips = await Clip.findAll({ attributes: ['id', 'storedBytes'] });
     const known = new Set(clips.map((clip) => clip.id));
     const byKind = emptyUsage();
@@ -45,16 +47,28 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
     byKind.pairsets = await folderBytes(paths.pairsetsDir);
     const totalBytes = Object.values(byKind).reduce((sum, bytes) => sum + bytes, 0);
     await Clip.sequelize!.transaction(async (transaction) => {
-      for (const fix of fixes) await Clip.update({ storedBytes: fix.bytes }, { where: { id: fix.id }, transaction, silent: true });
+      for (const fix of fixes)
+        await Clip.update({ storedBytes: fix.bytes }, { where: { id: fix.id }, transaction, silent: true });
       const day = utcDay();
       const snapshot = { day, totalBytes, byKind, drift: { ...drift }, takenAt: new Date() };
       const existing = await UsageSnapshot.findOne({ where: { day }, transaction });
       if (existing) await existing.update(snapshot, { transaction });
       else await UsageSnapshot.create(snapshot, { transaction });
-      await recordAudit({
-        actorId: null, action: 'usage.reconcile', targetType: 'storage', targetId: null,
-        detail: { reason: payload.reason, totalBytes, driftClips: drift.clips.length, strayFolders: drift.strayFolders.length },
-      }, transaction);
+      await recordAudit(
+        {
+          actorId: null,
+          action: 'usage.reconcile',
+          targetType: 'storage',
+          targetId: null,
+          detail: {
+            reason: payload.reason,
+            totalBytes,
+            driftClips: drift.clips.length,
+            strayFolders: drift.strayFolders.length,
+          },
+        },
+        transaction,
+      );
     });
   },
   async recordFailure() {

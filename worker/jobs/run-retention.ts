@@ -21,10 +21,16 @@ export const runRetention: Handler<'run-retention'> = {
           { where: { id: candidate.clipId, state: 'rejected', purgedAt: null }, transaction },
         );
         if (changed === 0) return;
-        await recordAudit({
-          actorId: null, action: 'clip.purge', targetType: 'clip', targetId: candidate.clipId,
-          detail: { originalName: candidate.originalName, bytes: candidate.bytes, rejectedAt: candidate.rejectedAt },
-        }, transaction);
+        await recordAudit(
+          {
+            actorId: null,
+            action: 'clip.purge',
+            targetType: 'clip',
+            targetId: candidate.clipId,
+            detail: { originalName: candidate.originalName, bytes: candidate.bytes, rejectedAt: candidate.rejectedAt },
+          },
+          transaction,
+        );
       });
     }
   },

@@ -12,9 +12,15 @@ export const sendRejectionDigestJob: Handler<'send-rejection-digest'> = {
   },
   // The rejections stay unlisted, so the uploader's next rejection queues a digest that lists them too.
   async recordFailure({ job, payload }, failure, _context, transaction) {
-    await recordAudit({
-      actorId: null, action: 'review.digest_failed', targetType: 'user', targetId: payload.uploaderId,
-      detail: { jobId: job.id, message: failure.message },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId: null,
+        action: 'review.digest_failed',
+        targetType: 'user',
+        targetId: payload.uploaderId,
+        detail: { jobId: job.id, message: failure.message },
+      },
+      transaction,
+    );
   },
 };

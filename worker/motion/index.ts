@@ -2,7 +2,12 @@
 // and the full parameters it was computed with (defaults merged with the project's overrides).
 
 import { DIS_DEFAULTS, estimateDis, validateDisParams, type DisParams } from './dis/dis.js';
-import { FARNEBACK_DEFAULTS, estimateFarneback, validateFarnebackParams, type FarnebackParams } from './farneback/farneback.js';
+import {
+  FARNEBACK_DEFAULTS,
+  estimateFarneback,
+  validateFarnebackParams,
+  type FarnebackParams,
+} from './farneback/farneback.js';
 import {
   HORN_SCHUNCK_DEFAULTS,
   estimateHornSchunck,
@@ -17,7 +22,6 @@ import {
 } from './lucas-kanade/lucas-kanade.js';
 import type { MotionWorkspace } from './kernels/workspace.js';
 import type { EstimatorName } from '../../shared/estimators';
-
 
 export interface EstimatorParams {
   farneback: FarnebackParams;

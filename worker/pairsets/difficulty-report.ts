@@ -21,9 +21,10 @@ export const DIFFICULTY_KS = [16, 64, 256] as const;
 /** Pairs drawn per view pair: two batches at the largest K. */
 export const DIFFICULTY_SAMPLE = 2 * DIFFICULTY_KS[DIFFICULTY_KS.length - 1];
 
-const EMBEDDING_DESCRIPTION = 'Each view becomes one grey plane (frames: BT.601 grey; luma: L*; chroma: C*ab; '
-  + 'motion: flow magnitude), shrunk to a 16 × 16 thumbnail by area averaging, its mean removed, projected to 128 '
-  + 'dimensions by a seeded Gaussian random matrix and normalised to unit length. Nothing is trained.';
+const EMBEDDING_DESCRIPTION =
+  'Each view becomes one grey plane (frames: BT.601 grey; luma: L*; chroma: C*ab; ' +
+  'motion: flow magnitude), shrunk to a 16 × 16 thumbnail by area averaging, its mean removed, projected to 128 ' +
+  'dimensions by a seeded Gaussian random matrix and normalised to unit length. Nothing is trained.';
 
 export interface DifficultyOptions {
   paths: StoragePaths;
@@ -44,18 +45,30 @@ export interface DifficultyOptions {
  * (critic-report.ts). Views are read from the clips' stored files at the working size, so the output size does
  * not change the report.
  */
-export async function difficultyReport(planned: readonly PlannedPair[], pairs: readonly ViewPair[],
-  options: DifficultyOptions): Promise<PairsetDifficulty> {
+export async function difficultyReport(
+  planned: readonly PlannedPair[],
+  pairs: readonly ViewPair[],
+  options: DifficultyOptions,
+): Promise<PairsetDifficulty> {
   const embed = createFixedEmbedder(DEFAULT_FIXED_EMBEDDING);
   const cache = new Map<string, EmbeddedView>();
   const ofKind = pairs.map((pair) => planned.filter((item) => item.pair.kind === pair.kind));
   const samples = ofKind.map((items) => sample(items, options.seed, DIFFICULTY_SAMPLE));
-  const trainSamples = ofKind.map((items) => sample(items.filter((item) => item.split === 'train'), options.seed,
-    CRITIC_SAMPLE));
-  const heldOutSamples = ofKind.map((items) => sample(items.filter((item) => item.split === 'val'), options.seed,
-    CRITIC_SAMPLE));
-  const totalViews = 2 * [...samples, ...trainSamples, ...heldOutSamples].reduce((sum, items) => sum + items.length,
-    0);
+  const trainSamples = ofKind.map((items) =>
+    sample(
+      items.filter((item) => item.split === 'train'),
+      options.seed,
+      CRITIC_SAMPLE,
+    ),
+  );
+  const heldOutSamples = ofKind.map((items) =>
+    sample(
+      items.filter((item) => item.split === 'val'),
+      options.seed,
+      CRITIC_SAMPLE,
+    ),
+  );
+  const totalViews = 2 * [...samples, ...trainSamples, ...heldOutSamples].reduce((sum, items) => sum + items.length, 0);
   let doneViews = 0;
   // Reading a view dominates the report; the views are read at most once and give both representations.
   const embedView = async (item: PlannedPair, view: ViewName): Promise<EmbeddedView> => {
@@ -64,8 +77,10 @@ export async function difficultyReport(planned: readonly PlannedPair[], pairs: r
     if (!embedded) {
       const data = await readView(viewSourceFile(options.paths, item.clipId, item.moment, view), view);
       const plane = viewPlane(data);
-      embedded = { fixed: embed(plane, data.width, data.height), descriptor: viewDescriptor(plane, data.width,
-        data.height) };
+      embedded = {
+        fixed: embed(plane, data.width, data.height),
+        descriptor: viewDescriptor(plane, data.width, data.height),
+      };
       cache.set(key, embedded);
     }
     doneViews += 1;
@@ -87,9 +102,12 @@ export async function difficultyReport(planned: readonly PlannedPair[], pairs: r
     const embedded = await embedPairs(samples[k]!, pair);
     const a = embedded.map((item) => item.a.fixed);
     const b = embedded.map((item) => item.b.fixed);
-    const results = DIFFICULTY_KS.map((size) => pairDifficulty(a, b, size, {
-      temperature: options.temperature, seed: options.seed,
-    })).filter((result) => result !== null);
+    const results = DIFFICULTY_KS.map((size) =>
+      pairDifficulty(a, b, size, {
+        temperature: options.temperature,
+        seed: options.seed,
+      }),
+    ).filter((result) => result !== null);
     kinds.push({ kind: pair.kind, sampled: embedded.length, results });
     criticInputs.push({
       kind: pair.kind,
@@ -99,7 +117,10 @@ export async function difficultyReport(planned: readonly PlannedPair[], pairs: r
     });
   }
   const critic = await criticReport(criticInputs, {
-    pool: options.pool, signal: options.signal, temperature: options.temperature, seed: options.seed,
+    pool: options.pool,
+    signal: options.signal,
+    temperature: options.temperature,
+    seed: options.seed,
     ks: [...DIFFICULTY_KS],
   });
   return {
@@ -139,7 +160,9 @@ async function readView(file: string, view: ViewName): Promise<ViewData> {
     return { kind: 'luma', width: info.width, height: info.height, l: decodeLuma(new Uint8Array(data)) };
   }
   if (view === 'chroma') {
-    const { data, info } = await sharp(file).toColourspace('rgb16').raw({ depth: 'ushort' })
+    const { data, info } = await sharp(file)
+      .toColourspace('rgb16')
+      .raw({ depth: 'ushort' })
       .toBuffer({ resolveWithObject: true });
     const codes = new Uint16Array(data.buffer, data.byteOffset, data.length / 2);
     const a = new Float32Array(info.width * info.height);

@@ -65,13 +65,20 @@ export function outputDims(size: Size, outputSize: number | undefined): Size | n
  * Makes the member for one view: the source file itself when no conversion is needed, else a converted file at
  * `stagingFile`. A missing source says which clip, frame and file, in words a person can act on.
  */
-export async function viewMember(view: ViewName, clipId: number, moment: number, options: MemberOptions,
-  stagingFile: string): Promise<MemberFile> {
+export async function viewMember(
+  view: ViewName,
+  clipId: number,
+  moment: number,
+  options: MemberOptions,
+  stagingFile: string,
+): Promise<MemberFile> {
   const source = viewSourceFile(options.paths, clipId, moment, view);
   const stat = await fs.promises.stat(source).catch(() => null);
   if (!stat) {
-    throw new Error(`The ${view} view of clip ${clipId} at frame ${viewFrame(view, moment)} is missing (${source}); `
-      + 'the clip may have been reprocessed or purged since the build started. Build again once it is processed.');
+    throw new Error(
+      `The ${view} view of clip ${clipId} at frame ${viewFrame(view, moment)} is missing (${source}); ` +
+        'the clip may have been reprocessed or purged since the build started. Build again once it is processed.',
+    );
   }
   const data = view === 'motion' ? await motionMember(source, options) : await imageMember(view, source, options);
   if (!data) return { file: source, size: stat.size };
@@ -99,7 +106,9 @@ async function motionMember(source: string, options: MemberOptions): Promise<Uin
   const size = out ?? field;
   if (options.motionFormat === 'flo') return encodeFlo(flow, size.width, size.height);
   return sharp(encodeKittiFlow(flow), { raw: { width: size.width, height: size.height, channels: 3 } })
-    .toColourspace('rgb16').png().toBuffer();
+    .toColourspace('rgb16')
+    .png()
+    .toBuffer();
 }
 
 /** Width and height from a .flo header (bytes 4–11), without reading the field. */

@@ -46,9 +46,10 @@ export function pairRecord(planned: PlannedPair, clip: SourceClip, frame: Source
       clippedShare: frame.clippedShare,
       motion: frame.motion
         ? {
-          meanMagnitude: frame.motion.meanMagnitude, p95Magnitude: frame.motion.p95Magnitude,
-          consistentShare: frame.motion.consistentShare,
-        }
+            meanMagnitude: frame.motion.meanMagnitude,
+            p95Magnitude: frame.motion.p95Magnitude,
+            consistentShare: frame.motion.consistentShare,
+          }
         : null,
     },
   };

@@ -11,8 +11,13 @@ export const MIN_KNOWN_SHARE = 0.5;
  * measured in source pixels spans proportionally fewer output pixels. An output pixel covered less than half by
  * known vectors becomes unknown (UNKNOWN_FLOW), so unknown motion never blends into a made-up vector.
  */
-export function areaResizeFlow(flow: Float32Array, width: number, height: number, outWidth: number,
-  outHeight: number): Float32Array {
+export function areaResizeFlow(
+  flow: Float32Array,
+  width: number,
+  height: number,
+  outWidth: number,
+  outHeight: number,
+): Float32Array {
   const pixels = width * height;
   if (flow.length !== 2 * pixels) throw new RangeError(`a ${width}×${height} field needs ${2 * pixels} values`);
   const u = new Float32Array(pixels);

@@ -34,7 +34,9 @@ export function shardFileSink(file: string): ShardFileSink {
       next(null, chunk);
     },
   });
-  const done = pipeline(stream, fs.createWriteStream(file, { flags: 'wx', highWaterMark: WRITE_BUFFER }))
-    .then(() => ({ bytes, sha256: hash.digest('hex') }));
+  const done = pipeline(stream, fs.createWriteStream(file, { flags: 'wx', highWaterMark: WRITE_BUFFER })).then(() => ({
+    bytes,
+    sha256: hash.digest('hex'),
+  }));
   return { stream, done };
 }

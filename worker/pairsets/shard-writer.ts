@@ -34,12 +34,20 @@ export function openShard(file: string): ShardSink {
   return {
     add(name, data) {
       const header = {
-        name, size: data.byteLength, mode: FILE_MODE, mtime: EPOCH, uid: 0, gid: 0, uname: '', gname: '',
+        name,
+        size: data.byteLength,
+        mode: FILE_MODE,
+        mtime: EPOCH,
+        uid: 0,
+        gid: 0,
+        uname: '',
+        gname: '',
         type: 'file' as const,
       };
       return new Promise<void>((resolve, reject) => {
-        pack.entry(header, Buffer.from(data.buffer, data.byteOffset, data.byteLength),
-          (error) => (error ? reject(error) : resolve()));
+        pack.entry(header, Buffer.from(data.buffer, data.byteOffset, data.byteLength), (error) =>
+          error ? reject(error) : resolve(),
+        );
       }).catch(async (error: unknown) => {
         await written.catch(() => undefined);
         throw error;
@@ -55,4 +63,3 @@ export function openShard(file: string): ShardSink {
     },
   };
 }
-

@@ -8,8 +8,12 @@ export function stableJson(value: unknown, indent?: number): string {
 }
 
 function isPlainObject(value: unknown): value is Record<string, unknown> {
-  return typeof value === 'object' && value !== null && !Array.isArray(value)
-    && Object.getPrototypeOf(value) === Object.prototype;
+  return (
+    typeof value === 'object' &&
+    value !== null &&
+    !Array.isArray(value) &&
+    Object.getPrototypeOf(value) === Object.prototype
+  );
 }
 
 /** A copy with keys inserted in code-unit order (integer-like keys still come first, in ascending order). */

@@ -47,11 +47,16 @@ interface PreparedPair {
  * pair). Each shard starts with index.json (format, shard number, split, pair keys) followed by every pair's
  * `pairs/<pairKey>/a.<ext>`, `b.<ext>` and `pair.json`, in that order.
  */
-export async function writeShards(planned: readonly PlannedPair[], options: WriteShardsOptions):
-Promise<ShardSummary[]> {
+export async function writeShards(
+  planned: readonly PlannedPair[],
+  options: WriteShardsOptions,
+): Promise<ShardSummary[]> {
   const targetBytes = options.shardMB * BYTES_PER_MB;
-  const frames = new Map([...options.clips.values()]
-    .flatMap((clip) => clip.frames.map((frame) => [`${clip.id}:${frame.index}`, frame] as const)));
+  const frames = new Map(
+    [...options.clips.values()].flatMap((clip) =>
+      clip.frames.map((frame) => [`${clip.id}:${frame.index}`, frame] as const),
+    ),
+  );
   const shards: ShardSummary[] = [];
   let done = 0;
   for (const split of SPLIT_ORDER) {
@@ -75,8 +80,7 @@ Promise<ShardSummary[]> {
   return shards;
 }
 
-async function preparePair(item: PlannedPair, frame: SourceFrame, options: WriteShardsOptions):
-Promise<PreparedPair> {
+async function preparePair(item: PlannedPair, frame: SourceFrame, options: WriteShardsOptions): Promise<PreparedPair> {
   const { member } = options;
   const clip = options.clips.get(item.clipId)!;
   const key = pairKey(item);
@@ -94,8 +98,12 @@ Promise<PreparedPair> {
   return { key, entries, tarBytes };
 }
 
-async function writeShard(batch: readonly PreparedPair[], index: number, split: SplitName, outDir: string):
-Promise<ShardSummary> {
+async function writeShard(
+  batch: readonly PreparedPair[],
+  index: number,
+  split: SplitName,
+  outDir: string,
+): Promise<ShardSummary> {
   const file = shardFileName(split, index);
   const sink = openShard(path.join(outDir, file));
   const entries = batch.flatMap((pair) => pair.entries);
@@ -112,8 +120,11 @@ Promise<ShardSummary> {
       reads[i] = null;
     }
     const digest = await sink.close();
-    await Promise.all(entries.filter((entry) => entry.staged)
-      .map((entry) => fs.promises.rm((entry.member as MemberFile).file, { force: true })));
+    await Promise.all(
+      entries
+        .filter((entry) => entry.staged)
+        .map((entry) => fs.promises.rm((entry.member as MemberFile).file, { force: true })),
+    );
     return { index, file, split, pairCount: batch.length, bytes: digest.bytes, sha256: digest.sha256 };
   } catch (error) {
     await sink.abort(error as Error);

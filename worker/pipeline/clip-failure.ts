@@ -23,17 +23,26 @@ export async function recordClipFailure(
     ? failure.message
     : `Processing failed ${job.attempts} times in the ${stage} stage. The last error was: ${failure.message}`;
   await clip.update({ state: stateAfterFailure(clip.state), stage, error }, { transaction });
-  await recordAudit({
-    actorId: null, action: 'clip.processing_failed', targetType: 'clip', targetId: clip.id,
-    detail: { stage, message: error, jobId: job.id },
-  }, transaction);
+  await recordAudit(
+    {
+      actorId: null,
+      action: 'clip.processing_failed',
+      targetType: 'clip',
+      targetId: clip.id,
+      detail: { stage, message: error, jobId: job.id },
+    },
+    transaction,
+  );
   const uploader = await User.findByPk(clip.uploaderId, { transaction });
   if (!uploader) return;
-  await queueMail({
-    to: uploader.email,
-    template: 'clip-failed',
-    data: { name: uploader.name, clipId: clip.id, originalName: clip.originalName, stage, message: error },
-  }, { transaction, publicUrl: context.config.publicUrl });
+  await queueMail(
+    {
+      to: uploader.email,
+      template: 'clip-failed',
+      data: { name: uploader.name, clipId: clip.id, originalName: clip.originalName, stage, message: error },
+    },
+    { transaction, publicUrl: context.config.publicUrl },
+  );
 }
 
 function stateAfterFailure(state: ClipState): ClipState {

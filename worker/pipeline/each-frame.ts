@@ -17,12 +17,14 @@ export async function forEachFrame<R>(
   context.signal.addEventListener('abort', stop, { once: true });
   let done = 0;
   try {
-    return await Promise.all(Array.from({ length: count }, async (_, index) => {
-      const result = await task(index, controller.signal);
-      done += 1;
-      context.progress(done / count);
-      return result;
-    }));
+    return await Promise.all(
+      Array.from({ length: count }, async (_, index) => {
+        const result = await task(index, controller.signal);
+        done += 1;
+        context.progress(done / count);
+        return result;
+      }),
+    );
   } catch (error) {
     controller.abort(error);
     throw error;

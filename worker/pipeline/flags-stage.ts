@@ -18,30 +18,55 @@ export const flagsStage: PipelineStage = {
     const { clip, settings } = context;
     const frames = await Frame.findAll({ where: { clipId: clip.id }, order: [['index', 'ASC']] });
     const hashes = frames.map((frame) => hexToHash(measured(frame.dhash, frame.index)));
-    const duplicate = await nearestDuplicate(clip.projectId, clip.id, hashes,
-      settings.flagThresholds.duplicateHashDistance);
+    const duplicate = await nearestDuplicate(
+      clip.projectId,
+      clip.id,
+      hashes,
+      settings.flagThresholds.duplicateHashDistance,
+    );
     const motion = await forwardMotion(clip.id, frames.length);
-    const raised = clipFlags({
-      durationS: clip.durationS,
-      frames: frames.map(flagSignals),
-      motion,
-      duplicateShare: duplicate?.share ?? null,
-    }, settings.flagThresholds);
-    const flagDetails: ClipFlagDetail[] = raised.map((flag) => (flag.flag === 'duplicate' && duplicate
-      ? { ...flag, matchClipId: duplicate.clipId }
-      : { ...flag }));
+    const raised = clipFlags(
+      {
+        durationS: clip.durationS,
+        frames: frames.map(flagSignals),
+        motion,
+        duplicateShare: duplicate?.share ?? null,
+      },
+      settings.flagThresholds,
+    );
+    const flagDetails: ClipFlagDetail[] = raised.map((flag) =>
+      flag.flag === 'duplicate' && duplicate ? { ...flag, matchClipId: duplicate.clipId } : { ...flag },
+    );
     const flags = flagDetails.map((detail) => detail.flag);
     // What the review queue sorts by: mean motion, consistent share, usable pairs (shared/review/clip-signals.ts).
-    const moments = frames.map((frame) => ({ index: frame.index, cutBefore: frame.cutBefore, motion: motion[frame.index] }));
+    const moments = frames.map((frame) => ({
+      index: frame.index,
+      cutBefore: frame.cutBefore,
+      motion: motion[frame.index],
+    }));
     const review = clipReviewSignals(moments, context.project.deltas);
     await context.commit(async (transaction) => {
-      await Clip.update({
-        flags, flagDetails, ...review, state: stateAfterProcessing(clip.state), stage: null, error: null,
-      }, { where: { id: clip.id }, transaction });
-      await recordAudit({
-        actorId: null, action: 'clip.processed', targetType: 'clip', targetId: clip.id,
-        detail: { frameCount: frames.length, cutCount: clip.cutCount, flags },
-      }, transaction);
+      await Clip.update(
+        {
+          flags,
+          flagDetails,
+          ...review,
+          state: stateAfterProcessing(clip.state),
+          stage: null,
+          error: null,
+        },
+        { where: { id: clip.id }, transaction },
+      );
+      await recordAudit(
+        {
+          actorId: null,
+          action: 'clip.processed',
+          targetType: 'clip',
+          targetId: clip.id,
+          detail: { frameCount: frames.length, cutCount: clip.cutCount, flags },
+        },
+        transaction,
+      );
     });
   },
 };

@@ -26,7 +26,9 @@ export const motionStage: PipelineStage = {
     const { clip, project, pool, paths } = context;
     const { estimator, params } = motionSettings(project);
     const frames = await Frame.findAll({
-      where: { clipId: clip.id }, order: [['index', 'ASC']], attributes: ['index', 'cutBefore'],
+      where: { clipId: clip.id },
+      order: [['index', 'ASC']],
+      attributes: ['index', 'cutBefore'],
     });
     const runs = splitRuns(neighbourRuns(frames), pool.threads);
     const layout = paths.clipDerived(clip.id);
@@ -36,30 +38,44 @@ export const motionStage: PipelineStage = {
     const estimated = await forEachFrame(runs.length, share(context, 0, FIELDS_SHARE), (r, signal) => {
       const { first, pairs } = runs[r]!;
       const from = Array.from({ length: pairs }, (_, k) => first + k);
-      return pool.estimateMotionRun({
-        frameFiles: [...from, first + pairs].map(layout.frame),
-        estimator,
-        params,
-        forwardFiles: from.map(work.layout.motionFlo),
-        backwardFiles: from.map(work.layout.motionBackwardFlo),
-      }, signal);
+      return pool.estimateMotionRun(
+        {
+          frameFiles: [...from, first + pairs].map(layout.frame),
+          estimator,
+          params,
+          forwardFiles: from.map(work.layout.motionFlo),
+          backwardFiles: from.map(work.layout.motionBackwardFlo),
+        },
+        signal,
+      );
     });
     const fields = runs.flatMap((run, r) => estimated[r]!.map((pair, k) => ({ fromIndex: run.first + k, ...pair })));
     const cuts = new Set(frames.filter((frame) => frame.cutBefore).map((frame) => frame.index));
-    const maxMotion = clipMotionScale(fields.map((f) => ({ fromIndex: f.fromIndex, ...f.forward })), cuts)?.pxPerStep
-      ?? 0;
+    const maxMotion =
+      clipMotionScale(
+        fields.map((f) => ({ fromIndex: f.fromIndex, ...f.forward })),
+        cuts,
+      )?.pxPerStep ?? 0;
     await forEachFrame(fields.length, share(context, FIELDS_SHARE, 1 - FIELDS_SHARE), (i, signal) => {
       const { fromIndex } = fields[i]!;
-      return pool.writeMotionPicture({
-        floFile: work.layout.motionFlo(fromIndex), pictureFile: work.layout.motionPicture(fromIndex), maxMotion,
-      }, signal);
+      return pool.writeMotionPicture(
+        {
+          floFile: work.layout.motionFlo(fromIndex),
+          pictureFile: work.layout.motionPicture(fromIndex),
+          maxMotion,
+        },
+        signal,
+      );
     });
 
     await work.moveIntoPlace(layout, ['motionDir']);
     const recorded = { clipId: clip.id, estimator, params: params as unknown as MotionField['params'] };
     await context.commit(async (transaction) => {
       await MotionField.destroy({ where: { clipId: clip.id }, transaction });
-      await MotionField.bulkCreate(fields.flatMap((field) => rows(field, recorded)), { transaction });
+      await MotionField.bulkCreate(
+        fields.flatMap((field) => rows(field, recorded)),
+        { transaction },
+      );
     });
   },
 };
@@ -69,8 +85,13 @@ function rows(
   { fromIndex, forward, backward }: PairMotion & { fromIndex: number },
   recorded: Pick<MotionField, 'clipId' | 'estimator' | 'params'>,
 ) {
-  const row = (from: number, to: number, direction: MotionField['direction'], summary: FieldSummary) =>
-    ({ ...recorded, fromIndex: from, toIndex: to, direction, ...summary });
+  const row = (from: number, to: number, direction: MotionField['direction'], summary: FieldSummary) => ({
+    ...recorded,
+    fromIndex: from,
+    toIndex: to,
+    direction,
+    ...summary,
+  });
   return [row(fromIndex, fromIndex + 1, 'forward', forward), row(fromIndex + 1, fromIndex, 'backward', backward)];
 }
 

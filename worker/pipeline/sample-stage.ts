@@ -2,7 +2,12 @@ import fs from 'node:fs';
 import { Clip, Frame, MotionField } from '../../server/core/models';
 import { FinalJobError } from '../jobs/job-errors';
 import {
-  encodePreview, MediaError, probeMedia, sampleFrames, type RunOptions, type SampledFrames,
+  encodePreview,
+  MediaError,
+  probeMedia,
+  sampleFrames,
+  type RunOptions,
+  type SampledFrames,
 } from '../../server/core/media/ffmpeg';
 import { writeThumbnail } from '../media/frame-images';
 import { workingFrameSize } from './frame-size';
@@ -41,8 +46,14 @@ export const sampleStage: PipelineStage = {
 
     // A clip shorter than one sampling step (a single frame, a blink of the trigger) still gives its first frame.
     const keepLast = clip.durationS * settings.sampleFps < 1;
-    const sampled = await readable(() => sampleFrames(source, work.layout.framePattern,
-      { fps: settings.sampleFps, size, keepLast }, media(0, FRAMES_SHARE)));
+    const sampled = await readable(() =>
+      sampleFrames(
+        source,
+        work.layout.framePattern,
+        { fps: settings.sampleFps, size, keepLast },
+        media(0, FRAMES_SHARE),
+      ),
+    );
     const timesS = await checkFrames(sampled, work.layout.framesDir, await videoDurationS(source, clip), context);
     await readable(() => encodePreview(source, work.layout.preview, size, media(FRAMES_SHARE, 1 - FRAMES_SHARE)));
     await writeThumbnail(work.layout.frame(Math.floor(timesS.length / 2)), work.layout.thumbnail);
@@ -50,14 +61,26 @@ export const sampleStage: PipelineStage = {
     await work.moveIntoPlace(paths.clipDerived(clip.id), ['framesDir', 'preview', 'thumbsDir']);
     await context.commit(async (transaction) => {
       await Frame.destroy({ where: { clipId: clip.id }, transaction });
-      await Frame.bulkCreate(timesS.map((timeS, index) => ({ clipId: clip.id, index, timeS })), { transaction });
+      await Frame.bulkCreate(
+        timesS.map((timeS, index) => ({ clipId: clip.id, index, timeS })),
+        { transaction },
+      );
       // Fields of the old frames do not describe the new ones; the Motion stage makes them again.
       await MotionField.destroy({ where: { clipId: clip.id }, transaction });
       // New frames make earlier signals, counts and flags stale until the later stages measure them again.
-      await Clip.update({
-        frameCount: timesS.length, hasPreview: true, hasThumbnail: true,
-        cutCount: null, medianSharpness: null, meanLuma: null, flags: [], flagDetails: [],
-      }, { where: { id: clip.id }, transaction });
+      await Clip.update(
+        {
+          frameCount: timesS.length,
+          hasPreview: true,
+          hasThumbnail: true,
+          cutCount: null,
+          medianSharpness: null,
+          meanLuma: null,
+          flags: [],
+          flagDetails: [],
+        },
+        { where: { id: clip.id }, transaction },
+      );
     });
   },
 };
@@ -68,8 +91,10 @@ async function readable<T>(step: () => Promise<T>): Promise<T> {
     return await step();
   } catch (error) {
     if (error instanceof MediaError && error.signal === null) {
-      throw new FinalJobError(`ffmpeg cannot read this file (${error.message.replace(/^ffmpeg failed: /, '')}). `
-        + 'Export or copy it again from the camera and upload it anew.');
+      throw new FinalJobError(
+        `ffmpeg cannot read this file (${error.message.replace(/^ffmpeg failed: /, '')}). ` +
+          'Export or copy it again from the camera and upload it anew.',
+      );
     }
     throw error;
   }
@@ -93,8 +118,10 @@ async function checkFrames(
   const { timesS, problems } = sampled;
   const reason = problems[0] ? ` (ffmpeg: ${problems[0].replace(/^\[[^\]]*\]\s*/, '')})` : '';
   if (timesS.length === 0) {
-    throw new FinalJobError(`No frame of this file could be decoded${reason}. Export or copy it again from the `
-      + 'camera and upload it anew.');
+    throw new FinalJobError(
+      `No frame of this file could be decoded${reason}. Export or copy it again from the ` +
+        'camera and upload it anew.',
+    );
   }
   const files = (await fs.promises.readdir(framesDir)).length;
   if (files !== timesS.length || timesS.findIndex((time) => time === undefined) !== -1) {
@@ -102,8 +129,10 @@ async function checkFrames(
   }
   const decodedS = timesS[timesS.length - 1]! + 1 / settings.sampleFps;
   if (decodedS < durationS - Math.max(DECODE_SHORTFALL_S, 2 / settings.sampleFps)) {
-    throw new FinalJobError(`Only the first ${decodedS.toFixed(1)} s of ${durationS.toFixed(1)} s could be decoded`
-      + `${reason}; the file is damaged. Export or copy it again from the camera and upload it anew.`);
+    throw new FinalJobError(
+      `Only the first ${decodedS.toFixed(1)} s of ${durationS.toFixed(1)} s could be decoded` +
+        `${reason}; the file is damaged. Export or copy it again from the camera and upload it anew.`,
+    );
   }
   return timesS;
 }

@@ -16,7 +16,8 @@ export const signalsStage: PipelineStage = {
     const frames = await Frame.findAll({ where: { clipId: clip.id }, order: [['index', 'ASC']] });
     const layout = paths.clipDerived(clip.id);
     const measured = await forEachFrame(frames.length, context, (index, signal) =>
-      pool.measureFrame({ frameFile: layout.frame(index), cutBins: settings.cutBins }, signal));
+      pool.measureFrame({ frameFile: layout.frame(index), cutBins: settings.cutBins }, signal),
+    );
     const cuts = await detectClipCuts(clip.id, measured, settings.cutThreshold, context);
     const rows = frames.map((frame, index) => {
       const { signals, dhash } = measured[index]!;
@@ -38,11 +39,14 @@ export const signalsStage: PipelineStage = {
     await context.commit(async (transaction) => {
       await Frame.destroy({ where: { clipId: clip.id }, transaction });
       await Frame.bulkCreate(rows, { transaction });
-      await Clip.update({
-        cutCount: countTransitions(cuts.cutBefore),
-        medianSharpness: median(rows.map((row) => row.sharpness)),
-        meanLuma: rows.reduce((sum, row) => sum + row.meanLuma, 0) / Math.max(1, rows.length),
-      }, { where: { id: clip.id }, transaction });
+      await Clip.update(
+        {
+          cutCount: countTransitions(cuts.cutBefore),
+          medianSharpness: median(rows.map((row) => row.sharpness)),
+          meanLuma: rows.reduce((sum, row) => sum + row.meanLuma, 0) / Math.max(1, rows.length),
+        },
+        { where: { id: clip.id }, transaction },
+      );
     });
   },
 };

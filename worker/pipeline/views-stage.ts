@@ -14,11 +14,16 @@ export const viewsStage: PipelineStage = {
     const layout = paths.clipDerived(clip.id);
     const work = await context.workDir();
     for (const view of STORED_VIEWS) await fs.promises.mkdir(work.layout.viewDir(view), { recursive: true });
-    await forEachFrame(clip.frameCount ?? 0, context, (index, signal) => pool.writeFrameViews({
-      frameFile: layout.frame(index),
-      lumaFile: work.layout.view('luma', index),
-      chromaFile: work.layout.view('chroma', index),
-    }, signal));
+    await forEachFrame(clip.frameCount ?? 0, context, (index, signal) =>
+      pool.writeFrameViews(
+        {
+          frameFile: layout.frame(index),
+          lumaFile: work.layout.view('luma', index),
+          chromaFile: work.layout.view('chroma', index),
+        },
+        signal,
+      ),
+    );
     await work.moveIntoPlace(layout, ['viewsDir']);
     await context.commit();
   },

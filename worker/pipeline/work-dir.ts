@@ -41,8 +41,11 @@ export async function openWorkDir(clipDir: string, stage: string): Promise<WorkD
 /** Removes the work folders an interrupted attempt left in a clip folder. */
 export async function removeLeftoverWorkDirs(clipDir: string): Promise<void> {
   const entries = await fs.promises.readdir(clipDir).catch(() => [] as string[]);
-  await Promise.all(entries.filter((name) => name.startsWith(WORK_DIR_PREFIX))
-    .map((name) => fs.promises.rm(path.join(clipDir, name), { recursive: true, force: true })));
+  await Promise.all(
+    entries
+      .filter((name) => name.startsWith(WORK_DIR_PREFIX))
+      .map((name) => fs.promises.rm(path.join(clipDir, name), { recursive: true, force: true })),
+  );
 }
 
 async function moveAside(from: string, to: string): Promise<void> {

@@ -39,8 +39,12 @@ export function runCriticTask(task: CriticTask): CriticOutcome {
   const { critic } = trained;
   return {
     training: {
-      steps: task.options.steps, batch: trained.batch, fitPairs: trained.fitPairs, stopPairs: trained.stopPairs,
-      keptStep: trained.keptStep, curve: trained.curve,
+      steps: task.options.steps,
+      batch: trained.batch,
+      fitPairs: trained.fitPairs,
+      stopPairs: trained.stopPairs,
+      keptStep: trained.keptStep,
+      curve: trained.curve,
     },
     results: task.ks.map((k) => ({
       k,

@@ -12,8 +12,9 @@ import { estimateMotionRun, writeMotionPicture, type MotionTask, type PairMotion
 
 sharp.concurrency(1);
 
-export default function runFrameTask(task: FrameTask | MotionTask | CutPairsTask | CriticTask):
-Promise<FrameMeasurement | PairMotion[] | PairEvidence[] | CriticOutcome | void> {
+export default function runFrameTask(
+  task: FrameTask | MotionTask | CutPairsTask | CriticTask,
+): Promise<FrameMeasurement | PairMotion[] | PairEvidence[] | CriticOutcome | void> {
   switch (task.kind) {
     case 'measure':
       return measureFrame(task);

@@ -74,7 +74,11 @@ export async function estimateMotionRun(task: MotionRunTask): Promise<PairMotion
 }
 
 async function storePair(
-  fields: NeighbourFields, width: number, height: number, forwardFile: string, backwardFile: string,
+  fields: NeighbourFields,
+  width: number,
+  height: number,
+  forwardFile: string,
+  backwardFile: string,
 ): Promise<PairMotion> {
   const pixels = width * height;
   if (maskBuffer.length !== pixels) maskBuffer = new Uint8Array(pixels);

@@ -7,7 +7,9 @@ import { renewLease, type Lease } from '../../server/core/jobs/claim';
 export function startHeartbeat(lease: Lease, leaseMs: number, onLost: () => void): { stop(): void } {
   const timer = setInterval(() => {
     renewLease(lease, leaseMs).then(
-      (held) => { if (!held) onLost(); },
+      (held) => {
+        if (!held) onLost();
+      },
       (error: unknown) => console.warn(`Kinefold worker: lease of job ${lease.jobId} not renewed: ${error}`),
     );
   }, leaseMs / 3);

@@ -58,8 +58,10 @@ export function createJobRuntime(options: JobRuntimeOptions): JobRuntime {
     try {
       const policy = RETRY_POLICIES[job.kind];
       if (job.attempts > policy.maxClaims) {
-        throw new FinalJobError(`The worker stopped ${job.attempts - 1} times while processing this; it is `
-          + 'not tried again. An admin can start it again once the cause is found.');
+        throw new FinalJobError(
+          `The worker stopped ${job.attempts - 1} times while processing this; it is ` +
+            'not tried again. An admin can start it again once the cause is found.',
+        );
       }
       await handlerFor(handlers, job.kind).run(claimed, context);
       // A handler may have finished the job in its last transaction already; then this changes nothing.

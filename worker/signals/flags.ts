@@ -76,26 +76,51 @@ const CHECKS: { [F in FlagName]: FlagCheck } = {
   dark: (input, t) =>
     below('dark', MEASURES.meanLuma, medianOf(input, 'meanLuma'), t.darkMeanLuma, 'The footage is dark'),
   overexposed: (input, t) =>
-    above('overexposed', MEASURES.clippedHigh, medianOf(input, 'clippedHighShare'), t.overexposedClippedShare,
-      'Too many pixels are blown to white')
-    ?? above('overexposed', MEASURES.meanLuma, medianOf(input, 'meanLuma'), t.overexposedMeanLuma,
-      'The footage is overexposed'),
+    above(
+      'overexposed',
+      MEASURES.clippedHigh,
+      medianOf(input, 'clippedHighShare'),
+      t.overexposedClippedShare,
+      'Too many pixels are blown to white',
+    ) ??
+    above(
+      'overexposed',
+      MEASURES.meanLuma,
+      medianOf(input, 'meanLuma'),
+      t.overexposedMeanLuma,
+      'The footage is overexposed',
+    ),
   blurry: (input, t) =>
-    below('blurry', MEASURES.sharpness, medianOf(input, 'sharpness'), t.blurryLaplacianVariance,
-      'The footage is blurry'),
+    below(
+      'blurry',
+      MEASURES.sharpness,
+      medianOf(input, 'sharpness'),
+      t.blurryLaplacianVariance,
+      'The footage is blurry',
+    ),
   static: (input, t) =>
-    below('static', MEASURES.motion, median(presentFields(input).map((m) => m.meanMagnitude)),
-      t.staticMeanMagnitude, 'Almost nothing moves'),
+    below(
+      'static',
+      MEASURES.motion,
+      median(presentFields(input).map((m) => m.meanMagnitude)),
+      t.staticMeanMagnitude,
+      'Almost nothing moves',
+    ),
   short: (input, t) =>
-    below('short', MEASURES.duration, input.durationS, t.shortDurationS, 'The clip is short')
-    ?? below('short', MEASURES.frames, input.frames.length, t.shortFrames, 'The clip has few frames'),
+    below('short', MEASURES.duration, input.durationS, t.shortDurationS, 'The clip is short') ??
+    below('short', MEASURES.frames, input.frames.length, t.shortFrames, 'The clip has few frames'),
   'cut-heavy': (input, t) =>
     above('cut-heavy', MEASURES.cuts, cutsPerMinute(input), t.cutHeavyPerMinute, 'The clip has many scene cuts'),
   shaky: (input, t) =>
     above('shaky', MEASURES.jitter, median(globalMotionJitter(input.motion)), t.shakyJitter, 'The camera shakes'),
   duplicate: (input, t) =>
-    above('duplicate', MEASURES.duplicate, input.duplicateShare ?? Number.NaN, t.duplicateShare,
-      `Frames match another clip within ${t.duplicateHashDistance} of 64 hash bits`),
+    above(
+      'duplicate',
+      MEASURES.duplicate,
+      input.duplicateShare ?? Number.NaN,
+      t.duplicateShare,
+      `Frames match another clip within ${t.duplicateHashDistance} of 64 hash bits`,
+    ),
 };
 
 /** All flags the signals raise, in the order of FLAG_NAMES. */

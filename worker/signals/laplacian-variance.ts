@@ -12,8 +12,13 @@
 
 /** Variance of the 4-neighbour Laplacian of a grey image stored row by row. */
 export function laplacianVariance(grey: Float32Array, width: number, height: number): number {
-  if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1
-    || grey.length !== width * height) {
+  if (
+    !Number.isInteger(width) ||
+    !Number.isInteger(height) ||
+    width < 1 ||
+    height < 1 ||
+    grey.length !== width * height
+  ) {
     throw new RangeError(`grey buffer of ${grey.length} values does not match ${width}×${height}`);
   }
   let sum = 0;

@@ -12,12 +12,14 @@ function whereOf(query: AuditExportQuery): WhereOptions<AuditEvent> {
     ...(query.action ? { action: query.action } : {}),
     ...(query.targetType ? { targetType: query.targetType } : {}),
     ...(query.targetId ? { targetId: query.targetId } : {}),
-    ...(query.from || query.to ? {
-      at: {
-        ...(query.from ? { [Op.gte]: new Date(query.from) } : {}),
-        ...(query.to ? { [Op.lte]: new Date(query.to) } : {}),
-      },
-    } : {}),
+    ...(query.from || query.to
+      ? {
+          at: {
+            ...(query.from ? { [Op.gte]: new Date(query.from) } : {}),
+            ...(query.to ? { [Op.lte]: new Date(query.to) } : {}),
+          },
+        }
+      : {}),
   };
 }
 
@@ -40,8 +42,14 @@ export async function listAudit(query: AuditListQuery): Promise<ListPage<AuditEn
   const direction = query.sort?.startsWith('-') || !query.sort ? 'DESC' : 'ASC';
   const field = query.sort?.replace(/^-/, '') ?? 'at';
   const { rows, count } = await AuditEvent.findAndCountAll({
-    where: whereOf(query), include: [ACTOR], order: [[field, direction], ['id', direction]],
-    limit: query.pageSize, offset: (query.page - 1) * query.pageSize,
+    where: whereOf(query),
+    include: [ACTOR],
+    order: [
+      [field, direction],
+      ['id', direction],
+    ],
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
   });
   return { items: rows.map(toEntry), total: count, page: query.page, pageSize: query.pageSize };
 }
@@ -62,12 +70,22 @@ export async function* auditCsvLines(query: AuditExportQuery): AsyncGenerator<st
   for (;;) {
     const batch = await AuditEvent.findAll({
       where: { ...whereOf(query), id: { [Op.gt]: afterId } } as WhereOptions<AuditEvent>,
-      include: [ACTOR], order: [['id', 'ASC']], limit: EXPORT_BATCH,
+      include: [ACTOR],
+      order: [['id', 'ASC']],
+      limit: EXPORT_BATCH,
     });
     for (const event of batch) {
       const entry = toEntry(event);
-      yield `${[entry.at, entry.actorName ?? 'Kinefold', entry.action, entry.targetType, entry.targetId ?? '',
-        JSON.stringify(entry.detail)].map(csvField).join(',')}\r\n`;
+      yield `${[
+        entry.at,
+        entry.actorName ?? 'Kinefold',
+        entry.action,
+        entry.targetType,
+        entry.targetId ?? '',
+        JSON.stringify(entry.detail),
+      ]
+        .map(csvField)
+        .join(',')}\r\n`;
     }
     if (batch.length < EXPORT_BATCH) return;
     afterId = batch[batch.length - 1]!.id;

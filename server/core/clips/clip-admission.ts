@@ -57,9 +57,11 @@ export async function admitUpload(
 async function refuseDuplicate(upload: ReceivedUpload, originalName: string): Promise<void> {
   const existing = await Clip.findOne({ where: { projectId: upload.fields.projectId, sha256: upload.sha256 } });
   if (existing) {
-    throw conflict('duplicate_clip',
+    throw conflict(
+      'duplicate_clip',
       `${originalName} is already in this project as clip ${existing.id} ("${existing.originalName}").`,
-      { clipId: existing.id });
+      { clipId: existing.id },
+    );
   }
 }
 
@@ -71,33 +73,45 @@ interface ClipFacts {
 }
 
 async function commitClip(
-  upload: ReceivedUpload, facts: ClipFacts, paths: StoragePaths, publicUrl: string,
+  upload: ReceivedUpload,
+  facts: ClipFacts,
+  paths: StoragePaths,
+  publicUrl: string,
 ): Promise<Clip> {
   const { fields } = upload;
   let clipId: number | null = null;
   const clip = await Clip.sequelize!.transaction(async (transaction) => {
-    const created = await Clip.create({
-      projectId: fields.projectId,
-      uploaderId: facts.uploaderId,
-      originalName: facts.originalName,
-      sizeBytes: upload.size,
-      storedBytes: upload.size,
-      sha256: upload.sha256,
-      sourceExt: facts.ext,
-      state: 'queued',
-      ...facts.probe,
-      site: fields.site,
-      rig: fields.rig,
-      capturedAt: fields.capturedAt ? new Date(fields.capturedAt) : null,
-      tags: fields.tags,
-      notes: fields.notes,
-    }, { transaction });
+    const created = await Clip.create(
+      {
+        projectId: fields.projectId,
+        uploaderId: facts.uploaderId,
+        originalName: facts.originalName,
+        sizeBytes: upload.size,
+        storedBytes: upload.size,
+        sha256: upload.sha256,
+        sourceExt: facts.ext,
+        state: 'queued',
+        ...facts.probe,
+        site: fields.site,
+        rig: fields.rig,
+        capturedAt: fields.capturedAt ? new Date(fields.capturedAt) : null,
+        tags: fields.tags,
+        notes: fields.notes,
+      },
+      { transaction },
+    );
     clipId = created.id;
     await enqueueJob('process-clip', { clipId: created.id }, { transaction });
-    await recordAudit({
-      actorId: facts.uploaderId, action: 'clip.upload', targetType: 'clip', targetId: created.id,
-      detail: { originalName: facts.originalName, sizeBytes: upload.size, projectId: fields.projectId },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId: facts.uploaderId,
+        action: 'clip.upload',
+        targetType: 'clip',
+        targetId: created.id,
+        detail: { originalName: facts.originalName, sizeBytes: upload.size, projectId: fields.projectId },
+      },
+      transaction,
+    );
     await releaseUpload(upload.reservationId, transaction);
     await checkQuotaThresholds(fields.projectId, facts.uploaderId, publicUrl, transaction);
     // The rename is one metadata operation on the same volume: done last inside the transaction, so the row
@@ -110,6 +124,11 @@ async function commitClip(
     if (clipId !== null) await fs.promises.rm(paths.clipDir(clipId), { recursive: true, force: true });
     throw error;
   });
-  await clip.reload({ include: [{ model: Project, as: 'project' }, { model: User, as: 'uploader' }] });
+  await clip.reload({
+    include: [
+      { model: Project, as: 'project' },
+      { model: User, as: 'uploader' },
+    ],
+  });
   return clip;
 }

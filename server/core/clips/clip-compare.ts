@@ -13,12 +13,16 @@ export async function compareClips(clipId: number, otherId: number): Promise<Dup
   if (clipId === otherId) throw badRequest('same_clip', `Clip ${clipId} cannot be compared with itself.`);
   const [clip, other] = await Promise.all([existingClip(clipId), existingClip(otherId)]);
   const [hashes, otherHashes, project] = await Promise.all([
-    frameHashes(clipId), frameHashes(otherId), Project.findByPk(clip.projectId),
+    frameHashes(clipId),
+    frameHashes(otherId),
+    Project.findByPk(clip.projectId),
   ]);
   const thresholds = { ...DEFAULT_FLAG_THRESHOLDS, ...project?.flagThresholds };
   return {
-    clip: compared(clip, hashes.length), other: compared(other, otherHashes.length),
-    maxDistance: thresholds.duplicateHashDistance, ...alignDuplicate(hashes, otherHashes),
+    clip: compared(clip, hashes.length),
+    other: compared(other, otherHashes.length),
+    maxDistance: thresholds.duplicateHashDistance,
+    ...alignDuplicate(hashes, otherHashes),
   };
 }
 

@@ -24,8 +24,10 @@ export async function listFrames(clipId: number): Promise<ClipFrameList> {
   return {
     items: frames.map((frame) => frame.toApi(fields.get(frame.index)?.toFrameMotion() ?? null)),
     total: frames.length,
-    motionScale: clipMotionScale([...fields.values()],
-      new Set(frames.filter((frame) => frame.cutBefore).map((frame) => frame.index))),
+    motionScale: clipMotionScale(
+      [...fields.values()],
+      new Set(frames.filter((frame) => frame.cutBefore).map((frame) => frame.index)),
+    ),
   };
 }
 
@@ -36,8 +38,10 @@ export async function framePath(clipId: number, index: number, paths: StoragePat
 
 export async function viewPath(clipId: number, index: number, view: StoredView, paths: StoragePaths) {
   await existingFrame(clipId, index);
-  return existingFile(paths.clipDerived(clipId).view(view, index),
-    `The ${view} view of frame ${index} of clip ${clipId} (views are made after the signals stage)`);
+  return existingFile(
+    paths.clipDerived(clipId).view(view, index),
+    `The ${view} view of frame ${index} of clip ${clipId} (views are made after the signals stage)`,
+  );
 }
 
 export async function thumbnailPath(clipId: number, paths: StoragePaths): Promise<string> {
@@ -65,12 +69,16 @@ export async function clipProgress(clipId: number): Promise<ClipProgress> {
 export async function reprocessClip(clipId: number, actorId: number): Promise<ClipProgress> {
   const clip = await existingClip(clipId);
   if (clip.purgedAt) {
-    throw new AppError(HttpStatus.GONE, 'purged',
-      `Clip ${clipId}'s footage was purged on ${clip.purgedAt.toISOString()}; there is nothing to process.`);
+    throw new AppError(
+      HttpStatus.GONE,
+      'purged',
+      `Clip ${clipId}'s footage was purged on ${clip.purgedAt.toISOString()}; there is nothing to process.`,
+    );
   }
   await Clip.sequelize!.transaction(async (transaction) => {
     const active = await Job.findOne({
-      where: { clipId, kind: 'process-clip', state: { [Op.in]: ['queued', 'running'] } }, transaction,
+      where: { clipId, kind: 'process-clip', state: { [Op.in]: ['queued', 'running'] } },
+      transaction,
     });
     if (active) {
       throw conflict('already_processing', `Clip ${clipId} is being processed already (job ${active.id}).`);
@@ -78,9 +86,16 @@ export async function reprocessClip(clipId: number, actorId: number): Promise<Cl
     await enqueueJob('process-clip', { clipId }, { transaction });
     const reviewed = clip.state === 'accepted' || clip.state === 'rejected';
     await clip.update({ state: reviewed ? clip.state : 'queued', stage: null, error: null }, { transaction });
-    await recordAudit({
-      actorId, action: 'clip.reprocess', targetType: 'clip', targetId: clipId, detail: { previousState: clip.state },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId,
+        action: 'clip.reprocess',
+        targetType: 'clip',
+        targetId: clipId,
+        detail: { previousState: clip.state },
+      },
+      transaction,
+    );
   });
   return clipProgress(clipId);
 }

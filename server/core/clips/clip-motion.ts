@@ -15,17 +15,20 @@ export type MotionFile = 'picture' | 'flo';
 export async function motionFieldPath(clipId: number, index: number, file: MotionFile, paths: StoragePaths) {
   await existingClip(clipId);
   const frames = await Frame.findAll({
-    where: { clipId, index: { [Op.in]: [index, index + 1] } }, attributes: ['index', 'cutBefore'],
+    where: { clipId, index: { [Op.in]: [index, index + 1] } },
+    attributes: ['index', 'cutBefore'],
   });
   const next = frames.find((frame) => frame.index === index + 1);
   if (!frames.some((frame) => frame.index === index)) throw notFound(`Frame ${index} of clip ${clipId}`);
   if (!next) throw noField(`Frame ${index} is the last frame of clip ${clipId}, so no motion field starts there.`);
   if (next.cutBefore) {
-    throw noField(`A cut lies between frames ${index} and ${index + 1} of clip ${clipId}, and no motion field `
-      + 'spans a cut.');
+    throw noField(
+      `A cut lies between frames ${index} and ${index + 1} of clip ${clipId}, and no motion field ` + 'spans a cut.',
+    );
   }
-  const what = `The motion field from frame ${index} to ${index + 1} of clip ${clipId} (fields are made after the `
-    + 'signals stage)';
+  const what =
+    `The motion field from frame ${index} to ${index + 1} of clip ${clipId} (fields are made after the ` +
+    'signals stage)';
   if (!(await MotionField.findOne({ where: { clipId, fromIndex: index, direction: 'forward' }, attributes: ['id'] }))) {
     throw notFound(what);
   }

@@ -32,19 +32,35 @@ export async function listClips(query: ClipListQuery): Promise<ListPage<ClipSumm
   if (query.capturedFrom) conditions.push({ capturedAt: { [Op.gte]: new Date(query.capturedFrom) } });
   if (query.capturedTo) conditions.push({ capturedAt: { [Op.lte]: new Date(query.capturedTo) } });
   if (query.tag) {
-    conditions.push(literal(`EXISTS (SELECT 1 FROM json_each(\`Clip\`.\`tags\`) WHERE value = ${
-      sequelize.escape(query.tag.toLowerCase())})`) as unknown as WhereOptions<Clip>);
+    conditions.push(
+      literal(
+        `EXISTS (SELECT 1 FROM json_each(\`Clip\`.\`tags\`) WHERE value = ${sequelize.escape(
+          query.tag.toLowerCase(),
+        )})`,
+      ) as unknown as WhereOptions<Clip>,
+    );
   }
   if (query.q) conditions.push(containsText<Clip>(['Clip.originalName', 'Clip.notes'], query.q));
   const order: Order = query.sort
-    ? [[query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'DESC']]
-    : [['createdAt', 'DESC'], ['id', 'DESC']];
+    ? [
+        [query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'],
+        ['id', 'DESC'],
+      ]
+    : [
+        ['createdAt', 'DESC'],
+        ['id', 'DESC'],
+      ];
   const where = { [Op.and]: conditions };
   // The page is chosen and counted on clips alone (indexes apply), and only its rows are joined to their project,
   // uploader and verdict: joining first made SQLite sort and count the whole joined table on every request.
   const [ids, count] = await Promise.all([
     Clip.findAll({
-      attributes: ['id'], where, order, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, raw: true,
+      attributes: ['id'],
+      where,
+      order,
+      limit: query.pageSize,
+      offset: (query.page - 1) * query.pageSize,
+      raw: true,
     }),
     // The filter is all of the query but its page and order.
     reusedCount(`clips ${JSON.stringify({ ...query, page: 0, pageSize: 0, sort: '' })}`, () => Clip.count({ where })),
@@ -97,7 +113,10 @@ export async function getClipDetail(id: number, viewer: Viewer): Promise<ClipDet
   const events = await AuditEvent.findAll({
     where: { targetType: 'clip', targetId: String(id) },
     include: [{ model: User, as: 'actor', attributes: ['name'] }],
-    order: [['at', 'ASC'], ['id', 'ASC']],
+    order: [
+      ['at', 'ASC'],
+      ['id', 'ASC'],
+    ],
   });
   return {
     ...clip.toApi(),
@@ -116,17 +135,31 @@ export async function getClipDetail(id: number, viewer: Viewer): Promise<ClipDet
 export async function updateClipMetadata(id: number, patch: ClipPatch, viewer: Viewer): Promise<ClipDetail> {
   const clip = await findClip(id);
   if (!permissions(clip, viewer).edit) {
-    throw new AppError(HttpStatus.FORBIDDEN, 'forbidden',
-      'Only the uploader (until the clip is reviewed) or an admin can edit its capture metadata.');
+    throw new AppError(
+      HttpStatus.FORBIDDEN,
+      'forbidden',
+      'Only the uploader (until the clip is reviewed) or an admin can edit its capture metadata.',
+    );
   }
   await Clip.sequelize!.transaction(async (transaction) => {
-    await clip.update({
-      ...patch,
-      capturedAt: patch.capturedAt === undefined ? clip.capturedAt : patch.capturedAt ? new Date(patch.capturedAt) : null,
-    }, { transaction });
-    await recordAudit({
-      actorId: viewer.id, action: 'clip.edit', targetType: 'clip', targetId: id, detail: { changed: Object.keys(patch) },
-    }, transaction);
+    await clip.update(
+      {
+        ...patch,
+        capturedAt:
+          patch.capturedAt === undefined ? clip.capturedAt : patch.capturedAt ? new Date(patch.capturedAt) : null,
+      },
+      { transaction },
+    );
+    await recordAudit(
+      {
+        actorId: viewer.id,
+        action: 'clip.edit',
+        targetType: 'clip',
+        targetId: id,
+        detail: { changed: Object.keys(patch) },
+      },
+      transaction,
+    );
   });
   return getClipDetail(id, viewer);
 }
@@ -139,19 +172,25 @@ export async function removeClip(id: number, viewer: Viewer, paths: StoragePaths
   const clip = await findClip(id);
   const can = permissions(clip, viewer);
   if (!can.delete && !can.withdraw) {
-    throw new AppError(HttpStatus.FORBIDDEN, 'forbidden',
+    throw new AppError(
+      HttpStatus.FORBIDDEN,
+      'forbidden',
       clip.uploaderId === viewer.id
         ? 'This clip has been reviewed; only an admin can delete it now.'
-        : 'Only the uploader (before review) or an admin can remove this clip.');
+        : 'Only the uploader (before review) or an admin can remove this clip.',
+    );
   }
   await Clip.sequelize!.transaction(async (transaction) => {
-    await recordAudit({
-      actorId: viewer.id,
-      action: can.delete ? 'clip.delete' : 'clip.withdraw',
-      targetType: 'clip',
-      targetId: id,
-      detail: { originalName: clip.originalName, storedBytes: Number(clip.storedBytes), projectId: clip.projectId },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId: viewer.id,
+        action: can.delete ? 'clip.delete' : 'clip.withdraw',
+        targetType: 'clip',
+        targetId: id,
+        detail: { originalName: clip.originalName, storedBytes: Number(clip.storedBytes), projectId: clip.projectId },
+      },
+      transaction,
+    );
     await clip.destroy({ transaction });
   });
   await removeFolder(paths.clipDir(id));

@@ -19,17 +19,31 @@ export async function retentionCandidates(projectId: number, now = new Date()): 
     return { projectId, retentionDays: null, clips: [], totalBytes: 0 };
   }
   const cutoff = new Date(now.getTime() - project.retentionDays * DAY_MS);
-  const clips = await Project.sequelize!.query<{ clipId: number; originalName: string; rejectedAt: string; bytes: number }>(
+  const clips = await Project.sequelize!.query<{
+    clipId: number;
+    originalName: string;
+    rejectedAt: string;
+    bytes: number;
+  }>(
     `SELECT c.id AS clipId, c.originalName AS originalName, v.at AS rejectedAt, c.storedBytes AS bytes
      FROM clips c JOIN verdicts v ON v.clipId = c.id AND v.supersededAt IS NULL AND v.decision = 'reject'
      WHERE c.projectId = :projectId AND c.state = 'rejected' AND c.purgedAt IS NULL AND v.at <= :cutoff
      ORDER BY v.at, c.id`,
-    { replacements: { projectId, cutoff: cutoff.toISOString().replace('T', ' ').replace('Z', ' +00:00') },
-      type: QueryTypes.SELECT },
+    {
+      replacements: { projectId, cutoff: cutoff.toISOString().replace('T', ' ').replace('Z', ' +00:00') },
+      type: QueryTypes.SELECT,
+    },
   );
-  const rows = clips.map((row) => ({ ...row, bytes: Number(row.bytes), rejectedAt: new Date(row.rejectedAt).toISOString() }));
+  const rows = clips.map((row) => ({
+    ...row,
+    bytes: Number(row.bytes),
+    rejectedAt: new Date(row.rejectedAt).toISOString(),
+  }));
   return {
-    projectId, retentionDays: project.retentionDays, clips: rows, totalBytes: rows.reduce((sum, row) => sum + row.bytes, 0),
+    projectId,
+    retentionDays: project.retentionDays,
+    clips: rows,
+    totalBytes: rows.reduce((sum, row) => sum + row.bytes, 0),
   };
 }
 
@@ -45,7 +59,10 @@ export async function requestRetentionRun(projectId: number, actorId: number | n
     if (pending && (pending.payload as { projectId?: number }).projectId === projectId) return pending;
     const job = await enqueueJob('run-retention', { projectId }, { transaction });
     if (actorId !== null) {
-      await recordAudit({ actorId, action: 'retention.request', targetType: 'project', targetId: projectId }, transaction);
+      await recordAudit(
+        { actorId, action: 'retention.request', targetType: 'project', targetId: projectId },
+        transaction,
+      );
     }
     return job;
   });

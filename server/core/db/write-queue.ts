@@ -17,7 +17,11 @@ export const WRITE_WAIT_LIMIT_MS = 15_000;
 const RETRY_DELAYS_MS = [2, 5, 10, 20, 40, 80];
 
 const WRITE_TYPES = new Set<string>([
-  QueryTypes.INSERT, QueryTypes.UPDATE, QueryTypes.BULKUPDATE, QueryTypes.BULKDELETE, QueryTypes.DELETE,
+  QueryTypes.INSERT,
+  QueryTypes.UPDATE,
+  QueryTypes.BULKUPDATE,
+  QueryTypes.BULKDELETE,
+  QueryTypes.DELETE,
   QueryTypes.UPSERT,
 ]);
 const WRITE_SQL = /^\s*(INSERT|UPDATE|DELETE|REPLACE)\b/i;
@@ -49,8 +53,11 @@ export function queueWrites(sequelize: Sequelize): void {
   const transaction = sequelize.transaction.bind(sequelize) as (...args: unknown[]) => Promise<unknown>;
   (sequelize as unknown as { transaction: unknown }).transaction = (options: unknown, callback?: unknown) => {
     const managed = (typeof options === 'function' ? options : callback) as TransactionCallback | undefined;
-    const nested = typeof options === 'object' && options !== null && 'transaction' in options
-      && (options as { transaction?: unknown }).transaction;
+    const nested =
+      typeof options === 'object' &&
+      options !== null &&
+      'transaction' in options &&
+      (options as { transaction?: unknown }).transaction;
     // Unmanaged and nested transactions keep Sequelize's own behaviour: their end is not ours to see.
     if (!managed || nested) return transaction(options, callback);
     // Its writes become visible at commit: counts made meanwhile must not outlive it.
@@ -78,7 +85,7 @@ function isWrite(sql: unknown, options?: QueryOptions): boolean {
 
 /** SQLite refused the lock: the statement changed nothing, so running it again is safe. */
 export function isBusy(error: unknown): boolean {
-  const parent = (error as { parent?: { code?: string }; code?: string } | null);
+  const parent = error as { parent?: { code?: string }; code?: string } | null;
   return parent?.parent?.code === 'SQLITE_BUSY' || parent?.code === 'SQLITE_BUSY';
 }
 

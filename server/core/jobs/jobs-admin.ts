@@ -12,8 +12,11 @@ function toSummary(job: Job): JobSummary {
   return {
     id: job.id,
     kind: job.kind,
-    target: job.clipId ? `clip ${job.clipId}${clip ? ` (${clip.originalName})` : ''}`
-      : job.pairsetId ? `pairset ${job.pairsetId}` : 'storage',
+    target: job.clipId
+      ? `clip ${job.clipId}${clip ? ` (${clip.originalName})` : ''}`
+      : job.pairsetId
+        ? `pairset ${job.pairsetId}`
+        : 'storage',
     clipId: job.clipId,
     state: job.state,
     attempts: job.attempts,
@@ -34,10 +37,16 @@ export async function listJobs(query: JobListQuery): Promise<ListPage<JobSummary
     ...(query.kind ? { kind: query.kind } : {}),
   };
   const order: Order = query.sort
-    ? [[query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'DESC']]
+    ? [
+        [query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'],
+        ['id', 'DESC'],
+      ]
     : [['id', 'DESC']];
   const { rows, count } = await Job.findAndCountAll({
-    where, order, limit: query.pageSize, offset: (query.page - 1) * query.pageSize,
+    where,
+    order,
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
     include: [{ model: Clip, as: 'clip', attributes: ['id', 'originalName'] }],
   });
   return { items: rows.map(toSummary), total: count, page: query.page, pageSize: query.pageSize };
@@ -56,13 +65,25 @@ export async function retryJob(id: number, actorId: number): Promise<JobSummary>
   if (job.kind === 'process-clip' && job.clipId) {
     await reprocessClip(job.clipId, actorId);
     const fresh = await Job.findOne({ where: { clipId: job.clipId, kind: 'process-clip' }, order: [['id', 'DESC']] });
-    return (await reloadSummary(fresh!.id));
+    return await reloadSummary(fresh!.id);
   }
   await Job.sequelize!.transaction(async (transaction) => {
-    await job.update({ state: 'queued', attempts: 0, error: null, runAfter: new Date(), finishedAt: null,
-      leaseOwner: null, leaseExpiresAt: null }, { transaction });
-    await recordAudit({ actorId, action: 'job.retry', targetType: 'job', targetId: id, detail: { kind: job.kind } },
-      transaction);
+    await job.update(
+      {
+        state: 'queued',
+        attempts: 0,
+        error: null,
+        runAfter: new Date(),
+        finishedAt: null,
+        leaseOwner: null,
+        leaseExpiresAt: null,
+      },
+      { transaction },
+    );
+    await recordAudit(
+      { actorId, action: 'job.retry', targetType: 'job', targetId: id, detail: { kind: job.kind } },
+      transaction,
+    );
   });
   return reloadSummary(id);
 }
@@ -79,19 +100,29 @@ export async function cancelJob(id: number, actorId: number): Promise<JobSummary
   }
   await Job.sequelize!.transaction(async (transaction) => {
     const [changed] = await Job.update(
-      { state: 'cancelled', leaseOwner: null, leaseExpiresAt: null, finishedAt: new Date(), error: 'Cancelled by an admin.' },
+      {
+        state: 'cancelled',
+        leaseOwner: null,
+        leaseExpiresAt: null,
+        finishedAt: new Date(),
+        error: 'Cancelled by an admin.',
+      },
       { where: { id, state: { [Op.in]: ['queued', 'running'] } }, transaction },
     );
     if (changed === 0) throw conflict('job_not_cancellable', `Job ${id} finished meanwhile.`);
     if (job.kind === 'process-clip' && job.clipId) {
-      await Clip.update({ state: 'failed', error: 'Processing was cancelled by an admin.' },
-        { where: { id: job.clipId, state: { [Op.in]: ['queued', 'processing'] } }, transaction });
+      await Clip.update(
+        { state: 'failed', error: 'Processing was cancelled by an admin.' },
+        { where: { id: job.clipId, state: { [Op.in]: ['queued', 'processing'] } }, transaction },
+      );
     }
     if (job.kind === 'build-pairset' && job.pairsetId) {
       await Pairset.update({ state: 'cancelled' }, { where: { id: job.pairsetId, state: 'building' }, transaction });
     }
-    await recordAudit({ actorId, action: 'job.cancel', targetType: 'job', targetId: id, detail: { kind: job.kind } },
-      transaction);
+    await recordAudit(
+      { actorId, action: 'job.cancel', targetType: 'job', targetId: id, detail: { kind: job.kind } },
+      transaction,
+    );
   });
   return reloadSummary(id);
 }

@@ -8,7 +8,10 @@ import { containsText } from '../db/text-search';
 export async function listMail(query: MailListQuery): Promise<ListPage<MailLogEntry>> {
   const where = query.search ? containsText<MailMessage>(['to', 'subject'], query.search) : {};
   const sort = query.sort ?? '-at';
-  const order: Order = [[sort.replace(/^-/, ''), sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'DESC']];
+  const order: Order = [
+    [sort.replace(/^-/, ''), sort.startsWith('-') ? 'DESC' : 'ASC'],
+    ['id', 'DESC'],
+  ];
   const { rows, count } = await MailMessage.findAndCountAll({
     where,
     order,

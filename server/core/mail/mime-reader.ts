@@ -34,7 +34,10 @@ function splitPart(raw: Buffer): Part {
   const [end, gap] = crlf >= 0 && (lf < 0 || crlf < lf) ? [crlf, 4] : lf >= 0 ? [lf, 2] : [raw.length, 0];
   const headers = new Map<string, string>();
   // Folded header lines continue the previous one (RFC 5322 §2.2.3).
-  const unfolded = raw.subarray(0, end).toString('utf8').replace(/\r?\n(?=[ \t])/g, '');
+  const unfolded = raw
+    .subarray(0, end)
+    .toString('utf8')
+    .replace(/\r?\n(?=[ \t])/g, '');
   for (const line of unfolded.split(/\r?\n/)) {
     const colon = line.indexOf(':');
     if (colon <= 0) continue;
@@ -50,7 +53,10 @@ function headerValue(value: string | undefined): { value: string; params: Record
   for (const param of rest) {
     const equals = param.indexOf('=');
     if (equals < 0) continue;
-    params[param.slice(0, equals).trim().toLowerCase()] = param.slice(equals + 1).trim().replace(/^"(.*)"$/, '$1');
+    params[param.slice(0, equals).trim().toLowerCase()] = param
+      .slice(equals + 1)
+      .trim()
+      .replace(/^"(.*)"$/, '$1');
   }
   return { value: main.trim().toLowerCase(), params };
 }
@@ -86,9 +92,12 @@ function splitMultipart(body: Buffer, boundary: string): Buffer[] {
 function decodeBody(part: Part, charset = 'utf-8'): string {
   const encoding = (part.headers.get('content-transfer-encoding') ?? '7bit').trim().toLowerCase();
   const latin1 = part.body.toString('latin1');
-  const bytes = encoding === 'base64'
-    ? Buffer.from(latin1.replace(/\s+/g, ''), 'base64')
-    : encoding === 'quoted-printable' ? decodeQuotedPrintable(latin1) : part.body;
+  const bytes =
+    encoding === 'base64'
+      ? Buffer.from(latin1.replace(/\s+/g, ''), 'base64')
+      : encoding === 'quoted-printable'
+        ? decodeQuotedPrintable(latin1)
+        : part.body;
   return decodeCharset(bytes, charset).replace(/\r\n/g, '\n');
 }
 
@@ -125,9 +134,8 @@ function decodeWords(value: string): string {
   for (const match of joined.matchAll(ENCODED_WORD)) {
     const [word, charset = 'utf-8', kind = 'B', encoded = ''] = match;
     if (match.index > last) pieces.push({ charset: null, bytes: Buffer.from(joined.slice(last, match.index)) });
-    const bytes = kind.toUpperCase() === 'B'
-      ? Buffer.from(encoded, 'base64')
-      : decodeQuotedPrintable(encoded.replace(/_/g, ' '));
+    const bytes =
+      kind.toUpperCase() === 'B' ? Buffer.from(encoded, 'base64') : decodeQuotedPrintable(encoded.replace(/_/g, ' '));
     const previous = pieces.at(-1);
     // One character may be split across neighbouring words, so their bytes are decoded together.
     if (previous?.charset?.toLowerCase() === charset.toLowerCase()) {

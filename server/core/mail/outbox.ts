@@ -25,13 +25,16 @@ export async function queueMail<T extends MailTemplate>(
   { transaction, publicUrl }: QueueMailOptions,
 ): Promise<MailOutbox> {
   const { subject, text, html } = renderTemplate(mail.template, mail.data, publicUrl);
-  return MailOutbox.create({
-    messageId: `<${randomUUID()}@${new URL(publicUrl).hostname}>`,
-    template: mail.template,
-    to: mail.to,
-    subject,
-    text,
-    html,
-    nextAttemptAt: new Date(),
-  }, { transaction });
+  return MailOutbox.create(
+    {
+      messageId: `<${randomUUID()}@${new URL(publicUrl).hostname}>`,
+      template: mail.template,
+      to: mail.to,
+      subject,
+      text,
+      html,
+      nextAttemptAt: new Date(),
+    },
+    { transaction },
+  );
 }

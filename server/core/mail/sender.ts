@@ -91,14 +91,14 @@ export function createMailSender(options: MailSenderOptions): MailSender {
       return false;
     }
     try {
-      const info = await options.transport.sendMail({
+      const info = (await options.transport.sendMail({
         from: typeof options.from === 'string' ? options.from : await options.from(),
         to: row.to,
         subject: row.subject,
         text: row.text,
         html: row.html,
         messageId: row.messageId,
-      }) as { response?: string };
+      })) as { response?: string };
       await settle(claim, { state: 'sent', sentAt: clock(), result: info.response ?? 'accepted' });
       return true;
     } catch (error) {

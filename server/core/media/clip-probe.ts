@@ -20,8 +20,14 @@ const STILL_IMAGE_CODECS = new Set(['png', 'mjpeg', 'jpegls', 'bmp', 'tiff', 'we
 
 /** Container families and the extension their source file is stored under (never the uploaded name's). */
 const CONTAINER_EXTENSIONS: [pattern: RegExp, ext: string][] = [
-  [/mp4|mov/, 'mp4'], [/webm/, 'webm'], [/matroska/, 'mkv'], [/avi/, 'avi'], [/mpegts/, 'ts'],
-  [/mpeg/, 'mpg'], [/flv/, 'flv'], [/ogg/, 'ogv'],
+  [/mp4|mov/, 'mp4'],
+  [/webm/, 'webm'],
+  [/matroska/, 'mkv'],
+  [/avi/, 'avi'],
+  [/mpegts/, 'ts'],
+  [/mpeg/, 'mpg'],
+  [/flv/, 'flv'],
+  [/ogg/, 'ogv'],
 ];
 
 export interface ProbedSource {
@@ -35,9 +41,12 @@ const refused = (message: string, cause?: unknown) =>
 
 /** What to say of a file the tools could not read: damaged when it starts like a video, else not a video. */
 async function unreadable(file: string, displayName: string, cause: unknown): Promise<AppError> {
-  return await startsLikeVideo(file)
-    ? refused(`${displayName} is damaged or incomplete (perhaps cut off while copying): Kinefold cannot read it. `
-      + 'Copy or export it again from the camera.', cause)
+  return (await startsLikeVideo(file))
+    ? refused(
+        `${displayName} is damaged or incomplete (perhaps cut off while copying): Kinefold cannot read it. ` +
+          'Copy or export it again from the camera.',
+        cause,
+      )
     : refused(`${displayName} is not a video file.`, cause);
 }
 
@@ -58,9 +67,11 @@ export async function probeUpload(file: string, displayName: string): Promise<Pr
   const video = result.streams.find((stream) => stream.codec_type === 'video' && !stream.disposition?.attached_pic);
   if (!video) {
     const hasAudio = result.streams.some((stream) => stream.codec_type === 'audio');
-    throw refused(hasAudio
-      ? `${displayName} holds only sound: it has no video stream.`
-      : `${displayName} is not a video file: it has no video stream.`);
+    throw refused(
+      hasAudio
+        ? `${displayName} holds only sound: it has no video stream.`
+        : `${displayName} is not a video file: it has no video stream.`,
+    );
   }
   if (/image2|_pipe$/.test(formatName) || (STILL_IMAGE_CODECS.has(video.codec_name ?? '') && !isMovingPicture(video))) {
     throw refused(`${displayName} is a still image, not a video.`);
@@ -68,11 +79,14 @@ export async function probeUpload(file: string, displayName: string): Promise<Pr
   const width = video.width ?? 0;
   const height = video.height ?? 0;
   if (width < MIN_SIDE_PX || height < MIN_SIDE_PX || width > MAX_SIDE_PX || height > MAX_SIDE_PX) {
-    throw refused(`${displayName} is ${width}×${height} px; Kinefold takes videos between ${MIN_SIDE_PX} and `
-      + `${MAX_SIDE_PX} px on each side.`);
+    throw refused(
+      `${displayName} is ${width}×${height} px; Kinefold takes videos between ${MIN_SIDE_PX} and ` +
+        `${MAX_SIDE_PX} px on each side.`,
+    );
   }
   const durationS = Number(result.format.duration ?? video.duration ?? 0);
-  if (!Number.isFinite(durationS) || durationS <= 0) throw refused(`${displayName} has no duration: it holds no footage.`);
+  if (!Number.isFinite(durationS) || durationS <= 0)
+    throw refused(`${displayName} has no duration: it holds no footage.`);
   if (durationS > MAX_DURATION_S) {
     throw refused(`${displayName} claims to last ${Math.round(durationS / 3600)} hours; its header is damaged.`);
   }
@@ -80,8 +94,11 @@ export async function probeUpload(file: string, displayName: string): Promise<Pr
     await decodeFirstFrame(file, PROBE_TIMEOUT_MS);
   } catch (error) {
     if (error instanceof MediaError) {
-      throw refused(`${displayName} is damaged or incomplete: not one of its pictures can be decoded. `
-        + 'Copy or export it again from the camera.', error);
+      throw refused(
+        `${displayName} is damaged or incomplete: not one of its pictures can be decoded. ` +
+          'Copy or export it again from the camera.',
+        error,
+      );
     }
     throw error;
   }

@@ -14,7 +14,11 @@ const MAX_OUTPUT = 16 * 1024 * 1024;
 
 export class MediaError extends Error {
   /** `signal`: the process was killed (by us on a timeout, or by the system), not refused by its input. */
-  constructor(message: string, readonly stderr = '', readonly signal: string | null = null) {
+  constructor(
+    message: string,
+    readonly stderr = '',
+    readonly signal: string | null = null,
+  ) {
     super(message);
     this.name = 'MediaError';
   }
@@ -45,9 +49,11 @@ export interface ProbeResult {
  */
 export async function probeMedia(file: string, timeoutMs: number): Promise<ProbeResult> {
   try {
-    const { stdout } = await run(ffprobeInstaller.path, [
-      '-v', 'error', '-print_format', 'json', '-show_format', '-show_streams', file,
-    ], { timeout: timeoutMs, maxBuffer: MAX_OUTPUT, killSignal: 'SIGKILL' });
+    const { stdout } = await run(
+      ffprobeInstaller.path,
+      ['-v', 'error', '-print_format', 'json', '-show_format', '-show_streams', file],
+      { timeout: timeoutMs, maxBuffer: MAX_OUTPUT, killSignal: 'SIGKILL' },
+    );
     return JSON.parse(stdout) as ProbeResult;
   } catch (error) {
     const failed = error as { killed?: boolean; stderr?: string; message: string };
@@ -60,9 +66,11 @@ export async function probeMedia(file: string, timeoutMs: number): Promise<Probe
 export async function decodeFirstFrame(file: string, timeoutMs: number): Promise<void> {
   try {
     // framecrc prints one line per decoded frame, so an empty listing means nothing could be decoded.
-    const { stdout, stderr } = await run(ffmpegInstaller.path, [
-      '-v', 'error', '-nostdin', '-i', file, '-map', '0:v:0', '-frames:v', '1', '-f', 'framecrc', '-',
-    ], { timeout: timeoutMs, maxBuffer: MAX_OUTPUT, killSignal: 'SIGKILL' });
+    const { stdout, stderr } = await run(
+      ffmpegInstaller.path,
+      ['-v', 'error', '-nostdin', '-i', file, '-map', '0:v:0', '-frames:v', '1', '-f', 'framecrc', '-'],
+      { timeout: timeoutMs, maxBuffer: MAX_OUTPUT, killSignal: 'SIGKILL' },
+    );
     if (!stdout.split('\n').some((line) => line.trim() && !line.startsWith('#'))) {
       throw new MediaError(`ffmpeg decoded no frame${stderr ? `: ${firstLine(stderr)}` : ''}`, stderr);
     }
@@ -70,7 +78,10 @@ export async function decodeFirstFrame(file: string, timeoutMs: number): Promise
     if (error instanceof MediaError) throw error;
     const failed = error as { killed?: boolean; stderr?: string; message: string };
     if (failed.killed) throw new MediaError(`decoding took longer than ${timeoutMs} ms`, failed.stderr);
-    throw new MediaError(`ffmpeg could not decode a frame: ${firstLine(failed.stderr) || failed.message}`, failed.stderr);
+    throw new MediaError(
+      `ffmpeg could not decode a frame: ${firstLine(failed.stderr) || failed.message}`,
+      failed.stderr,
+    );
   }
 }
 
@@ -120,8 +131,17 @@ export async function encodePreview(source: string, output: string, size: FrameS
     .inputOptions(['-nostdin'])
     .videoFilters([`scale=${size.width}:${size.height}`, 'setsar=1'])
     .videoCodec('libx264')
-    .outputOptions([...COMMON_OUTPUT, '-preset', 'veryfast', '-crf', '23', '-pix_fmt', 'yuv420p',
-      '-movflags', '+faststart'])
+    .outputOptions([
+      ...COMMON_OUTPUT,
+      '-preset',
+      'veryfast',
+      '-crf',
+      '23',
+      '-pix_fmt',
+      'yuv420p',
+      '-movflags',
+      '+faststart',
+    ])
     .format('mp4')
     .output(output);
   await runCommand(command, options);

@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type NonAttribute,
   type Sequelize,
 } from 'sequelize';
 import type { ApiTokenSummary } from '../../../shared/types/pairsets';
@@ -30,15 +35,18 @@ export class ApiToken extends Model<InferAttributes<ApiToken>, InferCreationAttr
   }
 
   static initModel(sequelize: Sequelize): void {
-    ApiToken.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      userId: { type: DataTypes.INTEGER, allowNull: false },
-      name: { type: DataTypes.STRING(100), allowNull: false },
-      prefix: { type: DataTypes.STRING(24), allowNull: false },
-      tokenHash: { type: DataTypes.STRING(64), allowNull: false },
-      lastUsedAt: { type: DataTypes.DATE, allowNull: true },
-      revokedAt: { type: DataTypes.DATE, allowNull: true },
-      createdAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'api_tokens', updatedAt: false });
+    ApiToken.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        userId: { type: DataTypes.INTEGER, allowNull: false },
+        name: { type: DataTypes.STRING(100), allowNull: false },
+        prefix: { type: DataTypes.STRING(24), allowNull: false },
+        tokenHash: { type: DataTypes.STRING(64), allowNull: false },
+        lastUsedAt: { type: DataTypes.DATE, allowNull: true },
+        revokedAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'api_tokens', updatedAt: false },
+    );
   }
 }

@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, QueryTypes, type CreationOptional, type InferAttributes, type InferCreationAttributes,
+  DataTypes,
+  Model,
+  QueryTypes,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
   type Sequelize,
 } from 'sequelize';
 import type { CutEvidence } from '../../../shared/types/cuts';
@@ -46,13 +51,18 @@ export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes
    * The stored frame hashes of the project's other clips, by clip in id order, for the duplicate flag: a batch of
    * clips at a time, so a project of many thousand clips never sits in memory whole.
    */
-  static async *hashBatchesOfOtherClips(projectId: number, clipId: number, clipsPerBatch = HASH_BATCH_CLIPS):
-    AsyncGenerator<{ clipId: number; hashes: string[] }[]> {
+  static async *hashBatchesOfOtherClips(
+    projectId: number,
+    clipId: number,
+    clipsPerBatch = HASH_BATCH_CLIPS,
+  ): AsyncGenerator<{ clipId: number; hashes: string[] }[]> {
     for (let after = 0; ;) {
-      const ids = (await Frame.sequelize!.query<{ id: number }>(
-        `SELECT id FROM clips WHERE projectId = :projectId AND id <> :clipId AND id > :after ORDER BY id LIMIT :limit`,
-        { replacements: { projectId, clipId, after, limit: clipsPerBatch }, type: QueryTypes.SELECT },
-      )).map((row) => row.id);
+      const ids = (
+        await Frame.sequelize!.query<{ id: number }>(
+          `SELECT id FROM clips WHERE projectId = :projectId AND id <> :clipId AND id > :after ORDER BY id LIMIT :limit`,
+          { replacements: { projectId, clipId, after, limit: clipsPerBatch }, type: QueryTypes.SELECT },
+        )
+      ).map((row) => row.id);
       if (ids.length === 0) return;
       const rows = await Frame.sequelize!.query<{ clipId: number; dhash: string }>(
         `SELECT clipId, dhash FROM frames WHERE clipId IN (:ids) AND dhash IS NOT NULL ORDER BY clipId, \`index\``,
@@ -70,20 +80,23 @@ export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes
   }
 
   static initModel(sequelize: Sequelize): void {
-    Frame.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      clipId: { type: DataTypes.INTEGER, allowNull: false },
-      index: { type: DataTypes.INTEGER, allowNull: false },
-      timeS: { type: DataTypes.FLOAT, allowNull: false },
-      meanLuma: { type: DataTypes.FLOAT, allowNull: true },
-      contrast: { type: DataTypes.FLOAT, allowNull: true },
-      sharpness: { type: DataTypes.FLOAT, allowNull: true },
-      clippedShare: { type: DataTypes.FLOAT, allowNull: true },
-      clippedHighShare: { type: DataTypes.FLOAT, allowNull: true },
-      cutBefore: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-      cutScore: { type: DataTypes.FLOAT, allowNull: true },
-      dhash: { type: DataTypes.STRING(16), allowNull: true },
-      cutEvidence: { type: DataTypes.JSON, allowNull: true },
-    }, { sequelize, tableName: 'frames', timestamps: false });
+    Frame.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        clipId: { type: DataTypes.INTEGER, allowNull: false },
+        index: { type: DataTypes.INTEGER, allowNull: false },
+        timeS: { type: DataTypes.FLOAT, allowNull: false },
+        meanLuma: { type: DataTypes.FLOAT, allowNull: true },
+        contrast: { type: DataTypes.FLOAT, allowNull: true },
+        sharpness: { type: DataTypes.FLOAT, allowNull: true },
+        clippedShare: { type: DataTypes.FLOAT, allowNull: true },
+        clippedHighShare: { type: DataTypes.FLOAT, allowNull: true },
+        cutBefore: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        cutScore: { type: DataTypes.FLOAT, allowNull: true },
+        dhash: { type: DataTypes.STRING(16), allowNull: true },
+        cutEvidence: { type: DataTypes.JSON, allowNull: true },
+      },
+      { sequelize, tableName: 'frames', timestamps: false },
+    );
   }
 }

@@ -1,6 +1,13 @@
 import {
-  DataTypes, Model, Op, type CreationOptional, type InferAttributes, type InferCreationAttributes,
-  type NonAttribute, type Sequelize, type WhereOptions,
+  DataTypes,
+  Model,
+  Op,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type NonAttribute,
+  type Sequelize,
+  type WhereOptions,
 } from 'sequelize';
 import type { InvitationState, InvitationSummary } from '../../../shared/api-types';
 import type { Role } from '../../../shared/roles';
@@ -38,10 +45,14 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
 
   static stateCondition(state: InvitationState, now: Date): WhereOptions<Invitation> {
     switch (state) {
-      case 'accepted': return { acceptedAt: { [Op.ne]: null } };
-      case 'revoked': return { acceptedAt: null, revokedAt: { [Op.ne]: null } };
-      case 'pending': return { acceptedAt: null, revokedAt: null, expiresAt: { [Op.gt]: now } };
-      case 'expired': return { acceptedAt: null, revokedAt: null, expiresAt: { [Op.lte]: now } };
+      case 'accepted':
+        return { acceptedAt: { [Op.ne]: null } };
+      case 'revoked':
+        return { acceptedAt: null, revokedAt: { [Op.ne]: null } };
+      case 'pending':
+        return { acceptedAt: null, revokedAt: null, expiresAt: { [Op.gt]: now } };
+      case 'expired':
+        return { acceptedAt: null, revokedAt: null, expiresAt: { [Op.lte]: now } };
     }
   }
 
@@ -61,18 +72,21 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
   }
 
   static initModel(sequelize: Sequelize): void {
-    Invitation.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      email: { type: DataTypes.STRING(320), allowNull: false },
-      role: { type: DataTypes.STRING(16), allowNull: false },
-      tokenHash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
-      expiresAt: { type: DataTypes.DATE, allowNull: false },
-      acceptedAt: { type: DataTypes.DATE, allowNull: true },
-      revokedAt: { type: DataTypes.DATE, allowNull: true },
-      invitedById: { type: DataTypes.INTEGER, allowNull: true },
-      lastSentAt: { type: DataTypes.DATE, allowNull: false },
-      createdAt: DataTypes.DATE,
-      updatedAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'invitations' });
+    Invitation.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        email: { type: DataTypes.STRING(320), allowNull: false },
+        role: { type: DataTypes.STRING(16), allowNull: false },
+        tokenHash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
+        expiresAt: { type: DataTypes.DATE, allowNull: false },
+        acceptedAt: { type: DataTypes.DATE, allowNull: true },
+        revokedAt: { type: DataTypes.DATE, allowNull: true },
+        invitedById: { type: DataTypes.INTEGER, allowNull: true },
+        lastSentAt: { type: DataTypes.DATE, allowNull: false },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'invitations' },
+    );
   }
 }

@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 import type { JobKind, JobPayload, JobState } from '../../../shared/jobs';
 
@@ -23,23 +28,26 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare updatedAt: CreationOptional<Date>;
 
   static initModel(sequelize: Sequelize): void {
-    Job.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      kind: { type: DataTypes.STRING(32), allowNull: false },
-      clipId: { type: DataTypes.INTEGER, allowNull: true },
-      pairsetId: { type: DataTypes.INTEGER, allowNull: true },
-      payload: { type: DataTypes.JSON, allowNull: false, defaultValue: {} },
-      state: { type: DataTypes.STRING(16), allowNull: false },
-      attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
-      leaseOwner: { type: DataTypes.STRING(100), allowNull: true },
-      leaseExpiresAt: { type: DataTypes.DATE, allowNull: true },
-      stage: { type: DataTypes.STRING(24), allowNull: true },
-      progress: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 0 },
-      error: { type: DataTypes.TEXT, allowNull: true },
-      runAfter: { type: DataTypes.DATE, allowNull: false },
-      finishedAt: { type: DataTypes.DATE, allowNull: true },
-      createdAt: DataTypes.DATE,
-      updatedAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'jobs' });
+    Job.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        kind: { type: DataTypes.STRING(32), allowNull: false },
+        clipId: { type: DataTypes.INTEGER, allowNull: true },
+        pairsetId: { type: DataTypes.INTEGER, allowNull: true },
+        payload: { type: DataTypes.JSON, allowNull: false, defaultValue: {} },
+        state: { type: DataTypes.STRING(16), allowNull: false },
+        attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        leaseOwner: { type: DataTypes.STRING(100), allowNull: true },
+        leaseExpiresAt: { type: DataTypes.DATE, allowNull: true },
+        stage: { type: DataTypes.STRING(24), allowNull: true },
+        progress: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 0 },
+        error: { type: DataTypes.TEXT, allowNull: true },
+        runAfter: { type: DataTypes.DATE, allowNull: false },
+        finishedAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'jobs' },
+    );
   }
 }

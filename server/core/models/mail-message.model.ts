@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 import type { MailLogEntry } from '../../../shared/api-types';
 
@@ -16,20 +21,28 @@ export class MailMessage extends Model<InferAttributes<MailMessage>, InferCreati
 
   toApi(): MailLogEntry {
     return {
-      id: this.id, to: this.to, subject: this.subject, text: this.text, html: this.html, at: this.at.toISOString(),
+      id: this.id,
+      to: this.to,
+      subject: this.subject,
+      text: this.text,
+      html: this.html,
+      at: this.at.toISOString(),
     };
   }
 
   static initModel(sequelize: Sequelize): void {
-    MailMessage.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      messageId: { type: DataTypes.STRING(200), allowNull: true },
-      from: { type: DataTypes.STRING(320), allowNull: false },
-      to: { type: DataTypes.TEXT, allowNull: false },
-      subject: { type: DataTypes.STRING(300), allowNull: false },
-      text: { type: DataTypes.TEXT, allowNull: false },
-      html: { type: DataTypes.TEXT, allowNull: false },
-      at: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
-    }, { sequelize, tableName: 'mail_messages', timestamps: false });
+    MailMessage.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        messageId: { type: DataTypes.STRING(200), allowNull: true },
+        from: { type: DataTypes.STRING(320), allowNull: false },
+        to: { type: DataTypes.TEXT, allowNull: false },
+        subject: { type: DataTypes.STRING(300), allowNull: false },
+        text: { type: DataTypes.TEXT, allowNull: false },
+        html: { type: DataTypes.TEXT, allowNull: false },
+        at: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
+      },
+      { sequelize, tableName: 'mail_messages', timestamps: false },
+    );
   }
 }

@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 
 /**
@@ -29,22 +34,25 @@ export class MailOutbox extends Model<InferAttributes<MailOutbox>, InferCreation
   declare updatedAt: CreationOptional<Date>;
 
   static initModel(sequelize: Sequelize): void {
-    MailOutbox.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      messageId: { type: DataTypes.STRING(200), allowNull: false, unique: true },
-      template: { type: DataTypes.STRING(64), allowNull: false },
-      to: { type: DataTypes.STRING(320), allowNull: false },
-      subject: { type: DataTypes.STRING(300), allowNull: false },
-      text: { type: DataTypes.TEXT, allowNull: false },
-      html: { type: DataTypes.TEXT, allowNull: false },
-      state: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'pending' },
-      attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
-      nextAttemptAt: { type: DataTypes.DATE, allowNull: false },
-      leaseExpiresAt: { type: DataTypes.DATE, allowNull: true },
-      sentAt: { type: DataTypes.DATE, allowNull: true },
-      result: { type: DataTypes.TEXT, allowNull: true },
-      createdAt: DataTypes.DATE,
-      updatedAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'mail_outbox' });
+    MailOutbox.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        messageId: { type: DataTypes.STRING(200), allowNull: false, unique: true },
+        template: { type: DataTypes.STRING(64), allowNull: false },
+        to: { type: DataTypes.STRING(320), allowNull: false },
+        subject: { type: DataTypes.STRING(300), allowNull: false },
+        text: { type: DataTypes.TEXT, allowNull: false },
+        html: { type: DataTypes.TEXT, allowNull: false },
+        state: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'pending' },
+        attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        nextAttemptAt: { type: DataTypes.DATE, allowNull: false },
+        leaseExpiresAt: { type: DataTypes.DATE, allowNull: true },
+        sentAt: { type: DataTypes.DATE, allowNull: true },
+        result: { type: DataTypes.TEXT, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'mail_outbox' },
+    );
   }
 }

@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 import type { FrameMotion } from '../../../shared/types/frames';
 
@@ -44,21 +49,24 @@ export class MotionField extends Model<InferAttributes<MotionField>, InferCreati
   }
 
   static initModel(sequelize: Sequelize): void {
-    MotionField.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      clipId: { type: DataTypes.INTEGER, allowNull: false },
-      fromIndex: { type: DataTypes.INTEGER, allowNull: false },
-      toIndex: { type: DataTypes.INTEGER, allowNull: false },
-      direction: { type: DataTypes.STRING(8), allowNull: false },
-      estimator: { type: DataTypes.STRING(32), allowNull: false },
-      params: { type: DataTypes.JSON, allowNull: false },
-      meanMagnitude: { type: DataTypes.FLOAT, allowNull: false },
-      p95Magnitude: { type: DataTypes.FLOAT, allowNull: false },
-      consistentP95Magnitude: { type: DataTypes.FLOAT, allowNull: true },
-      consistentShare: { type: DataTypes.FLOAT, allowNull: false },
-      medianU: { type: DataTypes.FLOAT, allowNull: false },
-      medianV: { type: DataTypes.FLOAT, allowNull: false },
-      maxMagnitude: { type: DataTypes.FLOAT, allowNull: false },
-    }, { sequelize, tableName: 'motion_fields', timestamps: false });
+    MotionField.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        clipId: { type: DataTypes.INTEGER, allowNull: false },
+        fromIndex: { type: DataTypes.INTEGER, allowNull: false },
+        toIndex: { type: DataTypes.INTEGER, allowNull: false },
+        direction: { type: DataTypes.STRING(8), allowNull: false },
+        estimator: { type: DataTypes.STRING(32), allowNull: false },
+        params: { type: DataTypes.JSON, allowNull: false },
+        meanMagnitude: { type: DataTypes.FLOAT, allowNull: false },
+        p95Magnitude: { type: DataTypes.FLOAT, allowNull: false },
+        consistentP95Magnitude: { type: DataTypes.FLOAT, allowNull: true },
+        consistentShare: { type: DataTypes.FLOAT, allowNull: false },
+        medianU: { type: DataTypes.FLOAT, allowNull: false },
+        medianV: { type: DataTypes.FLOAT, allowNull: false },
+        maxMagnitude: { type: DataTypes.FLOAT, allowNull: false },
+      },
+      { sequelize, tableName: 'motion_fields', timestamps: false },
+    );
   }
 }

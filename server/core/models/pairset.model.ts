@@ -1,11 +1,14 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type NonAttribute,
   type Sequelize,
 } from 'sequelize';
 import type { PairsetDefinition, PairsetState } from '../../../shared/schemas/pairsets';
-import type {
-  PairsetDifficulty, PairsetStatistics, PairsetSummary,
-} from '../../../shared/types/pairsets';
+import type { PairsetDifficulty, PairsetStatistics, PairsetSummary } from '../../../shared/types/pairsets';
 import type { User } from './user.model';
 
 /** An immutable, versioned export of view pairs from accepted clips (DESIGN §2), written as tar shards. */
@@ -51,22 +54,25 @@ export class Pairset extends Model<InferAttributes<Pairset>, InferCreationAttrib
   }
 
   static initModel(sequelize: Sequelize): void {
-    Pairset.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      name: { type: DataTypes.STRING(200), allowNull: false },
-      version: { type: DataTypes.INTEGER, allowNull: false },
-      definition: { type: DataTypes.JSON, allowNull: false },
-      state: { type: DataTypes.STRING(16), allowNull: false },
-      progress: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 0 },
-      stats: { type: DataTypes.JSON, allowNull: true },
-      difficulty: { type: DataTypes.JSON, allowNull: true },
-      bytes: { type: DataTypes.BIGINT, allowNull: false, defaultValue: 0 },
-      ownerId: { type: DataTypes.INTEGER, allowNull: false },
-      seed: { type: DataTypes.INTEGER, allowNull: false },
-      error: { type: DataTypes.TEXT, allowNull: true },
-      builtAt: { type: DataTypes.DATE, allowNull: true },
-      createdAt: DataTypes.DATE,
-      updatedAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'pairsets' });
+    Pairset.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        name: { type: DataTypes.STRING(200), allowNull: false },
+        version: { type: DataTypes.INTEGER, allowNull: false },
+        definition: { type: DataTypes.JSON, allowNull: false },
+        state: { type: DataTypes.STRING(16), allowNull: false },
+        progress: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 0 },
+        stats: { type: DataTypes.JSON, allowNull: true },
+        difficulty: { type: DataTypes.JSON, allowNull: true },
+        bytes: { type: DataTypes.BIGINT, allowNull: false, defaultValue: 0 },
+        ownerId: { type: DataTypes.INTEGER, allowNull: false },
+        seed: { type: DataTypes.INTEGER, allowNull: false },
+        error: { type: DataTypes.TEXT, allowNull: true },
+        builtAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'pairsets' },
+    );
   }
 }

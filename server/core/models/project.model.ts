@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 import type { StoredFlagThresholds } from '../../../shared/schemas/project-settings';
 
@@ -22,21 +27,24 @@ export class Project extends Model<InferAttributes<Project>, InferCreationAttrib
   declare updatedAt: CreationOptional<Date>;
 
   static initModel(sequelize: Sequelize): void {
-    Project.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      name: { type: DataTypes.STRING(200), allowNull: false, unique: true },
-      description: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
-      archived: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-      quotaBytes: { type: DataTypes.BIGINT, allowNull: true },
-      estimator: { type: DataTypes.STRING(32), allowNull: false },
-      estimatorParams: { type: DataTypes.JSON, allowNull: false },
-      sampleFps: { type: DataTypes.FLOAT, allowNull: false },
-      workingSize: { type: DataTypes.INTEGER, allowNull: false },
-      deltas: { type: DataTypes.JSON, allowNull: false },
-      flagThresholds: { type: DataTypes.JSON, allowNull: false },
-      retentionDays: { type: DataTypes.INTEGER, allowNull: true },
-      createdAt: DataTypes.DATE,
-      updatedAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'projects' });
+    Project.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        name: { type: DataTypes.STRING(200), allowNull: false, unique: true },
+        description: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+        archived: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        quotaBytes: { type: DataTypes.BIGINT, allowNull: true },
+        estimator: { type: DataTypes.STRING(32), allowNull: false },
+        estimatorParams: { type: DataTypes.JSON, allowNull: false },
+        sampleFps: { type: DataTypes.FLOAT, allowNull: false },
+        workingSize: { type: DataTypes.INTEGER, allowNull: false },
+        deltas: { type: DataTypes.JSON, allowNull: false },
+        flagThresholds: { type: DataTypes.JSON, allowNull: false },
+        retentionDays: { type: DataTypes.INTEGER, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'projects' },
+    );
   }
 }

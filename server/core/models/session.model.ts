@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 
 /** A browser session as connect-session-sequelize stores it, plus the signed-in user so sessions can be ended. */
@@ -12,13 +17,16 @@ export class Session extends Model<InferAttributes<Session>, InferCreationAttrib
   declare updatedAt: CreationOptional<Date>;
 
   static initModel(sequelize: Sequelize): void {
-    Session.init({
-      sid: { type: DataTypes.STRING(64), primaryKey: true },
-      userId: { type: DataTypes.INTEGER, allowNull: true },
-      expires: { type: DataTypes.DATE, allowNull: true },
-      data: { type: DataTypes.TEXT, allowNull: true },
-      createdAt: DataTypes.DATE,
-      updatedAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'sessions', modelName: 'Session' });
+    Session.init(
+      {
+        sid: { type: DataTypes.STRING(64), primaryKey: true },
+        userId: { type: DataTypes.INTEGER, allowNull: true },
+        expires: { type: DataTypes.DATE, allowNull: true },
+        data: { type: DataTypes.TEXT, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'sessions', modelName: 'Session' },
+    );
   }
 }

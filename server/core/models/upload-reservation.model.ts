@@ -1,9 +1,17 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 
 /** Bytes held for an upload in flight, so concurrent uploads cannot pass a quota together. */
-export class UploadReservation extends Model<InferAttributes<UploadReservation>, InferCreationAttributes<UploadReservation>> {
+export class UploadReservation extends Model<
+  InferAttributes<UploadReservation>,
+  InferCreationAttributes<UploadReservation>
+> {
   declare id: string;
   declare projectId: number;
   declare userId: number;
@@ -11,12 +19,15 @@ export class UploadReservation extends Model<InferAttributes<UploadReservation>,
   declare createdAt: CreationOptional<Date>;
 
   static initModel(sequelize: Sequelize): void {
-    UploadReservation.init({
-      id: { type: DataTypes.STRING(36), primaryKey: true },
-      projectId: { type: DataTypes.INTEGER, allowNull: false },
-      userId: { type: DataTypes.INTEGER, allowNull: false },
-      bytes: { type: DataTypes.BIGINT, allowNull: false },
-      createdAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'upload_reservations', updatedAt: false });
+    UploadReservation.init(
+      {
+        id: { type: DataTypes.STRING(36), primaryKey: true },
+        projectId: { type: DataTypes.INTEGER, allowNull: false },
+        userId: { type: DataTypes.INTEGER, allowNull: false },
+        bytes: { type: DataTypes.BIGINT, allowNull: false },
+        createdAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'upload_reservations', updatedAt: false },
+    );
   }
 }

@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 import type { UsageByKind } from '../../../shared/types/admin';
 
@@ -14,13 +19,16 @@ export class UsageSnapshot extends Model<InferAttributes<UsageSnapshot>, InferCr
   declare takenAt: Date;
 
   static initModel(sequelize: Sequelize): void {
-    UsageSnapshot.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      day: { type: DataTypes.STRING(10), allowNull: false, unique: true },
-      totalBytes: { type: DataTypes.BIGINT, allowNull: false },
-      byKind: { type: DataTypes.JSON, allowNull: false },
-      drift: { type: DataTypes.JSON, allowNull: false },
-      takenAt: { type: DataTypes.DATE, allowNull: false },
-    }, { sequelize, tableName: 'usage_snapshots', timestamps: false });
+    UsageSnapshot.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        day: { type: DataTypes.STRING(10), allowNull: false, unique: true },
+        totalBytes: { type: DataTypes.BIGINT, allowNull: false },
+        byKind: { type: DataTypes.JSON, allowNull: false },
+        drift: { type: DataTypes.JSON, allowNull: false },
+        takenAt: { type: DataTypes.DATE, allowNull: false },
+      },
+      { sequelize, tableName: 'usage_snapshots', timestamps: false },
+    );
   }
 }

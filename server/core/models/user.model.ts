@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
 } from 'sequelize';
 import type { UserSummary } from '../../../shared/api-types';
 import type { Role } from '../../../shared/roles';
@@ -38,17 +43,20 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   }
 
   static initModel(sequelize: Sequelize): void {
-    User.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      email: { type: DataTypes.STRING(320), allowNull: false, unique: true },
-      name: { type: DataTypes.STRING(200), allowNull: false },
-      role: { type: DataTypes.STRING(16), allowNull: false },
-      passwordHash: { type: DataTypes.STRING(100), allowNull: false },
-      disabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-      quotaBytes: { type: DataTypes.BIGINT, allowNull: true },
-      lastSignInAt: { type: DataTypes.DATE, allowNull: true },
-      createdAt: DataTypes.DATE,
-      updatedAt: DataTypes.DATE,
-    }, { sequelize, tableName: 'users' });
+    User.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        email: { type: DataTypes.STRING(320), allowNull: false, unique: true },
+        name: { type: DataTypes.STRING(200), allowNull: false },
+        role: { type: DataTypes.STRING(16), allowNull: false },
+        passwordHash: { type: DataTypes.STRING(100), allowNull: false },
+        disabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        quotaBytes: { type: DataTypes.BIGINT, allowNull: true },
+        lastSignInAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'users' },
+    );
   }
 }

@@ -1,5 +1,10 @@
 import {
-  DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute,
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type NonAttribute,
   type Sequelize,
 } from 'sequelize';
 import type { VerdictDecision } from '../../../shared/review/rules';
@@ -41,18 +46,21 @@ export class Verdict extends Model<InferAttributes<Verdict>, InferCreationAttrib
   }
 
   static initModel(sequelize: Sequelize): void {
-    Verdict.init({
-      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-      clipId: { type: DataTypes.INTEGER, allowNull: false },
-      curatorId: { type: DataTypes.INTEGER, allowNull: false },
-      decision: { type: DataTypes.STRING(8), allowNull: false },
-      reason: { type: DataTypes.STRING(40), allowNull: true },
-      reasonLabel: { type: DataTypes.STRING(80), allowNull: true },
-      comment: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
-      bulk: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-      at: { type: DataTypes.DATE, allowNull: false },
-      supersededAt: { type: DataTypes.DATE, allowNull: true },
-      digestId: { type: DataTypes.INTEGER, allowNull: true },
-    }, { sequelize, tableName: 'verdicts', timestamps: false });
+    Verdict.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        clipId: { type: DataTypes.INTEGER, allowNull: false },
+        curatorId: { type: DataTypes.INTEGER, allowNull: false },
+        decision: { type: DataTypes.STRING(8), allowNull: false },
+        reason: { type: DataTypes.STRING(40), allowNull: true },
+        reasonLabel: { type: DataTypes.STRING(80), allowNull: true },
+        comment: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+        bulk: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        at: { type: DataTypes.DATE, allowNull: false },
+        supersededAt: { type: DataTypes.DATE, allowNull: true },
+        digestId: { type: DataTypes.INTEGER, allowNull: true },
+      },
+      { sequelize, tableName: 'verdicts', timestamps: false },
+    );
   }
 }

@@ -46,10 +46,19 @@ export async function loadPairsetSources(selection: SourceSelection): Promise<So
     include: [{ model: Project, as: 'project', attributes: ['name'] }],
     order: [['id', 'ASC']],
   });
-  const byId = new Map<number, SourceClip>(clips.map((clip) => [clip.id, {
-    id: clip.id, projectId: clip.projectId, projectName: clip.project?.name ?? '', site: clip.site,
-    durationS: clip.durationS, frames: [],
-  }]));
+  const byId = new Map<number, SourceClip>(
+    clips.map((clip) => [
+      clip.id,
+      {
+        id: clip.id,
+        projectId: clip.projectId,
+        projectName: clip.project?.name ?? '',
+        site: clip.site,
+        durationS: clip.durationS,
+        frames: [],
+      },
+    ]),
+  );
   const ids = [...byId.keys()];
   for (let start = 0; start < ids.length; start += ID_CHUNK) {
     const chunk = ids.slice(start, start + ID_CHUNK);
@@ -57,12 +66,20 @@ export async function loadPairsetSources(selection: SourceSelection): Promise<So
     const frames = await Frame.findAll({
       where: { clipId: { [Op.in]: chunk } },
       attributes: ['clipId', 'index', 'timeS', 'cutBefore', 'meanLuma', 'contrast', 'sharpness', 'clippedShare'],
-      order: [['clipId', 'ASC'], ['index', 'ASC']],
+      order: [
+        ['clipId', 'ASC'],
+        ['index', 'ASC'],
+      ],
     });
     for (const frame of frames) {
       byId.get(frame.clipId)!.frames.push({
-        index: frame.index, timeS: frame.timeS, cutBefore: frame.cutBefore, meanLuma: frame.meanLuma,
-        contrast: frame.contrast, sharpness: frame.sharpness, clippedShare: frame.clippedShare,
+        index: frame.index,
+        timeS: frame.timeS,
+        cutBefore: frame.cutBefore,
+        meanLuma: frame.meanLuma,
+        contrast: frame.contrast,
+        sharpness: frame.sharpness,
+        clippedShare: frame.clippedShare,
         motion: motion.get(`${frame.clipId}:${frame.index}`) ?? null,
       });
     }
@@ -91,11 +108,17 @@ async function forwardFields(clipIds: number[]): Promise<Map<string, SourceMotio
     where: { clipId: { [Op.in]: clipIds }, direction: 'forward' },
     attributes: ['clipId', 'fromIndex', 'toIndex', 'estimator', 'meanMagnitude', 'p95Magnitude', 'consistentShare'],
   });
-  return new Map(fields.filter((field) => field.toIndex === field.fromIndex + 1).map((field) => [
-    `${field.clipId}:${field.fromIndex}`,
-    {
-      meanMagnitude: field.meanMagnitude, p95Magnitude: field.p95Magnitude,
-      consistentShare: field.consistentShare, estimator: field.estimator,
-    },
-  ]));
+  return new Map(
+    fields
+      .filter((field) => field.toIndex === field.fromIndex + 1)
+      .map((field) => [
+        `${field.clipId}:${field.fromIndex}`,
+        {
+          meanMagnitude: field.meanMagnitude,
+          p95Magnitude: field.p95Magnitude,
+          consistentShare: field.consistentShare,
+          estimator: field.estimator,
+        },
+      ]),
+  );
 }

@@ -2,7 +2,11 @@ import { countPlanned, type PlannedPair } from '../../../shared/pairing/pair-pla
 import type { ViewPair } from '../../../shared/pairing/pairing-graph';
 import type { SplitName } from '../../../shared/pairing/split';
 import type {
-  Histogram, PairKindCount, PairsetPreview, PairsetStatistics, SplitCounts,
+  Histogram,
+  PairKindCount,
+  PairsetPreview,
+  PairsetStatistics,
+  SplitCounts,
 } from '../../../shared/types/pairsets';
 import type { SourceClip } from './pairset-sources';
 
@@ -16,10 +20,18 @@ type PlanCounts = Omit<PairsetPreview, 'views'>;
  * Counts of a plan: pairs per view pair and split, and the clips (those giving at least one pair) with their
  * footage hours per split. The definition form shows these live; the built pairset's statistics start from them.
  */
-export function planCounts(planned: readonly PlannedPair[], pairs: readonly ViewPair[],
-  sources: readonly SourceClip[]): PlanCounts {
+export function planCounts(
+  planned: readonly PlannedPair[],
+  pairs: readonly ViewPair[],
+  sources: readonly SourceClip[],
+): PlanCounts {
   const kinds: PairKindCount[] = countPlanned(planned, pairs).map(({ pair, train, val, total }) => ({
-    kind: pair.kind, a: pair.a, b: pair.b, train, val, total,
+    kind: pair.kind,
+    a: pair.a,
+    b: pair.b,
+    train,
+    val,
+    total,
   }));
   const durations = new Map(sources.map((clip) => [clip.id, clip.durationS]));
   const clipSplit = new Map<number, SplitName>(planned.map((item) => [item.clipId, item.split]));
@@ -35,8 +47,11 @@ export function planCounts(planned: readonly PlannedPair[], pairs: readonly View
 }
 
 /** What a built pairset holds: the plan's counts, pairs and clips per site and project, and histograms. */
-export function pairsetStatistics(planned: readonly PlannedPair[], pairs: readonly ViewPair[],
-  sources: readonly SourceClip[]): PairsetStatistics {
+export function pairsetStatistics(
+  planned: readonly PlannedPair[],
+  pairs: readonly ViewPair[],
+  sources: readonly SourceClip[],
+): PairsetStatistics {
   const clipsById = new Map(sources.map((clip) => [clip.id, clip]));
   const frames = new Map(sources.flatMap((clip) => clip.frames.map((frame) => [`${clip.id}:${frame.index}`, frame])));
   const bySite = new Map<string, { site: string; clips: Set<number>; pairs: number }>();
@@ -52,8 +67,12 @@ export function pairsetStatistics(planned: readonly PlannedPair[], pairs: readon
     site.clips.add(clip.id);
     site.pairs += 1;
     bySite.set(clip.site, site);
-    const project = byProject.get(clip.projectId)
-      ?? { projectId: clip.projectId, projectName: clip.projectName, clips: new Set<number>(), pairs: 0 };
+    const project = byProject.get(clip.projectId) ?? {
+      projectId: clip.projectId,
+      projectName: clip.projectName,
+      clips: new Set<number>(),
+      pairs: 0,
+    };
     project.clips.add(clip.id);
     project.pairs += 1;
     byProject.set(clip.projectId, project);
@@ -70,11 +89,16 @@ export function pairsetStatistics(planned: readonly PlannedPair[], pairs: readon
   return {
     ...planCounts(planned, pairs, sources),
     moments: moments.size,
-    bySite: [...bySite.values()].sort((x, y) => byPairs(x, y) || x.site.localeCompare(y.site))
+    bySite: [...bySite.values()]
+      .sort((x, y) => byPairs(x, y) || x.site.localeCompare(y.site))
       .map(({ site, clips, pairs: count }) => ({ site, clips: clips.size, pairs: count })),
-    byProject: [...byProject.values()].sort((x, y) => byPairs(x, y) || x.projectId - y.projectId)
+    byProject: [...byProject.values()]
+      .sort((x, y) => byPairs(x, y) || x.projectId - y.projectId)
       .map(({ projectId, projectName, clips, pairs: count }) => ({
-        projectId, projectName, clips: clips.size, pairs: count,
+        projectId,
+        projectName,
+        clips: clips.size,
+        pairs: count,
       })),
     motionMagnitude: histogram(motion, motionMissing),
     sharpness: histogram(sharpness, sharpnessMissing),

@@ -5,11 +5,13 @@ import { formatBytes } from '../../../shared/format-bytes';
 import { HttpStatus } from '../../../shared/http-status';
 import { planPairs } from '../../../shared/pairing/pair-plan';
 import {
-  definitionViews, type PairsetDefinition, type PairsetListQuery, type PairsetState, type PairsetPreviewBody,
+  definitionViews,
+  type PairsetDefinition,
+  type PairsetListQuery,
+  type PairsetState,
+  type PairsetPreviewBody,
 } from '../../../shared/schemas/pairsets';
-import type {
-  PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetSummary,
-} from '../../../shared/types/pairsets';
+import type { PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetSummary } from '../../../shared/types/pairsets';
 import { AppError, conflict, notFound } from '../errors';
 import { Job, Pairset, Project, Shard, User } from '../models';
 import type { StoragePaths } from '../storage/paths';
@@ -42,8 +44,11 @@ export async function createPairset(definition: PairsetDefinition, actorId: numb
   const id = await Pairset.sequelize!.transaction(async (transaction) => {
     const existing = await Pairset.findOne({ where: { name: definition.name }, transaction });
     if (existing) {
-      throw conflict('pairset_name_taken',
-        `A pairset named "${definition.name}" exists; make a new version of it instead.`, { pairsetId: existing.id });
+      throw conflict(
+        'pairset_name_taken',
+        `A pairset named "${definition.name}" exists; make a new version of it instead.`,
+        { pairsetId: existing.id },
+      );
     }
     return draft(definition, 1, actorId, 'pairset.create', transaction);
   });
@@ -60,33 +65,67 @@ export async function newPairsetVersion(id: number, actorId: number): Promise<Pa
   return getPairsetDetail(newId);
 }
 
-async function draft(definition: PairsetDefinition, version: number, actorId: number, action: string,
-  transaction: Transaction, detail: Record<string, unknown> = {}): Promise<number> {
-  const created = await Pairset.create({
-    name: definition.name, version, definition, state: 'draft', ownerId: actorId, seed: definition.split.seed,
-  }, { transaction });
-  await recordAudit({ actorId, action, targetType: 'pairset', targetId: created.id,
-    detail: { name: definition.name, version, ...detail } }, transaction);
+async function draft(
+  definition: PairsetDefinition,
+  version: number,
+  actorId: number,
+  action: string,
+  transaction: Transaction,
+  detail: Record<string, unknown> = {},
+): Promise<number> {
+  const created = await Pairset.create(
+    {
+      name: definition.name,
+      version,
+      definition,
+      state: 'draft',
+      ownerId: actorId,
+      seed: definition.split.seed,
+    },
+    { transaction },
+  );
+  await recordAudit(
+    {
+      actorId,
+      action,
+      targetType: 'pairset',
+      targetId: created.id,
+      detail: { name: definition.name, version, ...detail },
+    },
+    transaction,
+  );
   return created.id;
 }
 
 export async function listPairsets(query: PairsetListQuery): Promise<ListPage<PairsetSummary>> {
   const order: Order = query.sort
-    ? [[query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'DESC']]
-    : [['createdAt', 'DESC'], ['id', 'DESC']];
+    ? [
+        [query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'],
+        ['id', 'DESC'],
+      ]
+    : [
+        ['createdAt', 'DESC'],
+        ['id', 'DESC'],
+      ];
   const where: WhereOptions<Pairset> = {};
   if (query.state) where.state = query.state;
   if (query.q) where.name = { [Op.like]: `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` };
   const { rows, count } = await Pairset.findAndCountAll({
-    where, order, include: [OWNER], attributes: { include: [[SHARD_COUNT, 'shardCount']] },
-    limit: query.pageSize, offset: (query.page - 1) * query.pageSize, distinct: true,
+    where,
+    order,
+    include: [OWNER],
+    attributes: { include: [[SHARD_COUNT, 'shardCount']] },
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+    distinct: true,
   });
   return { items: rows.map((row) => row.toApi()), total: count, page: query.page, pageSize: query.pageSize };
 }
 
 export async function getPairsetDetail(id: number): Promise<PairsetDetail> {
   const pairset = await Pairset.findByPk(id, {
-    include: [OWNER], attributes: { include: [[SHARD_COUNT, 'shardCount']] },
+    include: [OWNER],
+    attributes: { include: [[SHARD_COUNT, 'shardCount']] },
   });
   if (!pairset) throw notFound(`Pairset ${id}`);
   const shards = await Shard.findAll({ where: { pairsetId: id }, order: [['index', 'ASC']] });
@@ -113,19 +152,37 @@ export async function startBuild(id: number, actor: User): Promise<PairsetDetail
       throw conflict('build_running', `Pairset ${id} is being built already.`);
     }
     const active = await Job.findOne({
-      where: { pairsetId: id, kind: 'build-pairset', state: { [Op.in]: ['queued', 'running'] } }, transaction,
+      where: { pairsetId: id, kind: 'build-pairset', state: { [Op.in]: ['queued', 'running'] } },
+      transaction,
     });
     // A cancelled build stops at its next pair; until it has, a new build would race it for the same folder.
     if (active) {
       throw conflict('build_stopping', `The last build of pairset ${id} is still stopping; try again shortly.`);
     }
     await assertQuotaLeft(pairset.ownerId, transaction);
-    await pairset.update({
-      state: 'building', progress: 0, error: null, stats: null, difficulty: null, bytes: 0, builtAt: null,
-    }, { transaction });
+    await pairset.update(
+      {
+        state: 'building',
+        progress: 0,
+        error: null,
+        stats: null,
+        difficulty: null,
+        bytes: 0,
+        builtAt: null,
+      },
+      { transaction },
+    );
     await enqueueJob('build-pairset', { pairsetId: id }, { transaction });
-    await recordAudit({ actorId: actor.id, action: 'pairset.build', targetType: 'pairset', targetId: id,
-      detail: { previousState: pairset.state } }, transaction);
+    await recordAudit(
+      {
+        actorId: actor.id,
+        action: 'pairset.build',
+        targetType: 'pairset',
+        targetId: id,
+        detail: { previousState: pairset.state },
+      },
+      transaction,
+    );
   });
   return getPairsetDetail(id);
 }
@@ -138,10 +195,14 @@ export async function cancelBuild(id: number, actor: User): Promise<PairsetDetai
       throw conflict('not_building', `Pairset ${id} is ${pairset.state}; only a build in progress can be cancelled.`);
     }
     await pairset.update({ state: 'cancelled' }, { transaction });
-    await Job.update({ state: 'cancelled', finishedAt: new Date() },
-      { where: { pairsetId: id, kind: 'build-pairset', state: 'queued' }, transaction });
-    await recordAudit({ actorId: actor.id, action: 'pairset.cancel', targetType: 'pairset', targetId: id },
-      transaction);
+    await Job.update(
+      { state: 'cancelled', finishedAt: new Date() },
+      { where: { pairsetId: id, kind: 'build-pairset', state: 'queued' }, transaction },
+    );
+    await recordAudit(
+      { actorId: actor.id, action: 'pairset.cancel', targetType: 'pairset', targetId: id },
+      transaction,
+    );
   });
   return getPairsetDetail(id);
 }
@@ -154,11 +215,21 @@ export async function deletePairset(id: number, actor: User, paths: StoragePaths
       throw conflict('build_running', `Pairset ${id} is being built; cancel the build before deleting it.`);
     }
     await Shard.destroy({ where: { pairsetId: id }, transaction });
-    await Job.update({ state: 'cancelled', finishedAt: new Date() },
-      { where: { pairsetId: id, state: 'queued' }, transaction });
+    await Job.update(
+      { state: 'cancelled', finishedAt: new Date() },
+      { where: { pairsetId: id, state: 'queued' }, transaction },
+    );
     await pairset.destroy({ transaction });
-    await recordAudit({ actorId: actor.id, action: 'pairset.delete', targetType: 'pairset', targetId: id,
-      detail: { name: pairset.name, version: pairset.version, bytes: Number(pairset.bytes) } }, transaction);
+    await recordAudit(
+      {
+        actorId: actor.id,
+        action: 'pairset.delete',
+        targetType: 'pairset',
+        targetId: id,
+        detail: { name: pairset.name, version: pairset.version, bytes: Number(pairset.bytes) },
+      },
+      transaction,
+    );
   });
   await fs.promises.rm(paths.pairsetDir(id), { recursive: true, force: true });
 }
@@ -170,8 +241,11 @@ export async function manifestPath(id: number, paths: StoragePaths): Promise<str
 }
 
 /** The shard file at `index` of a built pairset, with the name a download should take. */
-export async function shardFile(id: number, index: number, paths: StoragePaths):
-Promise<{ path: string; file: string }> {
+export async function shardFile(
+  id: number,
+  index: number,
+  paths: StoragePaths,
+): Promise<{ path: string; file: string }> {
   await builtPairset(id);
   const shard = await Shard.findOne({ where: { pairsetId: id, index } });
   if (!shard) throw notFound(`Shard ${index} of pairset ${id}`);
@@ -193,8 +267,11 @@ async function existingPairset(id: number, transaction?: Transaction): Promise<P
 async function ownedPairset(id: number, actor: User, transaction: Transaction): Promise<Pairset> {
   const pairset = await existingPairset(id, transaction);
   if (pairset.ownerId !== actor.id && actor.role !== 'admin') {
-    throw new AppError(HttpStatus.FORBIDDEN, 'not_owner',
-      `Pairset ${id} belongs to another engineer; make a new version of it to build your own.`);
+    throw new AppError(
+      HttpStatus.FORBIDDEN,
+      'not_owner',
+      `Pairset ${id} belongs to another engineer; make a new version of it to build your own.`,
+    );
   }
   return pairset;
 }
@@ -208,8 +285,11 @@ async function builtPairset(id: number): Promise<Pairset> {
 }
 
 async function assertProjectsExist(projectIds: readonly number[]): Promise<void> {
-  const found = new Set((await Project.findAll({ where: { id: { [Op.in]: [...projectIds] } }, attributes: ['id'] }))
-    .map((project) => project.id));
+  const found = new Set(
+    (await Project.findAll({ where: { id: { [Op.in]: [...projectIds] } }, attributes: ['id'] })).map(
+      (project) => project.id,
+    ),
+  );
   const missing = projectIds.find((projectId) => !found.has(projectId));
   if (missing !== undefined) throw notFound(`Project ${missing}`);
 }
@@ -220,9 +300,12 @@ async function assertQuotaLeft(userId: number, transaction: Transaction): Promis
   const usage = await userUsage(userId, transaction);
   const used = usage.stored + usage.reserved;
   if (used >= Number(user.quotaBytes)) {
-    throw new AppError(HttpStatus.PAYLOAD_TOO_LARGE, 'quota_exceeded',
-      `The quota of ${formatBytes(Number(user.quotaBytes))} is used up (${formatBytes(used)}); a pairset's bytes `
-      + 'count against its owner. Delete a pairset or ask an admin for more room.',
-      { quotaBytes: Number(user.quotaBytes), usedBytes: used });
+    throw new AppError(
+      HttpStatus.PAYLOAD_TOO_LARGE,
+      'quota_exceeded',
+      `The quota of ${formatBytes(Number(user.quotaBytes))} is used up (${formatBytes(used)}); a pairset's bytes ` +
+        'count against its owner. Delete a pairset or ask an admin for more room.',
+      { quotaBytes: Number(user.quotaBytes), usedBytes: used },
+    );
   }
 }

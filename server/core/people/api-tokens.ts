@@ -31,8 +31,10 @@ export async function createApiToken(userId: number, name: string): Promise<Crea
       throw conflict('token_prefix_taken', 'Two tokens drew the same prefix; create the token again.');
     }
     const row = await ApiToken.create({ userId, name, prefix, tokenHash: hashToken(token) }, { transaction });
-    await recordAudit({ actorId: userId, action: 'token.create', targetType: 'api_token', targetId: row.id,
-      detail: { name, prefix } }, transaction);
+    await recordAudit(
+      { actorId: userId, action: 'token.create', targetType: 'api_token', targetId: row.id, detail: { name, prefix } },
+      transaction,
+    );
     return row;
   });
   return { ...created.toApi(), token };
@@ -43,7 +45,10 @@ export async function listApiTokens(userId: number, query: TokenListQuery): Prom
   const direction = query.sort && !query.sort.startsWith('-') ? 'ASC' : 'DESC';
   const { rows, count } = await ApiToken.findAndCountAll({
     where: { userId },
-    order: [[field, direction], ['id', direction]],
+    order: [
+      [field, direction],
+      ['id', direction],
+    ],
     limit: query.pageSize,
     offset: (query.page - 1) * query.pageSize,
   });
@@ -57,14 +62,26 @@ export async function revokeApiToken(id: number, actor: User): Promise<ApiTokenS
     if (!token || (token.userId !== actor.id && actor.role !== 'admin')) throw notFound(`API token ${id}`);
     if (token.revokedAt) throw conflict('token_revoked', `API token ${token.prefix}… was revoked already.`);
     await token.update({ revokedAt: new Date() }, { transaction });
-    await recordAudit({ actorId: actor.id, action: 'token.revoke', targetType: 'api_token', targetId: id,
-      detail: { prefix: token.prefix, ownerId: token.userId } }, transaction);
+    await recordAudit(
+      {
+        actorId: actor.id,
+        action: 'token.revoke',
+        targetType: 'api_token',
+        targetId: id,
+        detail: { prefix: token.prefix, ownerId: token.userId },
+      },
+      transaction,
+    );
     return token.toApi();
   });
 }
 
-const invalidToken = () => new AppError(HttpStatus.UNAUTHORIZED, 'token_invalid',
-  'This API token is unknown or revoked; create a new one on the API tokens page.');
+const invalidToken = () =>
+  new AppError(
+    HttpStatus.UNAUTHORIZED,
+    'token_invalid',
+    'This API token is unknown or revoked; create a new one on the API tokens page.',
+  );
 
 /** The active user a token belongs to; 401 for a malformed, unknown or revoked token or a disabled account. */
 export async function authenticateApiToken(token: string): Promise<User> {

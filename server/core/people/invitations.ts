@@ -34,19 +34,35 @@ export async function createInvitation(
     const invitation = await Invitation.sequelize!.transaction(async (transaction) => {
       const open = await Invitation.findOne({ where: { email, acceptedAt: null, revokedAt: null }, transaction });
       if (open) throw alreadyInvited(email);
-      const created = await Invitation.create({
-        email, role: input.role, tokenHash, invitedById: inviter.id, lastSentAt: now,
-        expiresAt: new Date(now.getTime() + INVITATION_TTL_MS),
-      }, { transaction });
-      await queueMail({
-        to: email,
-        template: 'invitation',
-        data: { inviterName: inviter.name, role: input.role, token, expiresAt: created.expiresAt },
-      }, { transaction, publicUrl: config.publicUrl });
-      await recordAudit({
-        actorId: inviter.id, action: 'invitation.create', targetType: 'invitation', targetId: created.id,
-        detail: { email, role: input.role },
-      }, transaction);
+      const created = await Invitation.create(
+        {
+          email,
+          role: input.role,
+          tokenHash,
+          invitedById: inviter.id,
+          lastSentAt: now,
+          expiresAt: new Date(now.getTime() + INVITATION_TTL_MS),
+        },
+        { transaction },
+      );
+      await queueMail(
+        {
+          to: email,
+          template: 'invitation',
+          data: { inviterName: inviter.name, role: input.role, token, expiresAt: created.expiresAt },
+        },
+        { transaction, publicUrl: config.publicUrl },
+      );
+      await recordAudit(
+        {
+          actorId: inviter.id,
+          action: 'invitation.create',
+          targetType: 'invitation',
+          targetId: created.id,
+          detail: { email, role: input.role },
+        },
+        transaction,
+      );
       return created;
     });
     invitation.invitedBy = inviter;
@@ -74,7 +90,10 @@ export async function listInvitations(query: InvitationListQuery): Promise<ListP
     ],
   };
   const sort = query.sort ?? '-createdAt';
-  const order: Order = [[sort.replace(/^-/, ''), sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'DESC']];
+  const order: Order = [
+    [sort.replace(/^-/, ''), sort.startsWith('-') ? 'DESC' : 'ASC'],
+    ['id', 'DESC'],
+  ];
   const { rows, count } = await Invitation.findAndCountAll({
     where,
     order,
@@ -107,15 +126,24 @@ export async function resendInvitation(id: number, actor: User, config: MailSett
       { where: { id, acceptedAt: null, revokedAt: null }, transaction },
     );
     if (updated === 0) throw conflict('invitation_closed', 'This invitation was used or revoked meanwhile.');
-    await queueMail({
-      to: invitation.email,
-      template: 'invitation',
-      data: { inviterName: actor.name, role: invitation.role, token, expiresAt },
-    }, { transaction, publicUrl: config.publicUrl });
-    await recordAudit({
-      actorId: actor.id, action: 'invitation.resend', targetType: 'invitation', targetId: id,
-      detail: { email: invitation.email },
-    }, transaction);
+    await queueMail(
+      {
+        to: invitation.email,
+        template: 'invitation',
+        data: { inviterName: actor.name, role: invitation.role, token, expiresAt },
+      },
+      { transaction, publicUrl: config.publicUrl },
+    );
+    await recordAudit(
+      {
+        actorId: actor.id,
+        action: 'invitation.resend',
+        targetType: 'invitation',
+        targetId: id,
+        detail: { email: invitation.email },
+      },
+      transaction,
+    );
   });
   await invitation.reload({ include: [WITH_INVITER] });
   return invitation.toApi(now);
@@ -130,10 +158,16 @@ export async function revokeInvitation(id: number, actor: User): Promise<Invitat
       { where: { id, acceptedAt: null, revokedAt: null }, transaction },
     );
     if (updated === 0) throw conflict('invitation_closed', 'This invitation was used or revoked meanwhile.');
-    await recordAudit({
-      actorId: actor.id, action: 'invitation.revoke', targetType: 'invitation', targetId: id,
-      detail: { email: invitation.email },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId: actor.id,
+        action: 'invitation.revoke',
+        targetType: 'invitation',
+        targetId: id,
+        detail: { email: invitation.email },
+      },
+      transaction,
+    );
   });
   await invitation.reload({ include: [WITH_INVITER] });
   return invitation.toApi(now);
@@ -143,9 +177,12 @@ export async function revokeInvitation(id: number, actor: User): Promise<Invitat
 async function findUsableInvitation(token: string, now: Date): Promise<Invitation> {
   const invitation = await Invitation.findByTokenHash(hashOneTimeToken(token));
   if (!invitation) {
-    throw new AppError(HttpStatus.NOT_FOUND, 'invitation_not_found',
-      'This invitation link is not valid. Check that you opened the whole link from the message, or ask an admin '
-      + 'to send it again.');
+    throw new AppError(
+      HttpStatus.NOT_FOUND,
+      'invitation_not_found',
+      'This invitation link is not valid. Check that you opened the whole link from the message, or ask an admin ' +
+        'to send it again.',
+    );
   }
   const state = invitation.stateAt(now);
   if (state !== 'pending') throw invitationGone(state, invitation);
@@ -156,12 +193,19 @@ async function findUsableInvitation(token: string, now: Date): Promise<Invitatio
 function invitationGone(state: InvitationState, invitation: Invitation): AppError {
   const [code, message] = {
     pending: ['invitation_replaced', 'This link was replaced by a newer invitation; open the most recent message.'],
-    accepted: ['invitation_used', 'This invitation has already been used. Sign in with the password you chose, '
-      + 'or use "Forgot password?" on the sign-in page.'],
-    revoked: ['invitation_revoked', 'This invitation was withdrawn by an admin. Ask them for a new one if you '
-      + 'still need access.'],
-    expired: ['invitation_expired', `This invitation expired on ${invitation.expiresAt.toUTCString()}. Ask an `
-      + 'admin to send it again.'],
+    accepted: [
+      'invitation_used',
+      'This invitation has already been used. Sign in with the password you chose, ' +
+        'or use "Forgot password?" on the sign-in page.',
+    ],
+    revoked: [
+      'invitation_revoked',
+      'This invitation was withdrawn by an admin. Ask them for a new one if you ' + 'still need access.',
+    ],
+    expired: [
+      'invitation_expired',
+      `This invitation expired on ${invitation.expiresAt.toUTCString()}. Ask an ` + 'admin to send it again.',
+    ],
   }[state] as [string, string];
   return new AppError(HttpStatus.GONE, code, message);
 }
@@ -175,26 +219,25 @@ export async function previewInvitation(token: string): Promise<InvitationPrevie
  * Turns an invitation into an account. The conditional update takes the invitation exactly once, so two
  * clicks on the same link (or a revoke at the same moment) cannot both succeed.
  */
-export async function acceptInvitation(
-  token: string,
-  input: AcceptInvitationBody,
-  bcryptCost: number,
-): Promise<User> {
+export async function acceptInvitation(token: string, input: AcceptInvitationBody, bcryptCost: number): Promise<User> {
   const invitation = await findUsableInvitation(token, new Date());
   assertPasswordAcceptable(input.password, invitation.email);
   const passwordHash = await hashPassword(input.password, bcryptCost);
   const now = new Date();
   return Invitation.sequelize!.transaction(async (transaction) => {
-    const [taken] = await Invitation.update({ acceptedAt: now }, {
-      where: {
-        id: invitation.id,
-        tokenHash: invitation.tokenHash,
-        acceptedAt: null,
-        revokedAt: null,
-        expiresAt: { [Op.gt]: now },
+    const [taken] = await Invitation.update(
+      { acceptedAt: now },
+      {
+        where: {
+          id: invitation.id,
+          tokenHash: invitation.tokenHash,
+          acceptedAt: null,
+          revokedAt: null,
+          expiresAt: { [Op.gt]: now },
+        },
+        transaction,
       },
-      transaction,
-    });
+    );
     if (taken === 0) {
       await invitation.reload({ transaction });
       throw invitationGone(invitation.stateAt(now), invitation);
@@ -206,14 +249,26 @@ export async function acceptInvitation(
       { email: invitation.email, name: input.name, role: invitation.role, passwordHash },
       { transaction },
     );
-    await recordAudit({
-      actorId: user.id, action: 'invitation.accept', targetType: 'invitation', targetId: invitation.id,
-      detail: { email: invitation.email, role: invitation.role, userId: user.id },
-    }, transaction);
-    await recordAudit({
-      actorId: invitation.invitedById, action: 'user.create', targetType: 'user', targetId: user.id,
-      detail: { email: invitation.email, role: invitation.role, invitationId: invitation.id },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId: user.id,
+        action: 'invitation.accept',
+        targetType: 'invitation',
+        targetId: invitation.id,
+        detail: { email: invitation.email, role: invitation.role, userId: user.id },
+      },
+      transaction,
+    );
+    await recordAudit(
+      {
+        actorId: invitation.invitedById,
+        action: 'user.create',
+        targetType: 'user',
+        targetId: user.id,
+        detail: { email: invitation.email, role: invitation.role, invitationId: invitation.id },
+      },
+      transaction,
+    );
     return user;
   });
 }

@@ -32,15 +32,24 @@ export async function issueResetLink(
     { userId: user.id, tokenHash, expiresAt, requestedById: admin?.id ?? null },
     { transaction },
   );
-  await queueMail({
-    to: user.email,
-    template: 'password-reset',
-    data: { name: user.name, token, expiresAt, requestedBy: admin ? 'admin' : 'self' },
-  }, { transaction, publicUrl: config.publicUrl });
-  await recordAudit({
-    actorId: admin?.id ?? null, action: 'password.reset_link', targetType: 'user', targetId: user.id,
-    detail: { requestedBy: admin ? 'admin' : 'self' },
-  }, transaction);
+  await queueMail(
+    {
+      to: user.email,
+      template: 'password-reset',
+      data: { name: user.name, token, expiresAt, requestedBy: admin ? 'admin' : 'self' },
+    },
+    { transaction, publicUrl: config.publicUrl },
+  );
+  await recordAudit(
+    {
+      actorId: admin?.id ?? null,
+      action: 'password.reset_link',
+      targetType: 'user',
+      targetId: user.id,
+      detail: { requestedBy: admin ? 'admin' : 'self' },
+    },
+    transaction,
+  );
   return reset;
 }
 
@@ -71,8 +80,11 @@ export async function resetPassword(
 ): Promise<void> {
   const reset = await PasswordReset.findByTokenHash(hashOneTimeToken(token));
   if (!reset) {
-    throw new AppError(HttpStatus.NOT_FOUND, 'reset_link_not_found',
-      'This reset link is not valid. Check that you opened the whole link, or ask for a new one.');
+    throw new AppError(
+      HttpStatus.NOT_FOUND,
+      'reset_link_not_found',
+      'This reset link is not valid. Check that you opened the whole link, or ask for a new one.',
+    );
   }
   const now = new Date();
   if (reset.usedAt) throw resetLinkGone('reset_link_used', 'This reset link was already used; ask for a new one.');
@@ -93,9 +105,15 @@ export async function resetPassword(
     if (taken === 0) throw resetLinkGone('reset_link_used', 'This reset link was already used; ask for a new one.');
     await User.update({ passwordHash }, { where: { id: user.id }, transaction });
     const ended = await endSessionsOf(user.id, currentSid, transaction);
-    await recordAudit({
-      actorId: user.id, action: 'password.reset', targetType: 'user', targetId: user.id,
-      detail: { sessionsEnded: ended },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId: user.id,
+        action: 'password.reset',
+        targetType: 'user',
+        targetId: user.id,
+        detail: { sessionsEnded: ended },
+      },
+      transaction,
+    );
   });
 }

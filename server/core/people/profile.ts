@@ -20,10 +20,16 @@ export async function updateProfile(user: User, input: UpdateProfileBody): Promi
   await user.sequelize.transaction(async (transaction) => {
     user.name = input.name;
     await user.save({ fields: ['name'], transaction });
-    await recordAudit({
-      actorId: user.id, action: 'user.update', targetType: 'user', targetId: user.id,
-      detail: { changes: { name: { from, to: input.name } } },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId: user.id,
+        action: 'user.update',
+        targetType: 'user',
+        targetId: user.id,
+        detail: { changes: { name: { from, to: input.name } } },
+      },
+      transaction,
+    );
   });
   return user;
 }
@@ -47,9 +53,15 @@ export async function changePassword(
     user.passwordHash = passwordHash;
     await user.save({ fields: ['passwordHash'], transaction });
     const ended = await endSessionsOf(user.id, currentSid, transaction);
-    await recordAudit({
-      actorId: user.id, action: 'password.change', targetType: 'user', targetId: user.id,
-      detail: { sessionsEnded: ended },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId: user.id,
+        action: 'password.change',
+        targetType: 'user',
+        targetId: user.id,
+        detail: { sessionsEnded: ended },
+      },
+      transaction,
+    );
   });
 }

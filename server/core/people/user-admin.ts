@@ -33,13 +33,14 @@ export async function updateUser(id: number, input: UpdateUserBody, admin: User)
     if (Object.keys(changes).length === 0) return user.toApi();
     const losesAdmin = user.role === 'admin' && !user.disabled && (changes.role || input.disabled === true);
     if (losesAdmin && (await User.count({ where: { role: 'admin', disabled: false }, transaction })) <= 1) {
-      throw conflict('last_admin',
-        `${user.name} is the last active admin; make someone else an admin first, so Kinefold keeps one.`);
+      throw conflict(
+        'last_admin',
+        `${user.name} is the last active admin; make someone else an admin first, so Kinefold keeps one.`,
+      );
     }
-    await user.update(
-      Object.fromEntries(Object.entries(changes).map(([field, change]) => [field, change.to])),
-      { transaction },
-    );
+    await user.update(Object.fromEntries(Object.entries(changes).map(([field, change]) => [field, change.to])), {
+      transaction,
+    });
     if (changes.disabled && input.disabled) await endSessionsOf(user.id, null, transaction);
     await recordAudit(
       { actorId: admin.id, action: 'user.update', targetType: 'user', targetId: user.id, detail: { changes } },

@@ -23,7 +23,10 @@ export async function createUser(input: NewUser, bcryptCost: number, actorId: nu
   const passwordHash = await hashPassword(input.password, bcryptCost);
   try {
     return await User.sequelize!.transaction(async (transaction) => {
-      const user = await User.create({ email, name: input.name.trim(), role: input.role, passwordHash }, { transaction });
+      const user = await User.create(
+        { email, name: input.name.trim(), role: input.role, passwordHash },
+        { transaction },
+      );
       await recordAudit(
         { actorId, action: 'user.create', targetType: 'user', targetId: user.id, detail: { email, role: input.role } },
         transaction,
@@ -47,7 +50,10 @@ export async function listUsers(query: UserListQuery): Promise<ListPage<UserSumm
     ...(query.role ? { role: query.role } : {}),
   };
   const order: Order = query.sort
-    ? [[query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'ASC']]
+    ? [
+        [query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'],
+        ['id', 'ASC'],
+      ]
     : [['id', 'ASC']];
   const { rows, count } = await User.findAndCountAll({
     where,

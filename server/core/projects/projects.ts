@@ -49,8 +49,14 @@ function toSummary(project: Project): ProjectSummary {
 
 export async function listProjects(query: ProjectListQuery): Promise<ListPage<ProjectSummary>> {
   const order: Order = query.sort
-    ? [[query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'], ['id', 'ASC']]
-    : [['archived', 'ASC'], ['name', 'ASC']];
+    ? [
+        [query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'],
+        ['id', 'ASC'],
+      ]
+    : [
+        ['archived', 'ASC'],
+        ['name', 'ASC'],
+      ];
   const where = query.archived === undefined ? {} : { archived: query.archived === 'true' };
   const { rows, count } = await Project.findAndCountAll({
     where,
@@ -70,7 +76,8 @@ export async function getProject(id: number): Promise<ProjectSummary> {
 
 async function assertNameFree(name: string, exceptId?: number): Promise<void> {
   const holder = await Project.findOne({ where: { name } });
-  if (holder && holder.id !== exceptId) throw conflict('project_name_taken', `A project named "${name}" already exists.`);
+  if (holder && holder.id !== exceptId)
+    throw conflict('project_name_taken', `A project named "${name}" already exists.`);
 }
 
 export async function createProject(body: ProjectBody, actorId: number): Promise<ProjectSummary> {
@@ -81,20 +88,30 @@ export async function createProject(body: ProjectBody, actorId: number): Promise
     deltas: body.deltas ?? [...PROJECT_DEFAULTS.deltas],
     estimator: body.estimator ?? PROJECT_DEFAULTS.estimator,
     estimatorParams: body.estimatorParams ?? {},
-    flagThresholds: body.flagThresholds ?? await projectFlagDefaults(),
+    flagThresholds: body.flagThresholds ?? (await projectFlagDefaults()),
   });
   const project = await Project.sequelize!.transaction(async (transaction) => {
-    const created = await Project.create({
-      name: body.name,
-      description: body.description ?? '',
-      archived: body.archived ?? false,
-      quotaBytes: body.quotaBytes ?? null,
-      retentionDays: body.retentionDays ?? null,
-      ...settings,
-    }, { transaction });
-    await recordAudit({
-      actorId, action: 'project.create', targetType: 'project', targetId: created.id, detail: { name: created.name },
-    }, transaction);
+    const created = await Project.create(
+      {
+        name: body.name,
+        description: body.description ?? '',
+        archived: body.archived ?? false,
+        quotaBytes: body.quotaBytes ?? null,
+        retentionDays: body.retentionDays ?? null,
+        ...settings,
+      },
+      { transaction },
+    );
+    await recordAudit(
+      {
+        actorId,
+        action: 'project.create',
+        targetType: 'project',
+        targetId: created.id,
+        detail: { name: created.name },
+      },
+      transaction,
+    );
     return created;
   });
   return getProject(project.id);
@@ -107,18 +124,24 @@ export async function updateProject(id: number, patch: ProjectPatch, actorId: nu
   const { sampleFps, workingSize, deltas, estimator, estimatorParams, flagThresholds } = patch;
   checkProjectSettings({
     ...storedSettings(project),
-    ...Object.fromEntries(Object.entries({ sampleFps, workingSize, deltas, estimator, estimatorParams, flagThresholds })
-      .filter(([, value]) => value !== undefined)),
+    ...Object.fromEntries(
+      Object.entries({ sampleFps, workingSize, deltas, estimator, estimatorParams, flagThresholds }).filter(
+        ([, value]) => value !== undefined,
+      ),
+    ),
   });
   await Project.sequelize!.transaction(async (transaction) => {
     await project.update(patch, { transaction });
-    await recordAudit({
-      actorId,
-      action: patch.archived === true ? 'project.archive' : 'project.update',
-      targetType: 'project',
-      targetId: id,
-      detail: { changed: Object.keys(patch) },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId,
+        action: patch.archived === true ? 'project.archive' : 'project.update',
+        targetType: 'project',
+        targetId: id,
+        detail: { changed: Object.keys(patch) },
+      },
+      transaction,
+    );
   });
   return getProject(id);
 }

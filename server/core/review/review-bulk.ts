@@ -27,15 +27,23 @@ export async function bulkDecide(body: BulkBody, viewer: Viewer, now = new Date(
       ? [...new Set(body.clipIds)]
       : await matchingClipIds(body.filter!, MAX_BULK_CLIPS + 1, transaction);
     if (ids.length > MAX_BULK_CLIPS) {
-      throw new AppError(HttpStatus.UNPROCESSABLE_ENTITY, 'too_many_clips', `More than ${MAX_BULK_CLIPS} clips match `
-        + `this filter; a bulk action decides at most ${MAX_BULK_CLIPS}. Narrow the filter and repeat.`);
+      throw new AppError(
+        HttpStatus.UNPROCESSABLE_ENTITY,
+        'too_many_clips',
+        `More than ${MAX_BULK_CLIPS} clips match ` +
+          `this filter; a bulk action decides at most ${MAX_BULK_CLIPS}. Narrow the filter and repeat.`,
+      );
     }
     const reason = body.reason ? await reasonByCode(body.reason, transaction) : null;
-    const clips = new Map((await Clip.findAll({
-      where: { id: { [Op.in]: ids } },
-      include: [{ model: User, as: 'claimHolder', attributes: ['name'] }],
-      transaction,
-    })).map((clip) => [clip.id, clip]));
+    const clips = new Map(
+      (
+        await Clip.findAll({
+          where: { id: { [Op.in]: ids } },
+          include: [{ model: User, as: 'claimHolder', attributes: ['name'] }],
+          transaction,
+        })
+      ).map((clip) => [clip.id, clip]),
+    );
 
     const results: BulkResult[] = [];
     const decided: Clip[] = [];
@@ -52,32 +60,61 @@ export async function bulkDecide(body: BulkBody, viewer: Viewer, now = new Date(
     const comment = body.comment ?? '';
     if (decided.length > 0) {
       // A clip awaiting review has no verdict in force; this keeps "one in force" true even if one lingered.
-      await Verdict.update({ supersededAt: now },
-        { where: { clipId: { [Op.in]: decidedIds }, supersededAt: null }, transaction });
-      await Verdict.bulkCreate(decided.map((clip) => ({
-        clipId: clip.id, curatorId: viewer.id, decision: body.decision, reason: reason?.code ?? null,
-        reasonLabel: reason?.label ?? null, comment, bulk: true, at: now,
-      })), { transaction });
-      await Clip.update({ state: STATE_AFTER[body.decision], claimedBy: null, claimExpiresAt: null },
-        { where: { id: { [Op.in]: decidedIds } }, transaction });
-      await recordAudits(decided.map((clip) => ({
-        actorId: viewer.id, action: 'clip.verdict', targetType: 'clip', targetId: clip.id,
-        detail: { ...verdictDetail(body.decision, reason, comment), bulk: true },
-      })), transaction);
+      await Verdict.update(
+        { supersededAt: now },
+        { where: { clipId: { [Op.in]: decidedIds }, supersededAt: null }, transaction },
+      );
+      await Verdict.bulkCreate(
+        decided.map((clip) => ({
+          clipId: clip.id,
+          curatorId: viewer.id,
+          decision: body.decision,
+          reason: reason?.code ?? null,
+          reasonLabel: reason?.label ?? null,
+          comment,
+          bulk: true,
+          at: now,
+        })),
+        { transaction },
+      );
+      await Clip.update(
+        { state: STATE_AFTER[body.decision], claimedBy: null, claimExpiresAt: null },
+        { where: { id: { [Op.in]: decidedIds } }, transaction },
+      );
+      await recordAudits(
+        decided.map((clip) => ({
+          actorId: viewer.id,
+          action: 'clip.verdict',
+          targetType: 'clip',
+          targetId: clip.id,
+          detail: { ...verdictDetail(body.decision, reason, comment), bulk: true },
+        })),
+        transaction,
+      );
       if (body.decision === 'reject') {
         for (const uploaderId of new Set(decided.map((clip) => clip.uploaderId))) {
           await scheduleRejectionDigest(uploaderId, transaction, now);
         }
       }
     }
-    await recordAudit({
-      actorId: viewer.id, action: 'review.bulk', targetType: 'review', targetId: null,
-      detail: {
-        decision: body.decision, reason: reason?.code ?? null, comment, chosenBy: body.clipIds ? 'clipIds' : 'filter',
-        filter: body.filter ?? null, applied: decidedIds,
-        skipped: results.filter((result) => result.outcome === 'skipped').length,
+    await recordAudit(
+      {
+        actorId: viewer.id,
+        action: 'review.bulk',
+        targetType: 'review',
+        targetId: null,
+        detail: {
+          decision: body.decision,
+          reason: reason?.code ?? null,
+          comment,
+          chosenBy: body.clipIds ? 'clipIds' : 'filter',
+          filter: body.filter ?? null,
+          applied: decidedIds,
+          skipped: results.filter((result) => result.outcome === 'skipped').length,
+        },
       },
-    }, transaction);
+      transaction,
+    );
     return { results };
   });
 }

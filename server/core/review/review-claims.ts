@@ -28,7 +28,9 @@ export function hasLiveClaim(clip: Clip, now: Date): boolean {
 
 /** Takes the claim, or renews it for its holder; 409 naming the holder when someone else has it. */
 export async function claimClip(
-  clipId: number, viewer: Viewer & { name: string }, now = new Date(),
+  clipId: number,
+  viewer: Viewer & { name: string },
+  now = new Date(),
 ): Promise<ClipClaim> {
   const expiresAt = new Date(now.getTime() + CLAIM_MINUTES * 60_000);
   const taken = await Clip.sequelize!.query(
@@ -44,8 +46,11 @@ export async function claimClip(
   const clip = await Clip.findByPk(clipId);
   if (!clip) throw notFound(`Clip ${clipId}`);
   if (!CLAIMABLE_STATES.includes(clip.state)) {
-    throw conflict('not_reviewable', `Clip ${clipId} is ${clip.state.replace('_', ' ')}; only clips awaiting review `
-      + 'or already decided can be claimed.');
+    throw conflict(
+      'not_reviewable',
+      `Clip ${clipId} is ${clip.state.replace('_', ' ')}; only clips awaiting review ` +
+        'or already decided can be claimed.',
+    );
   }
   throw await claimedByOther(clip);
 }
@@ -63,7 +68,9 @@ export async function claimOf(clip: Clip, transaction?: Transaction, now = new D
   if (!hasLiveClaim(clip, now)) return null;
   const holder = await User.findByPk(clip.claimedBy!, { attributes: ['id', 'name'], transaction });
   return {
-    clipId: clip.id, holderId: clip.claimedBy!, holderName: holder?.name ?? 'a former user',
+    clipId: clip.id,
+    holderId: clip.claimedBy!,
+    holderName: holder?.name ?? 'a former user',
     expiresAt: clip.claimExpiresAt!.toISOString(),
   };
 }
@@ -79,17 +86,27 @@ export async function releaseClaim(clipId: number, viewer: Viewer, now = new Dat
     const claim = await claimOf(clip, transaction, now);
     if (!claim) return;
     if (claim.holderId !== viewer.id && viewer.role !== 'admin') {
-      throw new AppError(HttpStatus.FORBIDDEN, 'not_holder',
-        `Only ${claim.holderName}, who holds the claim on clip ${clipId}, or an admin can release it.`);
+      throw new AppError(
+        HttpStatus.FORBIDDEN,
+        'not_holder',
+        `Only ${claim.holderName}, who holds the claim on clip ${clipId}, or an admin can release it.`,
+      );
     }
     await clip.update({ claimedBy: null, claimExpiresAt: null }, { transaction, silent: true });
     const own = claim.holderId === viewer.id;
-    await recordAudit({
-      actorId: viewer.id, action: 'clip.claim_release', targetType: 'clip', targetId: clipId,
-      detail: {
-        holderId: claim.holderId, holderName: claim.holderName,
-        message: own ? 'left the clip undecided' : `ended ${claim.holderName}'s claim`,
+    await recordAudit(
+      {
+        actorId: viewer.id,
+        action: 'clip.claim_release',
+        targetType: 'clip',
+        targetId: clipId,
+        detail: {
+          holderId: claim.holderId,
+          holderName: claim.holderName,
+          message: own ? 'left the clip undecided' : `ended ${claim.holderName}'s claim`,
+        },
       },
-    }, transaction);
+      transaction,
+    );
   });
 }

@@ -31,7 +31,11 @@ export async function scheduleRejectionDigest(uploaderId: number, transaction: T
     transaction,
   });
   if (waiting) return;
-  await enqueueJob(JOB_KIND, { uploaderId }, { transaction, runAfter: await nextAllowedAt(uploaderId, now, transaction) });
+  await enqueueJob(
+    JOB_KIND,
+    { uploaderId },
+    { transaction, runAfter: await nextAllowedAt(uploaderId, now, transaction) },
+  );
 }
 
 export type DigestOutcome = 'sent' | 'nothing-new' | 'too-soon';
@@ -42,7 +46,9 @@ export type DigestOutcome = 'sent' | 'nothing-new' | 'too-soon';
  * while this one ran).
  */
 export async function sendRejectionDigest(
-  uploaderId: number, publicUrl: string, now = new Date(),
+  uploaderId: number,
+  publicUrl: string,
+  now = new Date(),
 ): Promise<DigestOutcome> {
   return Verdict.sequelize!.transaction(async (transaction) => {
     const uploader = await User.findByPk(uploaderId, { transaction });
@@ -51,7 +57,10 @@ export async function sendRejectionDigest(
     const pending = await Verdict.findAll({
       where: { decision: 'reject', supersededAt: null, digestId: null },
       include: [{ model: Clip, as: 'clip', attributes: ['id', 'originalName'], where: { uploaderId }, required: true }],
-      order: [['at', 'ASC'], ['id', 'ASC']],
+      order: [
+        ['at', 'ASC'],
+        ['id', 'ASC'],
+      ],
       transaction,
     });
     if (pending.length === 0) return 'nothing-new';
@@ -61,18 +70,25 @@ export async function sendRejectionDigest(
     }
     const digest = await RejectionDigest.create({ uploaderId, at: now, clipCount: pending.length }, { transaction });
     await Verdict.update({ digestId: digest.id }, { where: { id: pending.map((verdict) => verdict.id) }, transaction });
-    await queueMail({
-      to: uploader.email,
-      template: 'rejection-digest',
-      data: {
-        name: uploader.name,
-        clips: pending.map((verdict) => {
-          const clip = verdict.get('clip') as Clip;
-          return { clipId: clip.id, originalName: clip.originalName, reason: verdict.reasonLabel ?? 'no reason given',
-            comment: verdict.comment };
-        }),
+    await queueMail(
+      {
+        to: uploader.email,
+        template: 'rejection-digest',
+        data: {
+          name: uploader.name,
+          clips: pending.map((verdict) => {
+            const clip = verdict.get('clip') as Clip;
+            return {
+              clipId: clip.id,
+              originalName: clip.originalName,
+              reason: verdict.reasonLabel ?? 'no reason given',
+              comment: verdict.comment,
+            };
+          }),
+        },
       },
-    }, { transaction, publicUrl });
+      { transaction, publicUrl },
+    );
     return 'sent';
   });
 }

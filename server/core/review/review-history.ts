@@ -6,7 +6,10 @@ export async function verdictHistory(clipId: number): Promise<ClipVerdict[]> {
   const verdicts = await Verdict.findAll({
     where: { clipId },
     include: [{ model: User, as: 'curator', attributes: ['id', 'name'] }],
-    order: [['at', 'ASC'], ['id', 'ASC']],
+    order: [
+      ['at', 'ASC'],
+      ['id', 'ASC'],
+    ],
   });
   return verdicts.map((verdict) => verdict.toApi());
 }

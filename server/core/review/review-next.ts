@@ -6,7 +6,13 @@ import { notFound } from '../errors';
 import { Clip } from '../models';
 import type { Viewer } from '../people/viewer';
 import {
-  DEFAULT_SORT, filterConditions, ITEM_COLUMNS, ITEM_JOINS, SORT_KEYS, toItem, type QueueRow,
+  DEFAULT_SORT,
+  filterConditions,
+  ITEM_COLUMNS,
+  ITEM_JOINS,
+  SORT_KEYS,
+  toItem,
+  type QueueRow,
 } from './review-queue';
 
 /**
@@ -22,34 +28,46 @@ export async function clipsAfter(query: ReviewNextQuery, viewer: Viewer, now = n
   const key = SORT_KEYS[sort.replace(/^-/, '') as ReviewSortField];
   const sequelize = Clip.sequelize!;
   // The anchor's key as stored (dates are text in SQLite), so the comparison below is like with like.
-  const [anchor] = await sequelize.query<{ k: unknown }>(`SELECT ${key} AS k FROM clips WHERE id = :after`,
-    { replacements: { after: query.after }, type: QueryTypes.SELECT });
+  const [anchor] = await sequelize.query<{ k: unknown }>(`SELECT ${key} AS k FROM clips WHERE id = :after`, {
+    replacements: { after: query.after },
+    type: QueryTypes.SELECT,
+  });
   if (!anchor) throw notFound(`Clip ${query.after}`);
 
   const replacements: Record<string, unknown> = {
-    now, after: query.after, k: anchor.k, limit: query.limit, viewerId: viewer.id,
+    now,
+    after: query.after,
+    k: anchor.k,
+    limit: query.limit,
+    viewerId: viewer.id,
   };
   const conditions = filterConditions(query, replacements);
   conditions.push(keyset(`c.${key}`, anchor.k === null, descending));
-  conditions.push('(c.claimedBy IS NULL OR c.claimedBy = :viewerId OR c.claimExpiresAt IS NULL '
-    + 'OR c.claimExpiresAt <= :now)');
+  conditions.push(
+    '(c.claimedBy IS NULL OR c.claimedBy = :viewerId OR c.claimExpiresAt IS NULL ' + 'OR c.claimExpiresAt <= :now)',
+  );
   const direction = descending ? 'DESC' : 'ASC';
   const order = (alias: string) => `${alias}.${key} ${direction}, ${alias}.id ${direction}`;
-  const rows = await sequelize.query<QueueRow>(`
+  const rows = await sequelize.query<QueueRow>(
+    `
     SELECT ${ITEM_COLUMNS}
     FROM (SELECT c.id FROM clips c INDEXED BY clips_queue_by_${key} WHERE ${conditions.join(' AND ')}
           ORDER BY ${order('c')} LIMIT :limit) chosen
     ${ITEM_JOINS}
-    ORDER BY ${order('c')}`, { replacements, type: QueryTypes.SELECT });
+    ORDER BY ${order('c')}`,
+    { replacements, type: QueryTypes.SELECT },
+  );
   return rows.map(toItem);
 }
 
 /** Rows after the anchor (key :k, id :after) in the order (key, id), ascending or descending. */
 function keyset(column: string, anchorNull: boolean, descending: boolean): string {
   if (!descending) {
-    return anchorNull ? `(${column} IS NOT NULL OR c.id > :after)`
+    return anchorNull
+      ? `(${column} IS NOT NULL OR c.id > :after)`
       : `(${column} > :k OR (${column} = :k AND c.id > :after))`;
   }
-  return anchorNull ? `(${column} IS NULL AND c.id < :after)`
+  return anchorNull
+    ? `(${column} IS NULL AND c.id < :after)`
     : `(${column} < :k OR (${column} = :k AND c.id < :after) OR ${column} IS NULL)`;
 }

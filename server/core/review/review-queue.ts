@@ -15,9 +15,16 @@ import { Clip } from '../models';
  */
 
 export const SORT_KEYS: Record<ReviewSortField, string> = {
-  createdAt: 'createdAt', capturedAt: 'capturedAt', durationS: 'durationS', medianSharpness: 'medianSharpness',
-  meanLuma: 'meanLuma', meanMotion: 'meanMotion', consistentShare: 'consistentShare', cutCount: 'cutCount',
-  usablePairs: 'usablePairs', flagCount: 'flagCount',
+  createdAt: 'createdAt',
+  capturedAt: 'capturedAt',
+  durationS: 'durationS',
+  medianSharpness: 'medianSharpness',
+  meanLuma: 'meanLuma',
+  meanMotion: 'meanMotion',
+  consistentShare: 'consistentShare',
+  cutCount: 'cutCount',
+  usablePairs: 'usablePairs',
+  flagCount: 'flagCount',
 };
 
 /** Oldest first: clips that have waited longest come up first unless the curator sorts otherwise. */
@@ -99,7 +106,9 @@ export const ITEM_JOINS = `JOIN clips c ON c.id = chosen.id
 /** The page and count statements for a queue query (the benchmark times the same statements raw). */
 export function queueSql(query: ReviewQueueQuery, now: Date): QueueSql {
   const replacements: Record<string, unknown> = {
-    now, limit: query.pageSize, offset: (query.page - 1) * query.pageSize,
+    now,
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
   };
   const where = filterConditions(query, replacements).join(' AND ');
   const sort = query.sort ?? DEFAULT_SORT;
@@ -132,11 +141,18 @@ export function toItem(row: QueueRow): ReviewQueueItem {
   const { claimHolderId, claimHolderName, claimExpiresAt, ...fields } = row;
   return {
     ...fields,
-    capturedAt: row.capturedAt ? iso(row.capturedAt) : null, createdAt: iso(row.createdAt),
-    hasThumbnail: Boolean(row.hasThumbnail), flags: JSON.parse(row.flags) as FlagName[],
-    claim: claimHolderId === null ? null : {
-      holderId: claimHolderId, holderName: claimHolderName ?? 'a former user', expiresAt: iso(claimExpiresAt!),
-    },
+    capturedAt: row.capturedAt ? iso(row.capturedAt) : null,
+    createdAt: iso(row.createdAt),
+    hasThumbnail: Boolean(row.hasThumbnail),
+    flags: JSON.parse(row.flags) as FlagName[],
+    claim:
+      claimHolderId === null
+        ? null
+        : {
+            holderId: claimHolderId,
+            holderName: claimHolderName ?? 'a former user',
+            expiresAt: iso(claimExpiresAt!),
+          },
   };
 }
 
@@ -146,15 +162,25 @@ export async function listReviewQueue(query: ReviewQueueQuery, now = new Date())
   const countValues = Object.entries(sql.replacements).filter(([name]) => sql.count.includes(`:${name}`));
   const [rows, total] = await Promise.all([
     sequelize.query<QueueRow>(sql.page, { replacements: sql.replacements, type: QueryTypes.SELECT }),
-    reusedCount(`${sql.count} ${JSON.stringify(countValues)}`, async () => (await sequelize.query<{ total: number }>(
-      sql.count, { replacements: sql.replacements, type: QueryTypes.SELECT }))[0]?.total ?? 0),
+    reusedCount(
+      `${sql.count} ${JSON.stringify(countValues)}`,
+      async () =>
+        (
+          await sequelize.query<{ total: number }>(sql.count, {
+            replacements: sql.replacements,
+            type: QueryTypes.SELECT,
+          })
+        )[0]?.total ?? 0,
+    ),
   ]);
   return { items: rows.map(toItem), total, page: query.page, pageSize: query.pageSize };
 }
 
 /** Ids of the queue's clips matching a filter, at most `limit`, for a bulk action (in its transaction). */
 export async function matchingClipIds(
-  filter: ReviewFilter, limit: number, transaction: Transaction,
+  filter: ReviewFilter,
+  limit: number,
+  transaction: Transaction,
 ): Promise<number[]> {
   const replacements: Record<string, unknown> = { limit };
   const where = filterConditions(filter, replacements).join(' AND ');

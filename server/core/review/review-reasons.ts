@@ -1,5 +1,9 @@
 import type { Transaction } from 'sequelize';
-import { DEFAULT_REJECT_REASONS, REJECT_REASONS_SETTING, type RejectReason } from '../../../shared/review/reject-reasons';
+import {
+  DEFAULT_REJECT_REASONS,
+  REJECT_REASONS_SETTING,
+  type RejectReason,
+} from '../../../shared/review/reject-reasons';
 import type { RejectReasonsBody } from '../../../shared/schemas/review';
 import type { RejectReasonList } from '../../../shared/types/review';
 import { badRequest } from '../errors';
@@ -24,10 +28,16 @@ export async function replaceRejectReasons(body: RejectReasonsBody, actorId: num
   await Setting.sequelize!.transaction(async (transaction) => {
     const before = await rejectReasons(transaction);
     await Setting.upsert({ key: REJECT_REASONS_SETTING, value: body.reasons, updatedById: actorId }, { transaction });
-    await recordAudit({
-      actorId, action: 'settings.reject_reasons', targetType: 'setting', targetId: REJECT_REASONS_SETTING,
-      detail: { before: before.map((r) => r.code), after: body.reasons.map((r) => r.code) },
-    }, transaction);
+    await recordAudit(
+      {
+        actorId,
+        action: 'settings.reject_reasons',
+        targetType: 'setting',
+        targetId: REJECT_REASONS_SETTING,
+        detail: { before: before.map((r) => r.code), after: body.reasons.map((r) => r.code) },
+      },
+      transaction,
+    );
   });
   return listRejectReasons();
 }
@@ -37,8 +47,10 @@ export async function reasonByCode(code: string, transaction: Transaction): Prom
   const reasons = await rejectReasons(transaction);
   const reason = reasons.find((candidate) => candidate.code === code);
   if (!reason) {
-    throw badRequest('unknown_reason',
-      `reason: "${code}" is not in the reject-reasons list (${reasons.map((r) => r.code).join(', ')}).`);
+    throw badRequest(
+      'unknown_reason',
+      `reason: "${code}" is not in the reject-reasons list (${reasons.map((r) => r.code).join(', ')}).`,
+    );
   }
   return reason;
 }

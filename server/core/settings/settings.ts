@@ -4,7 +4,11 @@ import type { Config } from '../config';
 import { Setting } from '../models';
 import { recordAudit } from '../audit/audit';
 
-const KEYS = { projectFlagDefaults: 'project-flag-defaults', mailFrom: 'mail-from', sessionHours: 'session-hours' } as const;
+const KEYS = {
+  projectFlagDefaults: 'project-flag-defaults',
+  mailFrom: 'mail-from',
+  sessionHours: 'session-hours',
+} as const;
 
 const SESSION_SETTING_TTL_MS = 30_000;
 let sessionHoursCache: { hours: number; until: number } | null = null;
@@ -18,7 +22,10 @@ export async function projectFlagDefaults(): Promise<Settings['projectFlagDefaul
 /** Session lifetime in force, read at most every 30 s (every request asks). */
 export async function sessionMaxAgeMs(config: Pick<Config, 'mailFrom' | 'sessionMaxAgeMs'>): Promise<number> {
   if (!sessionHoursCache || sessionHoursCache.until < Date.now()) {
-    sessionHoursCache = { hours: (await currentSettings(config)).sessionHours, until: Date.now() + SESSION_SETTING_TTL_MS };
+    sessionHoursCache = {
+      hours: (await currentSettings(config)).sessionHours,
+      until: Date.now() + SESSION_SETTING_TTL_MS,
+    };
   }
   return sessionHoursCache.hours * 3600_000;
 }
@@ -28,8 +35,9 @@ export async function currentSettings(config: Pick<Config, 'mailFrom' | 'session
   const rows = await Setting.findAll({ where: { key: Object.values(KEYS) } });
   const saved = new Map(rows.map((row) => [row.key, row.value]));
   return {
-    projectFlagDefaults: (saved.get(KEYS.projectFlagDefaults) as Settings['projectFlagDefaults'] | undefined)
-      ?? { ...DEFAULT_FLAG_THRESHOLDS },
+    projectFlagDefaults: (saved.get(KEYS.projectFlagDefaults) as Settings['projectFlagDefaults'] | undefined) ?? {
+      ...DEFAULT_FLAG_THRESHOLDS,
+    },
     mailFrom: (saved.get(KEYS.mailFrom) as string | undefined) ?? config.mailFrom,
     sessionHours: (saved.get(KEYS.sessionHours) as number | undefined) ?? Math.round(config.sessionMaxAgeMs / 3600_000),
   };
@@ -41,7 +49,15 @@ export async function saveSettings(settings: Settings, actorId: number): Promise
       await Setting.upsert({ key, value: settings[field], updatedById: actorId }, { transaction });
     }
     sessionHoursCache = null;
-    await recordAudit({ actorId, action: 'settings.update', targetType: 'setting', targetId: null,
-      detail: { mailFrom: settings.mailFrom, sessionHours: settings.sessionHours } }, transaction);
+    await recordAudit(
+      {
+        actorId,
+        action: 'settings.update',
+        targetType: 'setting',
+        targetId: null,
+        detail: { mailFrom: settings.mailFrom, sessionHours: settings.sessionHours },
+      },
+      transaction,
+    );
   });
 }

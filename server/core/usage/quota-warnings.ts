@@ -22,31 +22,64 @@ interface Scope {
  * usage fell back below it is forgotten, so the next crossing is told again.
  */
 export async function checkQuotaThresholds(
-  projectId: number, userId: number, publicUrl: string, transaction: Transaction,
+  projectId: number,
+  userId: number,
+  publicUrl: string,
+  transaction: Transaction,
 ): Promise<void> {
   const project = await Project.findByPk(projectId, { transaction });
   if (!project) return;
   const projectOperators = await User.findAll({
-    where: { id: { [Op.in]: Clip.sequelize!.literal(`(SELECT DISTINCT uploaderId FROM clips WHERE projectId = ${Number(projectId)})`) },
-      role: 'operator', disabled: false },
+    where: {
+      id: {
+        [Op.in]: Clip.sequelize!.literal(
+          `(SELECT DISTINCT uploaderId FROM clips WHERE projectId = ${Number(projectId)})`,
+        ),
+      },
+      role: 'operator',
+      disabled: false,
+    },
     transaction,
   });
   const admins = await adminsOf(transaction);
-  await checkScope({ scope: 'project', scopeId: project.id, label: `Project "${project.name}"`,
-    quotaBytes: project.quotaBytes, usedBytes: (await projectUsage(project.id, transaction)).stored,
-    operators: projectOperators }, admins, publicUrl, transaction);
+  await checkScope(
+    {
+      scope: 'project',
+      scopeId: project.id,
+      label: `Project "${project.name}"`,
+      quotaBytes: project.quotaBytes,
+      usedBytes: (await projectUsage(project.id, transaction)).stored,
+      operators: projectOperators,
+    },
+    admins,
+    publicUrl,
+    transaction,
+  );
   await checkUserQuotaThresholds(userId, publicUrl, transaction, admins);
 }
 
 /** The same for one person's quota alone: after a pairset of theirs is built, its bytes count against them. */
 export async function checkUserQuotaThresholds(
-  userId: number, publicUrl: string, transaction: Transaction, admins?: User[],
+  userId: number,
+  publicUrl: string,
+  transaction: Transaction,
+  admins?: User[],
 ): Promise<void> {
   const user = await User.findByPk(userId, { transaction });
   if (!user) return;
-  await checkScope({ scope: 'user', scopeId: user.id, label: `The account of ${user.name}`,
-    quotaBytes: user.quotaBytes, usedBytes: (await userUsage(user.id, transaction)).stored,
-    operators: [user] }, admins ?? await adminsOf(transaction), publicUrl, transaction);
+  await checkScope(
+    {
+      scope: 'user',
+      scopeId: user.id,
+      label: `The account of ${user.name}`,
+      quotaBytes: user.quotaBytes,
+      usedBytes: (await userUsage(user.id, transaction)).stored,
+      operators: [user],
+    },
+    admins ?? (await adminsOf(transaction)),
+    publicUrl,
+    transaction,
+  );
 }
 
 function adminsOf(transaction: Transaction): Promise<User[]> {
@@ -67,11 +100,20 @@ async function checkScope(scope: Scope, admins: User[], publicUrl: string, trans
     await QuotaWarning.create({ scope: kind, scopeId, percent, crossedAt: new Date() }, { transaction });
     const recipients = new Map([...admins, ...scope.operators].map((person) => [person.email, person]));
     for (const person of recipients.values()) {
-      await queueMail({
-        to: person.email,
-        template: 'quota-threshold',
-        data: { name: person.name, subjectLabel: scope.label, percent, usedBytes: scope.usedBytes, quotaBytes: quota! },
-      }, { transaction, publicUrl });
+      await queueMail(
+        {
+          to: person.email,
+          template: 'quota-threshold',
+          data: {
+            name: person.name,
+            subjectLabel: scope.label,
+            percent,
+            usedBytes: scope.usedBytes,
+            quotaBytes: quota!,
+          },
+        },
+        { transaction, publicUrl },
+      );
     }
   }
 }

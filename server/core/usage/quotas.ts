@@ -6,7 +6,10 @@ import { AppError, conflict, notFound } from '../errors';
 import { Project, UploadReservation, User } from '../models';
 
 /** Bytes a project's clips hold now, plus bytes reserved by uploads in flight. */
-export async function projectUsage(projectId: number, transaction?: Transaction): Promise<{ stored: number; reserved: number }> {
+export async function projectUsage(
+  projectId: number,
+  transaction?: Transaction,
+): Promise<{ stored: number; reserved: number }> {
   const [row] = await Project.sequelize!.query<{ stored: number | null; reserved: number | null }>(
     `SELECT (SELECT SUM(storedBytes) FROM clips WHERE projectId = :id) AS stored,
             (SELECT SUM(bytes) FROM upload_reservations WHERE projectId = :id) AS reserved`,
@@ -16,7 +19,10 @@ export async function projectUsage(projectId: number, transaction?: Transaction)
 }
 
 /** Bytes a user's uploads and the pairsets they built hold now, plus bytes reserved by their uploads in flight. */
-export async function userUsage(userId: number, transaction?: Transaction): Promise<{ stored: number; reserved: number }> {
+export async function userUsage(
+  userId: number,
+  transaction?: Transaction,
+): Promise<{ stored: number; reserved: number }> {
   const [row] = await User.sequelize!.query<{ stored: number | null; reserved: number | null }>(
     `SELECT COALESCE((SELECT SUM(storedBytes) FROM clips WHERE uploaderId = :id), 0)
               + COALESCE((SELECT SUM(bytes) FROM pairsets WHERE ownerId = :id), 0) AS stored,
@@ -28,9 +34,12 @@ export async function userUsage(userId: number, transaction?: Transaction): Prom
 
 function overQuota(what: string, quota: number, used: number, bytes: number): AppError {
   const left = Math.max(0, quota - used);
-  return new AppError(HttpStatus.PAYLOAD_TOO_LARGE, 'quota_exceeded',
+  return new AppError(
+    HttpStatus.PAYLOAD_TOO_LARGE,
+    'quota_exceeded',
     `${what} quota of ${formatBytes(quota)} has ${formatBytes(left)} left; this upload needs ${formatBytes(bytes)}.`,
-    { quotaBytes: quota, usedBytes: used, neededBytes: bytes });
+    { quotaBytes: quota, usedBytes: used, neededBytes: bytes },
+  );
 }
 
 /**
@@ -41,7 +50,8 @@ export async function reserveUpload(projectId: number, userId: number, bytes: nu
   return Project.sequelize!.transaction(async (transaction) => {
     const project = await Project.findByPk(projectId, { transaction });
     if (!project) throw notFound(`Project ${projectId}`);
-    if (project.archived) throw conflict('project_archived', `Project "${project.name}" is archived and takes no uploads.`);
+    if (project.archived)
+      throw conflict('project_archived', `Project "${project.name}" is archived and takes no uploads.`);
     if (project.quotaBytes !== null) {
       const usage = await projectUsage(projectId, transaction);
       const used = usage.stored + usage.reserved;

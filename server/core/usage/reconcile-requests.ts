@@ -10,12 +10,16 @@ import { enqueueJob } from '../jobs/enqueue';
 export async function requestReconcile(reason: 'scheduled' | 'on-demand', actorId: number | null): Promise<Job> {
   return Job.sequelize!.transaction(async (transaction: Transaction) => {
     const pending = await Job.findOne({
-      where: { kind: 'reconcile-usage', state: { [Op.in]: ['queued', 'running'] } }, transaction,
+      where: { kind: 'reconcile-usage', state: { [Op.in]: ['queued', 'running'] } },
+      transaction,
     });
     if (pending) return pending;
     const job = await enqueueJob('reconcile-usage', { reason }, { transaction });
     if (actorId !== null) {
-      await recordAudit({ actorId, action: 'usage.reconcile-request', targetType: 'job', targetId: job.id }, transaction);
+      await recordAudit(
+        { actorId, action: 'usage.reconcile-request', targetType: 'job', targetId: job.id },
+        transaction,
+      );
     }
     return job;
   });

@@ -12,7 +12,8 @@ export const STALE_UPLOAD_MS = 60 * 60_000;
  * their reservations still hold, so a crash mid-upload costs neither disk nor quota.
  */
 export async function cleanStaleUploads(
-  paths: StoragePaths, { before = Date.now() - STALE_UPLOAD_MS }: { before?: number } = {},
+  paths: StoragePaths,
+  { before = Date.now() - STALE_UPLOAD_MS }: { before?: number } = {},
 ): Promise<{ files: number; reservations: number }> {
   const cutoff = before;
   let files = 0;

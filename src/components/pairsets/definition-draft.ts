@@ -1,7 +1,5 @@
 import type { ViewKind } from '../../../shared/pairing/pairing-graph';
-import {
-  PAIRSET_DEFAULTS, type MotionFormat, type PairsetPreviewBody,
-} from '../../../shared/schemas/pairsets';
+import { PAIRSET_DEFAULTS, type MotionFormat, type PairsetPreviewBody } from '../../../shared/schemas/pairsets';
 
 /** What the definition form edits: text fields as typed, numbers that may be left empty. */
 export interface DefinitionDraft {
@@ -30,14 +28,31 @@ const END_OF_DAY_MS = 86_399_999;
 
 export function emptyDraft(): DefinitionDraft {
   return {
-    name: '', projectIds: [], sites: '', tags: '', captured: null, views: ['frame', 'neighbour', 'motion'],
-    deltas: '1, 2', graph: 'core', coreView: null, minMeanMotion: null, minConsistentShare: null, outputSize: null,
-    motionFormat: PAIRSET_DEFAULTS.motionFormat, valPercent: 10, seed: 1, shardMB: PAIRSET_DEFAULTS.shardMB,
+    name: '',
+    projectIds: [],
+    sites: '',
+    tags: '',
+    captured: null,
+    views: ['frame', 'neighbour', 'motion'],
+    deltas: '1, 2',
+    graph: 'core',
+    coreView: null,
+    minMeanMotion: null,
+    minConsistentShare: null,
+    outputSize: null,
+    motionFormat: PAIRSET_DEFAULTS.motionFormat,
+    valPercent: 10,
+    seed: 1,
+    shardMB: PAIRSET_DEFAULTS.shardMB,
     temperature: PAIRSET_DEFAULTS.temperature,
   };
 }
 
-const list = (text: string) => text.split(',').map((item) => item.trim()).filter(Boolean);
+const list = (text: string) =>
+  text
+    .split(',')
+    .map((item) => item.trim())
+    .filter(Boolean);
 
 /** The API body of a draft; fields left empty are left out, so the server's defaults and checks apply. */
 export function definitionBody(draft: DefinitionDraft): PairsetPreviewBody {

@@ -19,10 +19,14 @@ const STRIP_AHEAD = 14;
 export async function fetchClipEvidence(clipId: number): Promise<ClipEvidence> {
   const detail = await getClip(clipId);
   const [list, project] = await Promise.all([
-    detail.frameCount ? listFrames(clipId) : Promise.resolve(null), getProject(detail.projectId),
+    detail.frameCount ? listFrames(clipId) : Promise.resolve(null),
+    getProject(detail.projectId),
   ]);
   return {
-    detail, frames: list?.items ?? [], motionScale: list?.motionScale ?? null, deltas: project.settings.deltas,
+    detail,
+    frames: list?.items ?? [],
+    motionScale: list?.motionScale ?? null,
+    deltas: project.settings.deltas,
   };
 }
 

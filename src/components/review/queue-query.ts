@@ -7,7 +7,14 @@ import type { QueueQueryParams } from '../../api/review';
  * route's query goes to the API as it is, and the filter part of it is a bulk action's `filter`.
  */
 export const FILTER_KEYS = [
-  'projectId', 'hasFlag', 'lacksFlag', 'flagged', 'site', 'uploaderId', 'capturedFrom', 'capturedTo',
+  'projectId',
+  'hasFlag',
+  'lacksFlag',
+  'flagged',
+  'site',
+  'uploaderId',
+  'capturedFrom',
+  'capturedTo',
 ] as const;
 export const QUEUE_KEYS = [...FILTER_KEYS, 'page', 'pageSize', 'sort'] as const;
 

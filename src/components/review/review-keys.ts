@@ -3,8 +3,22 @@
  * disagree. Kinefold's own choice of keys: letters named after what they do, arrows for frames.
  */
 export type ReviewAction =
-  | 'accept' | 'reject' | 'undo' | 'next' | 'back' | 'frame-earlier' | 'frame-later' | 'frame-first' | 'frame-last'
-  | 'overlay' | 'compare' | 'play' | 'comment' | 'queue' | 'help' | 'close';
+  | 'accept'
+  | 'reject'
+  | 'undo'
+  | 'next'
+  | 'back'
+  | 'frame-earlier'
+  | 'frame-later'
+  | 'frame-first'
+  | 'frame-last'
+  | 'overlay'
+  | 'compare'
+  | 'play'
+  | 'comment'
+  | 'queue'
+  | 'help'
+  | 'close';
 
 export interface KeyBinding {
   action: ReviewAction;

@@ -22,7 +22,14 @@ export const UTC_OFFSETS: string[] = [
 ].map(offsetLabel);
 
 export function emptyCaptureForm(): CaptureForm {
-  return { site: '', rig: '', capturedAt: null, utcOffset: offsetLabel(-new Date().getTimezoneOffset()), tags: [], notes: '' };
+  return {
+    site: '',
+    rig: '',
+    capturedAt: null,
+    utcOffset: offsetLabel(-new Date().getTimezoneOffset()),
+    tags: [],
+    notes: '',
+  };
 }
 
 /** The wall-clock time picked on site, written with the chosen offset (ISO 8601), as the upload expects. */
@@ -30,8 +37,8 @@ export function captureFields(form: CaptureForm): Record<string, string> {
   const at = form.capturedAt;
   const pad = (value: number) => String(value).padStart(2, '0');
   const capturedAt = at
-    ? `${at.getFullYear()}-${pad(at.getMonth() + 1)}-${pad(at.getDate())}T${pad(at.getHours())}:${pad(at.getMinutes())}:00`
-      + form.utcOffset
+    ? `${at.getFullYear()}-${pad(at.getMonth() + 1)}-${pad(at.getDate())}T${pad(at.getHours())}:${pad(at.getMinutes())}:00` +
+      form.utcOffset
     : '';
   return { site: form.site, rig: form.rig, capturedAt, tags: form.tags.join(','), notes: form.notes };
 }

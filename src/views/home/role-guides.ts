@@ -14,8 +14,8 @@ export const ROLE_GUIDES: Record<Role, RoleGuide> = {
     duties: [
       'Upload many clips at once and tag them with site, rig, capture time and notes.',
       'See at once when a file is unusable, and why.',
-      'Follow each clip through processing and see the curator\'s verdict and reason.',
-      'Keep an eye on your project\'s storage quota.',
+      "Follow each clip through processing and see the curator's verdict and reason.",
+      "Keep an eye on your project's storage quota.",
     ],
   },
   curator: {
@@ -29,10 +29,11 @@ export const ROLE_GUIDES: Record<Role, RoleGuide> = {
   },
   engineer: {
     title: 'Build paired views for pre-training',
-    summary: 'You define pairsets from accepted clips, build them into checksummed shards and pull them to training machines.',
+    summary:
+      'You define pairsets from accepted clips, build them into checksummed shards and pull them to training machines.',
     duties: [
       'Choose the views per moment and how they pair: around one core view or every pair.',
-      'Read each pairset\'s statistics and pair difficulty before spending GPU time.',
+      "Read each pairset's statistics and pair difficulty before spending GPU time.",
       'Download shards in the browser or with an API token and curl.',
     ],
   },
@@ -42,7 +43,7 @@ export const ROLE_GUIDES: Record<Role, RoleGuide> = {
     duties: [
       'Invite people and give each the role they need.',
       'Create projects and set their quotas and processing settings.',
-      'Watch usage, the worker\'s jobs and the audit trail.',
+      "Watch usage, the worker's jobs and the audit trail.",
     ],
   },
 };

@@ -76,7 +76,11 @@ describe('sRGB → CIE L*a*b* (D65)', () => {
   it('inverts L*a*b* → XYZ on both branches of f', () => {
     // Lindbloom's inverse equations with ε = 216/24389, κ = 24389/27 (CHECK-VALUES §5): XYZ → Lab → XYZ is the
     // identity, including dark values below ε where the linear branch applies [C].
-    for (const xyz of [{ x: 0.3, y: 0.4, z: 0.5 }, { x: 0.001, y: 0.002, z: 0.0005 }, { x: 0.9, y: 0.05, z: 1.0 }]) {
+    for (const xyz of [
+      { x: 0.3, y: 0.4, z: 0.5 },
+      { x: 0.001, y: 0.002, z: 0.0005 },
+      { x: 0.9, y: 0.05, z: 1.0 },
+    ]) {
       const back = labToXyz(xyzToLab(xyz));
       expect(back.x).toBeCloseTo(xyz.x, 12);
       expect(back.y).toBeCloseTo(xyz.y, 12);
@@ -99,7 +103,7 @@ describe('whole images', () => {
     const pixels = levels.length ** 3;
     const rgb = new Uint8Array(pixels * 3);
     let i = 0;
-    for (const r of levels) for (const g of levels) for (const b of levels) rgb.set([r, g, b], (i++) * 3);
+    for (const r of levels) for (const g of levels) for (const b of levels) rgb.set([r, g, b], i++ * 3);
     const lab = planes(pixels);
     rgbImageToLab(rgb, lab);
     const back = new Uint8Array(rgb.length);

@@ -21,12 +21,7 @@ describe('chroma view encoding', () => {
     const a = Float32Array.from([0, -128, 80.0925, 200]);
     const b = Float32Array.from([0, 127.99, -107.8602, -200]);
     const rgb = encodeChroma(a, b);
-    expect(Array.from(rgb)).toEqual([
-      32768, 32768, 0,
-      0, 65533, 0,
-      53272, 5156, 0,
-      65535, 0, 0,
-    ]);
+    expect(Array.from(rgb)).toEqual([32768, 32768, 0, 0, 65533, 0, 53272, 5156, 0, 65535, 0, 0]);
   });
 
   it('decodes to within half a code step (1/512)', () => {

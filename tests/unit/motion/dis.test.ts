@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { DIS_PRESETS, disScales, estimateDis, validateDisParams, type DisParams } from '../../../worker/motion/dis/dis.js';
+import {
+  DIS_PRESETS,
+  disScales,
+  estimateDis,
+  validateDisParams,
+  type DisParams,
+} from '../../../worker/motion/dis/dis.js';
 import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
 import { resolveParams } from '../../../worker/motion/index.js';
 import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';

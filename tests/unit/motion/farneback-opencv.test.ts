@@ -1,6 +1,10 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { averageErrors } from '../../../worker/motion/fields/error-measures.js';
-import { FARNEBACK_DEFAULTS, estimateFarneback, type FarnebackParams } from '../../../worker/motion/farneback/farneback.js';
+import {
+  FARNEBACK_DEFAULTS,
+  estimateFarneback,
+  type FarnebackParams,
+} from '../../../worker/motion/farneback/farneback.js';
 import { MotionWorkspace } from '../../../worker/motion/kernels/workspace.js';
 import { makeMotionPair } from '../../helpers/motion-pairs.js';
 import { BORDER, MOTION_CASES, SEED } from './motion-cases.js';

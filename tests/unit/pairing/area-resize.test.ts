@@ -37,7 +37,12 @@ describe('area-averaging resize', () => {
   it('agrees with OpenCV resize(INTER_AREA) when shrinking by non-integer ratios', () => {
     // Cross-check against OpenCV.js `cv.resize(…, INTER_AREA)`, including the 9×8 size of the difference hash.
     const random = mulberry32(21);
-    for (const [w, h, ow, oh] of [[5, 3, 2, 2], [37, 23, 9, 8], [64, 48, 16, 16], [100, 30, 7, 5]]) {
+    for (const [w, h, ow, oh] of [
+      [5, 3, 2, 2],
+      [37, 23, 9, 8],
+      [64, 48, 16, 16],
+      [100, 30, 7, 5],
+    ]) {
       const src = Float32Array.from({ length: w * h }, () => random() * 255);
       const theirs = openCvArea(src, w, h, ow, oh);
       const ours = resizeArea(src, w, h, ow, oh);

@@ -51,7 +51,12 @@ function trainAndMeasure(d: number, rho: number): CriticBound[] {
   const train = correlatedGaussians(2048, d, rho, 11);
   const heldOut = correlatedGaussians(1024, d, rho, 12);
   // Every pair its own group: the stopping pairs are drawn pair by pair, as for one long clip.
-  const { critic } = trainCritic(train.a, train.b, train.a.map((_, i) => i), options(13));
+  const { critic } = trainCritic(
+    train.a,
+    train.b,
+    train.a.map((_, i) => i),
+    options(13),
+  );
   return KS.map((k) => criticBound(critic, heldOut.a, heldOut.b, k, 14)!);
 }
 
@@ -92,17 +97,28 @@ describe('trained critic on correlated Gaussians (known mutual information)', ()
     const second = trainCritic(sample.a, sample.b, groups, options(3));
     expect(second.critic.wa).toEqual(first.critic.wa);
     expect(second.curve).toEqual(first.curve);
-    expect(criticBound(second.critic, sample.a, sample.b, 16, 2)).toEqual(criticBound(first.critic, sample.a,
-      sample.b, 16, 2));
+    expect(criticBound(second.critic, sample.a, sample.b, 16, 2)).toEqual(
+      criticBound(first.critic, sample.a, sample.b, 16, 2),
+    );
     const other = trainCritic(sample.a, sample.b, groups, options(4));
     expect(other.critic.wa).not.toEqual(first.critic.wa);
   });
 
   it('trains one matrix for both views when tied', () => {
     const sample = correlatedGaussians(200, 6, 0.6, 22);
-    const tied = trainCritic(sample.a, sample.b, sample.a.map((_, i) => i % 4), { ...options(5), tied: true });
+    const tied = trainCritic(
+      sample.a,
+      sample.b,
+      sample.a.map((_, i) => i % 4),
+      { ...options(5), tied: true },
+    );
     expect(tied.critic.wb).toEqual(tied.critic.wa);
-    const free = trainCritic(sample.a, sample.b, sample.a.map((_, i) => i % 4), options(5));
+    const free = trainCritic(
+      sample.a,
+      sample.b,
+      sample.a.map((_, i) => i % 4),
+      options(5),
+    );
     expect(free.critic.wb).not.toEqual(free.critic.wa);
   });
 

@@ -7,13 +7,22 @@ function result(k: number, bound: number | null, floor: number | null = null): C
   const logK = Math.log(k);
   const figure = (value: number) => ({ k, batches: 1, anchors: 2 * k, meanLoss: logK - value, logK, bound: value });
   return {
-    k, logK, heldOut: bound === null ? null : figure(bound), train: figure(logK / 2),
+    k,
+    logK,
+    heldOut: bound === null ? null : figure(bound),
+    train: figure(logK / 2),
     floor: floor === null ? null : { meanLoss: logK - floor, bound: floor },
   };
 }
 
 const input = (results: CriticKResult[], extra: Partial<CriticReadingInput> = {}): CriticReadingInput => ({
-  results, trained: true, trainPairs: 300, trainClips: 6, heldOutPairs: 80, smallestK: 16, ...extra,
+  results,
+  trained: true,
+  trainPairs: 300,
+  trainClips: 6,
+  heldOutPairs: 80,
+  smallestK: 16,
+  ...extra,
 });
 
 describe('reading a trained-critic report', () => {
@@ -45,7 +54,8 @@ describe('reading a trained-critic report', () => {
 
   it('says why there is no figure: too few val pairs, or too few train pairs', () => {
     expect(readCritic(input([result(16, null)], { heldOutPairs: 9 }))).toMatchObject({
-      reading: 'no-held-out', message: expect.stringContaining('9 pairs'),
+      reading: 'no-held-out',
+      message: expect.stringContaining('9 pairs'),
     });
     expect(readCritic(input([result(16, null)], { trained: false, trainPairs: 3 })).reading).toBe('too-few');
   });

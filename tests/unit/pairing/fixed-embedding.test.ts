@@ -51,8 +51,9 @@ describe('fixed embedding', () => {
 describe('view planes', () => {
   it('reduces each view kind to one plane', () => {
     const size = { width: 2, height: 1 };
-    expect(Array.from(viewPlane({ kind: 'frame', ...size, rgb: Uint8Array.from([255, 255, 255, 0, 0, 0]) })))
-      .toEqual([255, 0].map(Math.fround));
+    expect(Array.from(viewPlane({ kind: 'frame', ...size, rgb: Uint8Array.from([255, 255, 255, 0, 0, 0]) }))).toEqual(
+      [255, 0].map(Math.fround),
+    );
     expect(Array.from(viewPlane({ kind: 'luma', ...size, l: Float32Array.from([12, 34]) }))).toEqual([12, 34]);
     // CIE chroma C*ab = √(a*² + b*²) [C].
     const chroma = viewPlane({ kind: 'chroma', ...size, a: Float32Array.from([3, 0]), b: Float32Array.from([4, -2]) });

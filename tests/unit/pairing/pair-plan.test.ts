@@ -6,7 +6,8 @@ import { histogram } from '../../../server/core/pairsets/pairset-statistics';
 
 function clip(id: number, count: number, cutsBefore: number[] = [], motionUntil = count - 1): PlanClip {
   const frames: MomentFrame[] = Array.from({ length: count }, (_, index) => ({
-    index, cutBefore: cutsBefore.includes(index),
+    index,
+    cutBefore: cutsBefore.includes(index),
     motion: index < motionUntil ? { meanMagnitude: index, consistentShare: 1 } : null,
   }));
   return { id, frames };
@@ -19,8 +20,12 @@ describe('planning the pairs of a definition', () => {
   it('orders pairs train before val, clips by id, moments ascending, view pairs in graph order', () => {
     const pairs = pairKinds(['frame', 'neighbour+1', 'motion'], 'core');
     const planned = planPairs(clips, pairs, split);
-    const order = planned.map((item) => [item.split === 'train' ? 0 : 1, item.clipId, item.moment,
-      pairs.findIndex((pair) => pair.kind === item.pair.kind)]);
+    const order = planned.map((item) => [
+      item.split === 'train' ? 0 : 1,
+      item.clipId,
+      item.moment,
+      pairs.findIndex((pair) => pair.kind === item.pair.kind),
+    ]);
     const sorted = [...order].sort((x, y) => x[0]! - y[0]! || x[1]! - y[1]! || x[2]! - y[2]! || x[3]! - y[3]!);
     expect(order).toEqual(sorted);
     for (const item of planned) expect(item.split).toBe(splitOfClip(item.clipId, split));
@@ -31,8 +36,9 @@ describe('planning the pairs of a definition', () => {
     const pairs = pairKinds(['frame', 'neighbour+1', 'motion'], 'core');
     const planned = planPairs([clip(1, 5, [3], 2)], pairs, split);
     // 5 frames, a cut before frame 3: t + 1 stays on the same side only for t = 0, 1, 3; fields exist for t < 2.
-    expect(planned.filter((item) => item.pair.kind === 'frame~neighbour+1').map((item) => item.moment))
-      .toEqual([0, 1, 3]);
+    expect(planned.filter((item) => item.pair.kind === 'frame~neighbour+1').map((item) => item.moment)).toEqual([
+      0, 1, 3,
+    ]);
     expect(planned.filter((item) => item.pair.kind === 'frame~motion').map((item) => item.moment)).toEqual([0, 1]);
   });
 
@@ -59,7 +65,9 @@ describe('planning the pairs of a definition', () => {
 describe('histograms of the statistics', () => {
   it('puts values in equal-width bins from the smallest to the largest, the largest in the last bin', () => {
     expect(histogram([0, 1, 2, 3, 4, 10], 2, 5)).toEqual({
-      edges: [0, 2, 4, 6, 8, 10], counts: [2, 2, 1, 0, 1], missing: 2,
+      edges: [0, 2, 4, 6, 8, 10],
+      counts: [2, 2, 1, 0, 1],
+      missing: 2,
     });
   });
 

@@ -15,7 +15,12 @@ function frames(count: number, cutsBefore: number[] = []): MomentFrame[] {
 describe('views per moment', () => {
   it('orders views frame, neighbours by Δ, luma, chroma, motion', () => {
     expect(viewNames(['motion', 'chroma', 'neighbour', 'luma', 'frame'], [2, 1, 2])).toEqual([
-      'frame', 'neighbour+1', 'neighbour+2', 'luma', 'chroma', 'motion',
+      'frame',
+      'neighbour+1',
+      'neighbour+2',
+      'luma',
+      'chroma',
+      'motion',
     ]);
   });
 
@@ -43,7 +48,12 @@ describe('pairing graphs', () => {
   it('names pairs by their views', () => {
     expect(pairKinds(three, 'core').map((p) => p.kind)).toEqual(['frame~neighbour+2', 'frame~motion']);
     expect(pairKinds(four, 'full').map((p) => p.kind)).toEqual([
-      'frame~luma', 'frame~chroma', 'frame~motion', 'luma~chroma', 'luma~motion', 'chroma~motion',
+      'frame~luma',
+      'frame~chroma',
+      'frame~motion',
+      'luma~chroma',
+      'luma~motion',
+      'chroma~motion',
     ]);
   });
 

@@ -13,7 +13,11 @@ describe('train/val split by clip', () => {
 
   it('meets the ratio within three binomial standard deviations', () => {
     // Each clip goes to val with probability r, so the val count is Binomial(n, r): σ = √(n r (1 − r)) [C].
-    for (const [ratio, seed] of [[0.1, 1], [0.3, 7], [0.5, 99]]) {
+    for (const [ratio, seed] of [
+      [0.1, 1],
+      [0.3, 7],
+      [0.5, 99],
+    ]) {
       const { val } = splitClips(ids, { val: ratio, seed });
       const sigma = Math.sqrt(ids.length * ratio * (1 - ratio));
       expect(Math.abs(val.length - ids.length * ratio)).toBeLessThan(3 * sigma);

@@ -6,7 +6,11 @@ const plane = (width: number, height: number, value: (x: number, y: number) => n
 
 describe('view descriptor', () => {
   it('has a standardised layout half and texture half (mean 0, variance 1 each)', () => {
-    const d = viewDescriptor(plane(96, 64, (x, y) => Math.sin(x / 5) * 40 + y), 96, 64);
+    const d = viewDescriptor(
+      plane(96, 64, (x, y) => Math.sin(x / 5) * 40 + y),
+      96,
+      64,
+    );
     expect(d).toHaveLength(DESCRIPTOR_LENGTH);
     for (const half of [d.subarray(0, 64), d.subarray(64)]) {
       const mean = half.reduce((s, v) => s + v, 0) / half.length;
@@ -27,7 +31,11 @@ describe('view descriptor', () => {
   it('puts texture energy where the texture is', () => {
     // Left half textured, right half flat: the texture map is high in the left columns, low in the right ones.
     const checks = (x: number, y: number) => ((Math.floor(x / 2) + Math.floor(y / 2)) % 2) * 100;
-    const d = viewDescriptor(plane(64, 64, (x, y) => (x < 32 ? checks(x, y) : 50)), 64, 64);
+    const d = viewDescriptor(
+      plane(64, 64, (x, y) => (x < 32 ? checks(x, y) : 50)),
+      64,
+      64,
+    );
     const texture = d.subarray(64);
     expect(texture[8 * 3 + 1]!).toBeGreaterThan(texture[8 * 3 + 6]!);
   });

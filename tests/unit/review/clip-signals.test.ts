@@ -2,19 +2,33 @@ import { describe, expect, it } from 'vitest';
 import { clipReviewSignals, usablePairsByDelta } from '../../../shared/review/clip-signals';
 import type { ClipFrame } from '../../../shared/types/frames';
 
-const motion = (meanMagnitude: number, consistentShare: number) =>
-  ({ meanMagnitude, p95Magnitude: 0, consistentShare });
+const motion = (meanMagnitude: number, consistentShare: number) => ({
+  meanMagnitude,
+  p95Magnitude: 0,
+  consistentShare,
+});
 
 function frame(index: number, cutBefore = false, field: ClipFrame['motion'] = null): ClipFrame {
   return {
-    index, timeS: index / 5, meanLuma: 100, contrast: 0.2, sharpness: 150, clippedShare: 0, cutBefore, motion: field,
+    index,
+    timeS: index / 5,
+    meanLuma: 100,
+    contrast: 0.2,
+    sharpness: 150,
+    clippedShare: 0,
+    cutBefore,
+    motion: field,
   };
 }
 
 // Six frames with a cut before frame 3; fields t→t+1 exist except across the cut (2→3) and past the end.
 const frames = [
-  frame(0, false, motion(1, 0.9)), frame(1, false, motion(3, 0.7)), frame(2),
-  frame(3, true, motion(2, 0.8)), frame(4), frame(5),
+  frame(0, false, motion(1, 0.9)),
+  frame(1, false, motion(3, 0.7)),
+  frame(2),
+  frame(3, true, motion(2, 0.8)),
+  frame(4),
+  frame(5),
 ];
 
 describe('clip review signals', () => {
@@ -22,7 +36,10 @@ describe('clip review signals', () => {
     // By hand, with DESIGN §2's rule that no pair may span a cut (the moment rule of pairing-graph.ts):
     // Δ=1: t = 0, 1, 3, 4 (2→3 crosses the cut, 5 has no next frame) → 4.
     // Δ=2: t = 0 (0→2) and 3 (3→5); 1→3 and 2→4 cross the cut, 4→6 runs past the end → 2.
-    expect(usablePairsByDelta(frames, [2, 1, 2])).toEqual([{ delta: 1, pairs: 4 }, { delta: 2, pairs: 2 }]);
+    expect(usablePairsByDelta(frames, [2, 1, 2])).toEqual([
+      { delta: 1, pairs: 4 },
+      { delta: 2, pairs: 2 },
+    ]);
     expect(clipReviewSignals(frames, [1, 2]).usablePairs).toBe(6);
   });
 

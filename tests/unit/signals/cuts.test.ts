@@ -80,9 +80,10 @@ describe('cut detection', () => {
     // Generated clip: frames 0..11 show a dim scene, frames 12..23 a bright one, each frame with its own noise.
     const switchAt = 12;
     const frames = Array.from({ length: 24 }, (_, i) => {
-      const scene = i < switchAt
-        ? texturedGrey(WIDTH, HEIGHT, 1, { mean: 70, amplitude: 40 })
-        : texturedGrey(WIDTH, HEIGHT, 2, { mean: 170, amplitude: 50 });
+      const scene =
+        i < switchAt
+          ? texturedGrey(WIDTH, HEIGHT, 1, { mean: 70, amplitude: 40 })
+          : texturedGrey(WIDTH, HEIGHT, 2, { mean: 170, amplitude: 50 });
       return withNoise(scene, 3, 100 + i);
     });
     const { cutBefore, evidence } = decide(frames);
@@ -94,7 +95,13 @@ describe('cut detection', () => {
   it('finds no cut in a slow brightness ramp', () => {
     // Generated clip: the same scene brightening by 0.5 grey levels a frame over 60 frames (30 levels in all).
     const scene = texturedGrey(WIDTH, HEIGHT, 5, { mean: 100, amplitude: 60 });
-    const frames = Array.from({ length: 60 }, (_, i) => withNoise(scene.map((v) => v + i * 0.5), 2, 200 + i));
+    const frames = Array.from({ length: 60 }, (_, i) =>
+      withNoise(
+        scene.map((v) => v + i * 0.5),
+        2,
+        200 + i,
+      ),
+    );
     const { cutBefore, evidence } = decide(frames);
     expect(cutBefore.some(Boolean)).toBe(false);
     expect(Math.max(...evidence.slice(1).map((e) => e!.histogramDistance))).toBeLessThan(DEFAULT_CUT_THRESHOLD);
@@ -107,14 +114,18 @@ describe('cut detection', () => {
     const h1 = Float64Array.from([10, 0, 0, 10]);
     const h2 = Float64Array.from([10, 0, 10, 0]);
     const score = 1 - histogramCorrelation(h1, h2);
-    const pairs = (distance: number): PairMeasures[] => Array.from({ length: 9 }, (_, p) => ({
-      histogramDistance: distance, edgeChange: 0, motionConsistency: 1, warpError: 0.1 + p * 1e-3,
-    }));
+    const pairs = (distance: number): PairMeasures[] =>
+      Array.from({ length: 9 }, (_, p) => ({
+        histogramDistance: distance,
+        edgeChange: 0,
+        motionConsistency: 1,
+        warpError: 0.1 + p * 1e-3,
+      }));
     const compare = (): PairMeasures => ({ histogramDistance: 0, edgeChange: 0, motionConsistency: 1, warpError: 0 });
     // Every pair has the same distance, so only the project threshold, not the local level, can make it fire.
-    expect(decideCuts(pairs(score), compare, { histogramThreshold: score }).evidence[5]!.fired.histogram)
-      .toBe(score);
-    expect(decideCuts(pairs(score), compare, { histogramThreshold: score + 1e-9 }).evidence[5]!.fired.histogram)
-      .toBeUndefined();
+    expect(decideCuts(pairs(score), compare, { histogramThreshold: score }).evidence[5]!.fired.histogram).toBe(score);
+    expect(
+      decideCuts(pairs(score), compare, { histogramThreshold: score + 1e-9 }).evidence[5]!.fired.histogram,
+    ).toBeUndefined();
   });
 });

@@ -146,7 +146,10 @@ describe('clip flags', () => {
     const all: ClipFlagInput = {
       durationS: 1,
       frames: Array.from({ length: 5 }, (_, i) => ({
-        meanLuma: 10, sharpness: 5, clippedHighShare: 0.5, cutBefore: i > 0,
+        meanLuma: 10,
+        sharpness: 5,
+        clippedHighShare: 0.5,
+        cutBefore: i > 0,
       })),
       motion: [0, 1, 2, 3].map((t) => ({ meanMagnitude: 0.1, medianU: t % 2 ? 4 : -4, medianV: 0 })),
       duplicateShare: 1,

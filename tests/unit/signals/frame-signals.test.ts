@@ -7,7 +7,12 @@ describe('frame signals', () => {
   it('reports a flat mid-grey frame as zero contrast with nothing clipped', () => {
     const s = frameSignals(new Float32Array(12).fill(128), 4, 3);
     expect(s).toEqual({
-      meanLuma: 128, contrast: 0, sharpness: 0, clippedShare: 0, clippedLowShare: 0, clippedHighShare: 0,
+      meanLuma: 128,
+      contrast: 0,
+      sharpness: 0,
+      clippedShare: 0,
+      clippedLowShare: 0,
+      clippedHighShare: 0,
     });
   });
 

@@ -69,11 +69,15 @@ describe('near-duplicate clips', () => {
   });
 
   it('picks the other clip with the largest share', () => {
-    const best = bestNearDuplicate(reencoded, [
-      { clipId: 'unrelated', hashes: unrelated },
-      { clipId: 'source', hashes },
-      { clipId: 'half', hashes: half },
-    ], 5);
+    const best = bestNearDuplicate(
+      reencoded,
+      [
+        { clipId: 'unrelated', hashes: unrelated },
+        { clipId: 'source', hashes },
+        { clipId: 'half', hashes: half },
+      ],
+      5,
+    );
     expect(best).toEqual({ clipId: 'source', share: 1 });
     expect(bestNearDuplicate(hashes, [], 5)).toBeNull();
   });

@@ -25,7 +25,7 @@ export function texturedGrey(width: number, height: number, seed: number, textur
       let v = 0;
       for (const w of waves) v += Math.sin(w.fx * x + w.fy * y + w.phase);
       const fine = (random() - 0.5) * 0.4;
-      out[y * width + x] = clampGrey(texture.mean + (texture.amplitude * (v / WAVES + fine)));
+      out[y * width + x] = clampGrey(texture.mean + texture.amplitude * (v / WAVES + fine));
     }
   }
   return out;

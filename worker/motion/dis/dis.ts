@@ -9,14 +9,7 @@
 
 import { densify, densifyBufferLength } from './densify.js';
 import { inverseSearch, type PatchVectors, type SearchFrames } from './inverse-search.js';
-import {
-  halveArea,
-  levelSide,
-  padReplicate,
-  patchSource,
-  upsampleBufferLength,
-  upsampleFlow,
-} from './levels.js';
+import { halveArea, levelSide, padReplicate, patchSource, upsampleBufferLength, upsampleFlow } from './levels.js';
 import { PATCH_TERMS, patchGrid, patchTerms } from './patch-grid.js';
 import { refineField } from './variational.js';
 import { assertFramePair, outputField } from '../kernels/estimator-input.js';

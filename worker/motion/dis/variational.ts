@@ -182,17 +182,9 @@ function couplingsAndSweep(records: Float32Array, w: number, y: number): void {
     const gainV = a11 * gains;
     const coupling = records[r + A12];
     const b1 =
-      records[r + B1] +
-      left * (leftU0 - u0) +
-      right * (rightU0 - u0) +
-      above * (aboveU0 - u0) +
-      below * (belowU0 - u0);
+      records[r + B1] + left * (leftU0 - u0) + right * (rightU0 - u0) + above * (aboveU0 - u0) + below * (belowU0 - u0);
     const b2 =
-      records[r + B2] +
-      left * (leftV0 - v0) +
-      right * (rightV0 - v0) +
-      above * (aboveV0 - v0) +
-      below * (belowV0 - v0);
+      records[r + B2] + left * (leftV0 - v0) + right * (rightV0 - v0) + above * (aboveV0 - v0) + below * (belowV0 - v0);
     records[r + GAIN_U] = gainU;
     records[r + GAIN_V] = gainV;
     records[r + B1] = b1;

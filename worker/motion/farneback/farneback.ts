@@ -40,7 +40,6 @@ export const FARNEBACK_DEFAULTS: Readonly<FarnebackParams> = Object.freeze({
   gaussianWindow: false,
 });
 
-
 /** Checks the parameters against their ranges (shared/schemas/project-settings.ts, also used when a project is saved). */
 export function validateFarnebackParams(params: FarnebackParams): void {
   const problem = estimatorParamsProblem('farneback', params);

@@ -95,15 +95,7 @@ export function updateMatrices(
 }
 
 /** Solves the windowed 2×2 system at one pixel and writes (u, v). */
-function solveInto(
-  flow: Float32Array,
-  p: number,
-  g11: number,
-  g12: number,
-  g22: number,
-  h1: number,
-  h2: number,
-): void {
+function solveInto(flow: Float32Array, p: number, g11: number, g12: number, g22: number, h1: number, h2: number): void {
   const inverseDet = 1 / (g11 * g22 - g12 * g12 + DETERMINANT_REGULARISER);
   flow[2 * p] = (g11 * h2 - g12 * h1) * inverseDet;
   flow[2 * p + 1] = (g22 * h1 - g12 * h2) * inverseDet;

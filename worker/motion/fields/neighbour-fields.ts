@@ -4,7 +4,12 @@
 // fields are bit-identical to estimating each ordered pair on its own (tests/unit/motion/determinism.test.ts).
 // Every buffer comes from the workspace, so a thread that runs pair after pair allocates its large arrays once.
 
-import { estimateFromExpansions, expandFrame, type FarnebackExpansion, type FarnebackParams } from '../farneback/farneback.js';
+import {
+  estimateFromExpansions,
+  expandFrame,
+  type FarnebackExpansion,
+  type FarnebackParams,
+} from '../farneback/farneback.js';
 import { estimateMotion, resolveParams, type EstimatorParams } from '../index.js';
 import { type EstimatorName } from '../../../shared/estimators';
 import type { MotionWorkspace } from '../kernels/workspace.js';
@@ -45,10 +50,13 @@ export class NeighbourFieldRun {
     const slot = this.added % SLOTS;
     const previous = (this.added + 1) % SLOTS;
     this.added += 1;
-    const fields = this.added > 1 ? {
-      forward: this.workspace.float32('run.forward', 2 * this.pixels),
-      backward: this.workspace.float32('run.backward', 2 * this.pixels),
-    } : null;
+    const fields =
+      this.added > 1
+        ? {
+            forward: this.workspace.float32('run.forward', 2 * this.pixels),
+            backward: this.workspace.float32('run.backward', 2 * this.pixels),
+          }
+        : null;
     if (this.farneback) {
       this.addExpanded(frame, slot, previous, this.farneback, fields);
     } else {
@@ -59,7 +67,11 @@ export class NeighbourFieldRun {
   }
 
   private addExpanded(
-    frame: Float32Array, slot: number, previous: number, params: FarnebackParams, fields: NeighbourFields | null,
+    frame: Float32Array,
+    slot: number,
+    previous: number,
+    params: FarnebackParams,
+    fields: NeighbourFields | null,
   ): void {
     const { workspace } = this;
     const store = (level: number, length: number) => workspace.float32(`run.expansion.${slot}.${level}`, length);

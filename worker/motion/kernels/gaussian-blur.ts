@@ -48,7 +48,13 @@ export function reflect101(i: number, n: number): number {
 }
 
 /** The filtered value at one position of a row, with the row's ends reflected (BORDER_REFLECT_101). */
-export function filterAtEdge(src: Float32Array, rowStart: number, width: number, kernel: Float32Array, x: number): number {
+export function filterAtEdge(
+  src: Float32Array,
+  rowStart: number,
+  width: number,
+  kernel: Float32Array,
+  x: number,
+): number {
   const radius = kernel.length >> 1;
   let sum = kernel[radius] * src[rowStart + x];
   for (let i = 1; i <= radius; i++) {

@@ -13,23 +13,30 @@ const CLIP_COLUMNS = {
 } as const;
 
 export async function up(queryInterface: QueryInterface, transaction: Transaction): Promise<void> {
-  await queryInterface.createTable('frames', {
-    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    clipId: {
-      type: DataTypes.INTEGER, allowNull: false, references: { model: 'clips', key: 'id' }, onDelete: 'CASCADE',
+  await queryInterface.createTable(
+    'frames',
+    {
+      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+      clipId: {
+        type: DataTypes.INTEGER,
+        allowNull: false,
+        references: { model: 'clips', key: 'id' },
+        onDelete: 'CASCADE',
+      },
+      index: { type: DataTypes.INTEGER, allowNull: false },
+      timeS: { type: DataTypes.FLOAT, allowNull: false },
+      // Signals stay null from the sample stage until the signals stage has measured the frame.
+      meanLuma: { type: DataTypes.FLOAT, allowNull: true },
+      contrast: { type: DataTypes.FLOAT, allowNull: true },
+      sharpness: { type: DataTypes.FLOAT, allowNull: true },
+      clippedShare: { type: DataTypes.FLOAT, allowNull: true },
+      clippedHighShare: { type: DataTypes.FLOAT, allowNull: true },
+      cutBefore: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      cutScore: { type: DataTypes.FLOAT, allowNull: true },
+      dhash: { type: DataTypes.STRING(16), allowNull: true },
     },
-    index: { type: DataTypes.INTEGER, allowNull: false },
-    timeS: { type: DataTypes.FLOAT, allowNull: false },
-    // Signals stay null from the sample stage until the signals stage has measured the frame.
-    meanLuma: { type: DataTypes.FLOAT, allowNull: true },
-    contrast: { type: DataTypes.FLOAT, allowNull: true },
-    sharpness: { type: DataTypes.FLOAT, allowNull: true },
-    clippedShare: { type: DataTypes.FLOAT, allowNull: true },
-    clippedHighShare: { type: DataTypes.FLOAT, allowNull: true },
-    cutBefore: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-    cutScore: { type: DataTypes.FLOAT, allowNull: true },
-    dhash: { type: DataTypes.STRING(16), allowNull: true },
-  }, { transaction });
+    { transaction },
+  );
   // One row per frame: a stage redone after a crash replaces rows, it can never add a second one.
   await queryInterface.addIndex('frames', ['clipId', 'index'], { unique: true, transaction });
 

@@ -37,48 +37,76 @@ const FLAG_TRIGGERS: [name: string, event: string][] = [
 
 const FILTER_COLUMNS = ['projectId', 'uploaderId', 'site', 'capturedAt', 'flagMask'];
 const SORT_KEYS = [
-  'createdAt', 'capturedAt', 'durationS', 'medianSharpness', 'meanLuma', 'meanMotion', 'consistentShare', 'cutCount',
-  'usablePairs', 'flagCount',
+  'createdAt',
+  'capturedAt',
+  'durationS',
+  'medianSharpness',
+  'meanLuma',
+  'meanMotion',
+  'consistentShare',
+  'cutCount',
+  'usablePairs',
+  'flagCount',
 ];
 const QUEUE_INDEXES: [name: string, columns: string[]][] = [
-  ...SORT_KEYS.map((key): [string, string[]] => [`clips_queue_by_${key}`,
-    ['state', key, 'id', ...FILTER_COLUMNS.filter((column) => column !== key)]]),
+  ...SORT_KEYS.map((key): [string, string[]] => [
+    `clips_queue_by_${key}`,
+    ['state', key, 'id', ...FILTER_COLUMNS.filter((column) => column !== key)],
+  ]),
   ['clips_queue_flags', ['state', 'flagMask']],
-  ...['projectId', 'uploaderId', 'site'].map((lead): [string, string[]] => [`clips_queue_${lead}`,
-    ['state', lead, ...FILTER_COLUMNS.filter((column) => column !== lead)]]),
+  ...['projectId', 'uploaderId', 'site'].map((lead): [string, string[]] => [
+    `clips_queue_${lead}`,
+    ['state', lead, ...FILTER_COLUMNS.filter((column) => column !== lead)],
+  ]),
 ];
 
 export async function up(queryInterface: QueryInterface, transaction: Transaction): Promise<void> {
   const sql = (statement: string) => queryInterface.sequelize.query(statement, { transaction });
-  await queryInterface.createTable('rejection_digests', {
-    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    uploaderId: {
-      type: DataTypes.INTEGER, allowNull: false, references: { model: 'users', key: 'id' }, onDelete: 'CASCADE',
+  await queryInterface.createTable(
+    'rejection_digests',
+    {
+      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+      uploaderId: {
+        type: DataTypes.INTEGER,
+        allowNull: false,
+        references: { model: 'users', key: 'id' },
+        onDelete: 'CASCADE',
+      },
+      at: { type: DataTypes.DATE, allowNull: false },
+      clipCount: { type: DataTypes.INTEGER, allowNull: false },
     },
-    at: { type: DataTypes.DATE, allowNull: false },
-    clipCount: { type: DataTypes.INTEGER, allowNull: false },
-  }, { transaction });
+    { transaction },
+  );
   await queryInterface.addIndex('rejection_digests', ['uploaderId', 'at'], { transaction });
 
-  await queryInterface.createTable('verdicts', {
-    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    clipId: {
-      type: DataTypes.INTEGER, allowNull: false, references: { model: 'clips', key: 'id' }, onDelete: 'CASCADE',
+  await queryInterface.createTable(
+    'verdicts',
+    {
+      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+      clipId: {
+        type: DataTypes.INTEGER,
+        allowNull: false,
+        references: { model: 'clips', key: 'id' },
+        onDelete: 'CASCADE',
+      },
+      curatorId: { type: DataTypes.INTEGER, allowNull: false, references: { model: 'users', key: 'id' } },
+      decision: { type: DataTypes.STRING(8), allowNull: false },
+      reason: { type: DataTypes.STRING(40), allowNull: true },
+      reasonLabel: { type: DataTypes.STRING(80), allowNull: true },
+      comment: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+      bulk: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      at: { type: DataTypes.DATE, allowNull: false },
+      supersededAt: { type: DataTypes.DATE, allowNull: true },
+      // The rejection digest that told the uploader; null until one did (or for an acceptance).
+      digestId: {
+        type: DataTypes.INTEGER,
+        allowNull: true,
+        references: { model: 'rejection_digests', key: 'id' },
+        onDelete: 'SET NULL',
+      },
     },
-    curatorId: { type: DataTypes.INTEGER, allowNull: false, references: { model: 'users', key: 'id' } },
-    decision: { type: DataTypes.STRING(8), allowNull: false },
-    reason: { type: DataTypes.STRING(40), allowNull: true },
-    reasonLabel: { type: DataTypes.STRING(80), allowNull: true },
-    comment: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
-    bulk: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-    at: { type: DataTypes.DATE, allowNull: false },
-    supersededAt: { type: DataTypes.DATE, allowNull: true },
-    // The rejection digest that told the uploader; null until one did (or for an acceptance).
-    digestId: {
-      type: DataTypes.INTEGER, allowNull: true, references: { model: 'rejection_digests', key: 'id' },
-      onDelete: 'SET NULL',
-    },
-  }, { transaction });
+    { transaction },
+  );
   await queryInterface.addIndex('verdicts', ['clipId', 'at'], { transaction });
   // At most one verdict in force per clip: a change supersedes the old one in the same transaction.
   await sql('CREATE UNIQUE INDEX verdicts_in_force ON verdicts (clipId) WHERE supersededAt IS NULL');
@@ -86,14 +114,21 @@ export async function up(queryInterface: QueryInterface, transaction: Transactio
   await sql(`CREATE INDEX verdicts_undigested ON verdicts (clipId)
     WHERE decision = 'reject' AND supersededAt IS NULL AND digestId IS NULL`);
 
-  await queryInterface.createTable('settings', {
-    key: { type: DataTypes.STRING(64), primaryKey: true },
-    value: { type: DataTypes.JSON, allowNull: false },
-    updatedById: {
-      type: DataTypes.INTEGER, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL',
+  await queryInterface.createTable(
+    'settings',
+    {
+      key: { type: DataTypes.STRING(64), primaryKey: true },
+      value: { type: DataTypes.JSON, allowNull: false },
+      updatedById: {
+        type: DataTypes.INTEGER,
+        allowNull: true,
+        references: { model: 'users', key: 'id' },
+        onDelete: 'SET NULL',
+      },
+      updatedAt: { type: DataTypes.DATE, allowNull: false },
     },
-    updatedAt: { type: DataTypes.DATE, allowNull: false },
-  }, { transaction });
+    { transaction },
+  );
 
   for (const [column, definition] of Object.entries(SIGNAL_COLUMNS)) {
     await queryInterface.addColumn('clips', column, definition, { transaction });

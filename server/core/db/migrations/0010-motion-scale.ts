@@ -5,8 +5,12 @@ import { DataTypes, type QueryInterface, type Transaction } from 'sequelize';
  * scale is taken (shared/motion/motion-scale.ts). Null on fields stored before it; they fall back to p95Magnitude.
  */
 export async function up(queryInterface: QueryInterface, transaction: Transaction): Promise<void> {
-  await queryInterface.addColumn('motion_fields', 'consistentP95Magnitude',
-    { type: DataTypes.FLOAT, allowNull: true }, { transaction });
+  await queryInterface.addColumn(
+    'motion_fields',
+    'consistentP95Magnitude',
+    { type: DataTypes.FLOAT, allowNull: true },
+    { transaction },
+  );
 }
 
 /** DROP COLUMN rather than Sequelize's removeColumn, which rebuilds the table on SQLite. */

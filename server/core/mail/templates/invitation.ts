@@ -14,10 +14,10 @@ export function invitationMail(data: InvitationMailData, publicUrl: string): Ren
     subject: `${data.inviterName} invited you to Kinefold`,
     greeting: 'Hello,',
     paragraphs: [
-      `${data.inviterName} invited you to Kinefold as ${article} ${data.role}. Kinefold turns field footage `
-        + 'into curated, paired views for training vision models.',
-      `Open the link below, tell us your name and choose a password. The link works once and until `
-        + `${formatMailTime(data.expiresAt)}.`,
+      `${data.inviterName} invited you to Kinefold as ${article} ${data.role}. Kinefold turns field footage ` +
+        'into curated, paired views for training vision models.',
+      `Open the link below, tell us your name and choose a password. The link works once and until ` +
+        `${formatMailTime(data.expiresAt)}.`,
     ],
     action: { label: 'Set up your account', url: publicLink(publicUrl, `/invite/${data.token}`) },
     closing: 'If you did not expect this invitation, ignore this message; nothing happens until the link is used.',

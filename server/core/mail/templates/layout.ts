@@ -45,7 +45,7 @@ export function renderMail(content: MailContent): RenderedMail {
   const paragraph = (words: string) => `<p style="margin:0 0 14px">${escapeHtml(words)}</p>`;
   const html = [
     '<!doctype html><html><body style="margin:0;padding:24px;background:#faf9f7;',
-    'font-family:\'Source Sans 3\',Helvetica,Arial,sans-serif;color:#25211d;font-size:15px;line-height:1.5">',
+    "font-family:'Source Sans 3',Helvetica,Arial,sans-serif;color:#25211d;font-size:15px;line-height:1.5\">",
     '<div style="max-width:560px;margin:0 auto;background:#ffffff;border-top:4px solid #e0a54a;padding:24px">',
     '<p style="margin:0 0 18px;font-weight:700;color:#372b5f;letter-spacing:0.04em">KINEFOLD</p>',
     paragraph(content.greeting),

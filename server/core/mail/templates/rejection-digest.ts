@@ -19,8 +19,12 @@ export const DIGEST_LISTED_CLIPS = 40;
 /** At most once an hour to an uploader: their clips rejected since the last digest, with reasons and comments. */
 export function rejectionDigestMail(data: RejectionDigestMailData, publicUrl: string): RenderedMail {
   const count = data.clips.length;
-  const listed = data.clips.slice(0, DIGEST_LISTED_CLIPS).map((clip) =>
-    `"${clip.originalName}" (clip ${clip.clipId}): ${clip.reason}${clip.comment ? `. Comment: ${clip.comment}` : ''}`);
+  const listed = data.clips
+    .slice(0, DIGEST_LISTED_CLIPS)
+    .map(
+      (clip) =>
+        `"${clip.originalName}" (clip ${clip.clipId}): ${clip.reason}${clip.comment ? `. Comment: ${clip.comment}` : ''}`,
+    );
   const more = count > DIGEST_LISTED_CLIPS ? [`… and ${count - DIGEST_LISTED_CLIPS} more.`] : [];
   return renderMail({
     subject: count === 1 ? 'Kinefold: a clip of yours was rejected' : `Kinefold: ${count} clips of yours were rejected`,
@@ -33,7 +37,8 @@ export function rejectionDigestMail(data: RejectionDigestMailData, publicUrl: st
       ...more,
     ],
     action: { label: 'See your rejected clips', url: publicLink(publicUrl, '/clips?state=rejected') },
-    closing: 'Kinefold sends at most one of these messages an hour. If a reason looks wrong, ask the curator: a '
-      + 'verdict can be changed for a day, and by an admin later.',
+    closing:
+      'Kinefold sends at most one of these messages an hour. If a reason looks wrong, ask the curator: a ' +
+      'verdict can be changed for a day, and by an admin later.',
   });
 }
