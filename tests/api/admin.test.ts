@@ -19,6 +19,7 @@ import { csvField } from '../../server/core/audit/audit-log';
 import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+import { REMOVING_PREFIX } from '../../server/core/storage/remove-folder';
 
 type SignedIn = Awaited<ReturnType<typeof signedInAgent>>;
 let server: TestServer;
@@ -113,7 +114,7 @@ describe('jobs', () => {
 });
 
 describe('usage and reconciliation', () => {
-  it('finds and fixes planted drift: a file deleted behind its back and a stray folder', async () => {
+  it('finds and fixes planted drift: a file deleted behind its back, a stray folder, a half-removed folder', async () => {
     const paths = storagePaths(server.storageDir);
     const before = Number((await Clip.findByPk(clipId))!.storedBytes);
     const frame = path.join(
@@ -126,6 +127,10 @@ describe('usage and reconciliation', () => {
     const stray = paths.clipDir(9999);
     fs.mkdirSync(stray, { recursive: true });
     fs.writeFileSync(path.join(stray, 'source.mp4'), Buffer.alloc(1234));
+    // What a clip delete leaves when the process dies between renaming the folder and removing it.
+    const halfRemoved = path.join(paths.clipsDir, `${REMOVING_PREFIX}9998-0badf00d`);
+    fs.mkdirSync(path.join(halfRemoved, 'frames'), { recursive: true });
+    fs.writeFileSync(path.join(halfRemoved, 'frames', '000000.png'), Buffer.alloc(321));
 
     await admin.agent.post('/api/admin/reconcile').set('x-csrf-token', admin.csrf).expect(202);
     const again = await admin.agent.post('/api/admin/reconcile').set('x-csrf-token', admin.csrf).expect(202);
@@ -135,10 +140,14 @@ describe('usage and reconciliation', () => {
 
     expect(Number((await Clip.findByPk(clipId))!.storedBytes)).toBe(before - frameBytes);
     expect(fs.existsSync(stray)).toBe(false);
+    expect(fs.existsSync(halfRemoved)).toBe(false);
     const snapshot = await UsageSnapshot.findOne();
     expect(snapshot!.drift).toMatchObject({
       clips: [{ clipId, recordedBytes: before, actualBytes: before - frameBytes }],
-      strayFolders: [{ folder: 'clips/9999', bytes: 1234 }],
+      strayFolders: [
+        { folder: 'clips/9999', bytes: 1234 },
+        { folder: `clips/${REMOVING_PREFIX}9998-0badf00d`, bytes: 321 },
+      ],
     });
 
     const usage = await admin.agent.get('/api/admin/usage').expect(200);

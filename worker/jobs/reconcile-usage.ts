@@ -1,7 +1,9 @@
 import fs from 'node:fs';
+import path from 'node:path';
 import { Clip, UsageSnapshot } from '../../server/core/models';
 import { recordAudit } from '../../server/core/audit/audit';
 import { clipFolderUsage, emptyUsage, folderBytes } from '../../server/core/storage/disk-usage';
+import { REMOVING_PREFIX } from '../../server/core/storage/remove-folder';
 import type { Handler } from './handler';
 
 export interface UsageDrift {
@@ -18,14 +20,15 @@ export function utcDay(now = new Date()): string {
 
 /**
  * Compares the bytes the database records per clip with the files on disk: fixes each clip's `storedBytes`,
- * removes clip folders that have no clip, and records today's usage by kind. Files are measured before the one
+ * removes clip folders that have no clip (and folders a crash left half-removed), and records today's usage by kind. Files are measured before the one
  * short transaction that writes the results.
  */
 export const reconcileUsage: Handler<'reconcile-usage'> = {
   async run({ payload }, { paths }) {
-    const folders = (await fs.promises.readdir(paths.clipsDir).catch(() => [] as string[])).filter((name) =>
-      /^\d+$/.test(name),
-    );
+    const entries = await fs.promises.readdir(paths.clipsDir).catch(() => [] as string[]);
+    const folders = entries.filter((name) => /^\d+$/.test(name));
+    // A clip delete renames the folder before removing it; a crash in between leaves the renamed folder behind.
+    const halfRemoved = entries.filter((name) => name.startsWith(REMOVING_PREFIX));
     const clips = await Clip.findAll({ attributes: ['id', 'storedBytes'] });
     const known = new Set(clips.map((clip) => clip.id));
     const byKind = emptyUsage();
@@ -42,6 +45,11 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
     for (const folder of folders.filter((name) => !known.has(Number(name)))) {
       const dir = paths.clipDir(Number(folder));
       drift.strayFolders.push({ folder: `clips/${folder}`, bytes: await folderBytes(dir) });
+      await fs.promises.rm(dir, { recursive: true, force: true });
+    }
+    for (const name of halfRemoved) {
+      const dir = path.join(paths.clipsDir, name);
+      drift.strayFolders.push({ folder: `clips/${name}`, bytes: await folderBytes(dir) });
       await fs.promises.rm(dir, { recursive: true, force: true });
     }
     byKind.pairsets = await folderBytes(paths.pairsetsDir);

@@ -9,8 +9,11 @@ import path from 'node:path';
  * land in it (the writer's next open fails and the worker stops, seeing the clip gone); the renamed folder is then
  * removed at leisure. The dot name keeps it out of every listing of clip folders (`^\d+$`).
  */
+/** The name a folder takes while it is removed; one left by a crash mid-removal is swept by reconcile-usage. */
+export const REMOVING_PREFIX = '.removing-';
+
 export async function removeFolder(dir: string): Promise<void> {
-  const doomed = path.join(path.dirname(dir), `.removing-${path.basename(dir)}-${randomUUID().slice(0, 8)}`);
+  const doomed = path.join(path.dirname(dir), `${REMOVING_PREFIX}${path.basename(dir)}-${randomUUID().slice(0, 8)}`);
   try {
     await fs.promises.rename(dir, doomed);
   } catch (error) {
