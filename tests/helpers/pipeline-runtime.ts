@@ -1,8 +1,10 @@
+import fs from 'node:fs';
+import path from 'node:path';
 import { storagePaths } from '../../server/core/storage/paths';
 import type { Handlers } from '../../worker/jobs/handler';
 import { createFramePool, type FramePool } from '../../worker/pool/frame-pool';
 import { createJobRuntime, type JobRuntime } from '../../worker/runtime/job-runtime';
-import type { TestServer } from './test-server';
+import { addUser, startTestServer, type TestServer } from './test-server';
 
 export interface TestRuntime {
   runtime: JobRuntime;
@@ -36,4 +38,27 @@ export function startTestRuntime(
     },
     close: () => pool.destroy(),
   };
+}
+
+/** A test server, the worker runtime over it, an admin and a folder for generated footage: a pipeline test's bed. */
+export interface PipelineBed {
+  server: TestServer;
+  worker: TestRuntime;
+  adminId: number;
+  /** `<storage>/generated`, for footage the test renders. */
+  gen: string;
+}
+
+export async function startPipelineBed(): Promise<PipelineBed> {
+  const server = await startTestServer();
+  const worker = startTestRuntime(server);
+  const adminId = (await addUser(server, 'admin')).id;
+  const gen = path.join(server.storageDir, 'generated');
+  fs.mkdirSync(gen);
+  return { server, worker, adminId, gen };
+}
+
+export async function closePipelineBed({ server, worker }: Pick<PipelineBed, 'server' | 'worker'>): Promise<void> {
+  await worker.close();
+  await server.close();
 }

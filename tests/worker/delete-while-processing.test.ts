@@ -5,8 +5,8 @@ import { Clip, Frame, Job, MotionField } from '../../server/core/models';
 import { storagePaths } from '../../server/core/storage/paths';
 import { CLIP_STAGES } from '../../shared/pipeline-stages';
 import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
-import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
-import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+import { closePipelineBed, startPipelineBed, type TestRuntime } from '../helpers/pipeline-runtime';
+import { signedInAgent, type TestServer } from '../helpers/test-server';
 
 /**
  * DELETE /api/clips/:id while the worker's runtime (in this process, as in the worker) is inside each stage:
@@ -24,19 +24,13 @@ let source: string;
 let longSource: string;
 
 beforeAll(async () => {
-  server = await startTestServer();
-  worker = startTestRuntime(server);
-  adminId = (await addUser(server, 'admin')).id;
+  let gen: string;
+  ({ server, worker, adminId, gen } = await startPipelineBed());
   admin = await signedInAgent(server, 'admin@example.test');
-  const gen = path.join(server.storageDir, 'generated');
-  fs.mkdirSync(gen);
   source = await makePatternClip(path.join(gen, 'row.mp4'), CLIP_S);
   longSource = await makePatternClip(path.join(gen, 'long-row.mp4'), LONG_CLIP_S);
 }, 60_000);
-afterAll(async () => {
-  await worker.close();
-  await server.close();
-});
+afterAll(() => closePipelineBed({ server, worker }));
 
 const clipsDir = () => path.dirname(storagePaths(server.storageDir).clipDir(1));
 

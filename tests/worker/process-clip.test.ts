@@ -17,8 +17,8 @@ import {
   withRotation,
   workFolders,
 } from '../helpers/pipeline-clips';
-import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
-import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
+import { closePipelineBed, startPipelineBed, type TestRuntime } from '../helpers/pipeline-runtime';
+import type { TestServer } from '../helpers/test-server';
 
 const probe = promisify(execFile);
 const CLIP_S = 4;
@@ -29,16 +29,9 @@ let adminId: number;
 let gen: string;
 
 beforeAll(async () => {
-  server = await startTestServer();
-  worker = startTestRuntime(server);
-  adminId = (await addUser(server, 'admin')).id;
-  gen = path.join(server.storageDir, 'generated');
-  fs.mkdirSync(gen);
+  ({ server, worker, adminId, gen } = await startPipelineBed());
 });
-afterAll(async () => {
-  await worker.close();
-  await server.close();
-});
+afterAll(() => closePipelineBed({ server, worker }));
 
 const paths = () => storagePaths(server.storageDir);
 

@@ -1,10 +1,9 @@
-import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Clip, Frame } from '../../server/core/models';
 import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
-import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
-import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
+import { closePipelineBed, startPipelineBed, type TestRuntime } from '../helpers/pipeline-runtime';
+import type { TestServer } from '../helpers/test-server';
 
 /**
  * Footage shorter than one sampling step: at 25 frames/s, `duration=0.04` of the test pattern is exactly one
@@ -18,16 +17,9 @@ let adminId: number;
 let gen: string;
 
 beforeAll(async () => {
-  server = await startTestServer();
-  worker = startTestRuntime(server);
-  adminId = (await addUser(server, 'admin')).id;
-  gen = path.join(server.storageDir, 'generated');
-  fs.mkdirSync(gen);
+  ({ server, worker, adminId, gen } = await startPipelineBed());
 });
-afterAll(async () => {
-  await worker.close();
-  await server.close();
-});
+afterAll(() => closePipelineBed({ server, worker }));
 
 describe('a clip shorter than one sampling step', () => {
   for (const [frames, seconds] of [
