@@ -1,5 +1,6 @@
 import type { z } from 'zod';
 import { HttpStatus, type HttpStatusCode } from '../../shared/http-status';
+import { issueField } from '../../shared/schemas/issue-field';
 
 /** An error a person can act on: its status, a stable code for scripts and a plain message. */
 export class AppError extends Error {
@@ -25,12 +26,12 @@ export const badRequest = (code: string, message: string, details?: unknown) =>
 /** A zod failure as a 400 whose message starts with the field at fault. */
 export function invalidInput(part: string, error: z.ZodError): AppError {
   const issues = error.issues.map((issue) => {
-    const keys = 'keys' in issue && Array.isArray(issue.keys) ? issue.keys.map(String) : [];
-    // An unknown field is named by its full path (`flagThresholds.darkMeanLumma`), not by the object holding it.
-    const field = [...issue.path.map(String), ...keys.slice(0, 1)].join('.');
+    const { path, unknownKeys } = issueField(issue);
+    const field = path.join('.');
+    const others = unknownKeys.slice(1);
     const message =
-      keys.length > 0
-        ? `is not a known field${keys.length > 1 ? ` (nor ${keys.slice(1).join(', ')})` : ''}`
+      unknownKeys.length > 0
+        ? `is not a known field${others.length > 0 ? ` (nor ${others.join(', ')})` : ''}`
         : issue.message;
     return { field: field || part, message };
   });

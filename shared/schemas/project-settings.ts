@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ESTIMATORS, type EstimatorName } from '../estimators';
+import { issueField } from './issue-field';
 
 /**
  * A project's processing settings, checked by one schema when an admin saves them and again when the worker reads
@@ -147,9 +148,8 @@ export function checkEstimatorParams(estimator: EstimatorName, params: unknown, 
   const result = estimatorOverridesSchema(estimator).safeParse(params);
   if (result.success) return;
   for (const issue of result.error.issues) {
-    const keys = 'keys' in issue && Array.isArray(issue.keys) ? issue.keys : [];
-    const path = keys.length > 0 ? [String(keys[0])] : issue.path.map(String);
-    const message = issue.code === 'unrecognized_keys' ? `is not a parameter of ${estimator}` : issue.message;
+    const { path, unknownKeys } = issueField(issue);
+    const message = unknownKeys.length > 0 ? `is not a parameter of ${estimator}` : issue.message;
     context.addIssue({ code: 'custom', path: ['estimatorParams', ...path], message });
   }
 }
@@ -165,9 +165,9 @@ export function estimatorParamsProblem(estimator: EstimatorName, params: object)
   const result = ESTIMATOR_PARAM_SCHEMAS[estimator].safeParse(params);
   if (result.success) return null;
   const issue = result.error.issues[0]!;
-  const keys = 'keys' in issue && Array.isArray(issue.keys) ? issue.keys.map(String) : [];
-  const field = keys[0] ?? issue.path.map(String).join('.');
+  const { path, unknownKeys } = issueField(issue);
+  const field = path.join('.');
   const value = (params as Record<string, unknown>)[field];
-  const message = issue.code === 'unrecognized_keys' ? `is not a parameter of ${estimator}` : issue.message;
+  const message = unknownKeys.length > 0 ? `is not a parameter of ${estimator}` : issue.message;
   return `${estimator} ${field} ${message}, got ${String(value)}`;
 }
