@@ -1,3 +1,4 @@
+import { hammingDistance, hexToHash } from './hash-bits';
 /**
  * Two clips' frames in step, for comparing a near-duplicate side by side: the shift between them (a copy may start
  * a few frames later or earlier) and the dHash distance of every frame pair at that shift. The shift is the one
@@ -25,17 +26,9 @@ export interface DuplicateAlignment {
 
 const MIN_OVERLAP_SHARE = 0.5;
 
-/** Set bits of a 32-bit number (the classic SWAR count). */
-function popcount32(value: number): number {
-  let v = value - ((value >>> 1) & 0x55555555);
-  v = (v & 0x33333333) + ((v >>> 2) & 0x33333333);
-  return (((v + (v >>> 4)) & 0x0f0f0f0f) * 0x01010101) >>> 24;
-}
-
 /** Differing bits of two 64-bit hashes given as 16 hex digits each. */
 export function hexHashDistance(a: string, b: string): number {
-  const half = (hex: string, from: number) => Number.parseInt(hex.slice(from, from + 8), 16);
-  return popcount32((half(a, 0) ^ half(b, 0)) >>> 0) + popcount32((half(a, 8) ^ half(b, 8)) >>> 0);
+  return hammingDistance(hexToHash(a), hexToHash(b));
 }
 
 /** `hashes[i]`: the hash of frame i, null where it was not measured. */

@@ -4,7 +4,8 @@ import { Clip, Frame, MotionField } from '../../server/core/models';
 import { recordAudit } from '../../server/core/audit/audit';
 import { clipReviewSignals } from '../../shared/review/clip-signals';
 import { clipFlags, type FlagFieldMotion, type FlagFrameSignals } from '../signals/flags';
-import { bestNearDuplicate, hexToHash, type NearDuplicateMatch } from '../signals/perceptual-hash';
+import { hexToHash } from '../../shared/review/hash-bits';
+import { bestNearDuplicate, type NearDuplicateMatch } from '../signals/perceptual-hash';
 import type { PipelineStage } from './stage';
 
 /**

@@ -9,7 +9,8 @@ import { readRgbImage, writeGreyPng, writeRgb16Png } from '../media/frame-images
 import { cutThumb, type CutThumb } from '../signals/cut-evidence';
 import { greyHistogram } from '../signals/cuts';
 import { frameSignals, type FrameSignals } from '../signals/frame-signals';
-import { dHash, hashToHex } from '../signals/perceptual-hash';
+import { hashToHex } from '../../shared/review/hash-bits';
+import { dHash } from '../signals/perceptual-hash';
 
 export interface MeasureFrameTask {
   kind: 'measure';

@@ -10,16 +10,14 @@
  */
 
 import { resizeArea } from '../../shared/pairing/area-resize';
+import { popcount32 } from '../../shared/review/hash-bits';
 
 export const DHASH_COLUMNS = 9;
 export const DHASH_ROWS = 8;
 export const DHASH_BITS = (DHASH_COLUMNS - 1) * DHASH_ROWS;
 
-const HEX_DIGITS = DHASH_BITS / 4;
-const HEX_RADIX = 16;
 const HALF_BITS = 32n;
 const LOW_MASK = 0xffffffffn;
-const HEX_PATTERN = /^[0-9a-f]{16}$/i;
 
 export interface NearDuplicateMatch<Id> {
   clipId: Id;
@@ -47,20 +45,6 @@ export function dHash(grey: Float32Array, width: number, height: number): bigint
 }
 
 /** 16 lowercase hex digits, zero-padded: the form stored in the database. */
-export function hashToHex(hash: bigint): string {
-  return hash.toString(HEX_RADIX).padStart(HEX_DIGITS, '0');
-}
-
-export function hexToHash(hex: string): bigint {
-  if (!HEX_PATTERN.test(hex)) throw new RangeError(`not a 64-bit hex hash: ${hex}`);
-  return BigInt(`0x${hex}`);
-}
-
-/** Number of differing bits of two 64-bit hashes. */
-export function hammingDistance(a: bigint, b: bigint): number {
-  const x = a ^ b;
-  return popcount32(Number(x & LOW_MASK)) + popcount32(Number((x >> HALF_BITS) & LOW_MASK));
-}
 
 /** Share of `hashes` that lie within `maxDistance` of at least one of `otherHashes` (0 when either is empty). */
 export function nearDuplicateShare(
@@ -107,13 +91,4 @@ function splitHalves(hashes: readonly bigint[]): { low: Uint32Array; high: Uint3
     high[i] = Number((h >> HALF_BITS) & LOW_MASK);
   });
   return { low, high };
-}
-
-/** Set bits of a 32-bit integer (the classic SWAR bit count). */
-function popcount32(value: number): number {
-  let v = value >>> 0;
-  v -= (v >>> 1) & 0x55555555;
-  v = (v & 0x33333333) + ((v >>> 2) & 0x33333333);
-  v = (v + (v >>> 4)) & 0x0f0f0f0f;
-  return Math.imul(v, 0x01010101) >>> 24;
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { alignDuplicate, hexHashDistance } from '../../../shared/review/duplicate-steps';
-import { hammingDistance, hashToHex } from '../../../worker/signals/perceptual-hash';
+import { hammingDistance, hashToHex } from '../../../shared/review/hash-bits';
 
 /** A repeatable spread of 64-bit hashes (a linear congruential walk; any spread would do). */
 function hashes(count: number, seed: number): string[] {

@@ -1,12 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import {
-  bestNearDuplicate,
-  dHash,
-  hammingDistance,
-  hashToHex,
-  hexToHash,
-  nearDuplicateShare,
-} from '../../../worker/signals/perceptual-hash';
+import { hammingDistance, hashToHex, hexToHash } from '../../../shared/review/hash-bits';
+import { bestNearDuplicate, dHash, nearDuplicateShare } from '../../../worker/signals/perceptual-hash';
 import { texturedGrey, withNoise } from './synthetic-frames';
 
 const WIDTH = 90;
