@@ -21,7 +21,7 @@ import sharp from 'sharp';
 import { isUnknownFlow } from '../shared/motion/unknown-flow';
 import { grove3Available, GROVE3_FETCH_COMMAND, loadGrove3 } from '../tests/helpers/grove3';
 import { makeMotionPair, type Warp } from '../tests/helpers/motion-pairs';
-import { encodeFlo } from '../worker/motion/formats/flo';
+import { encodeFlo } from '../shared/motion/formats/flo';
 import { resolveParams } from '../worker/motion/index';
 import { ESTIMATORS, type EstimatorName } from '../shared/estimators';
 import { warpBackward } from '../worker/motion/kernels/resample';

@@ -1,7 +1,8 @@
 /**
- * Pairset build benchmark (not a test): writes the shards of a pairset that only copies existing files
- * (frame~neighbour+1 over accepted clips of incompressible 320 × 240 PNG frames) and, in the same run, archives
- * exactly the same files with GNU `tar -cf` as the reference. Reports both throughputs and their ratio
+ * Pairset build benchmark (not a test): writes the shards of a pairset of frames only (frame~neighbour+1 over
+ * accepted clips of incompressible 320 × 240 frames, stored as lossless WebP and written to the shards as PNG)
+ * and, in the same run, archives the same PNG files, made beforehand, with GNU `tar -cf` as the reference; the
+ * Kinefold side also decodes each stored frame and encodes its PNG. Reports both throughputs and their ratio
  * (goal ≥ 0.8×), best of five alternating rounds each, beside `tar -cf | sha256sum` (tar with the checksum a
  * shard carries) and SHA-256 alone over the same bytes, plus the whole build-pairset job (planning, shards, pair
  * difficulty, commit).
@@ -23,7 +24,8 @@ import { createUser } from '../server/core/people/users';
 import { storagePaths } from '../server/core/storage/paths';
 import { planPairs } from '../shared/pairing/pair-plan';
 import { definitionViews, pairsetDefinitionSchema } from '../shared/schemas/pairsets';
-import { viewSourceFile } from '../worker/pairsets/pair-members';
+import { viewFrame } from '../worker/pairsets/pair-members';
+import { createViewReader } from '../worker/pairsets/view-reader';
 import { writeShards } from '../worker/pairsets/write-shards';
 import { createFramePool } from '../worker/pool/frame-pool';
 import { createJobRuntime } from '../worker/runtime/job-runtime';
@@ -38,6 +40,9 @@ const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-pairsets-'));
 const config = loadConfig({ KINEFOLD_STORAGE_DIR: path.join(work, 'storage'), KINEFOLD_DEMO: 'off' });
 const paths = storagePaths(config.storageDir);
 const mib = (bytes: number) => bytes / 1024 ** 2;
+/** The PNG a shard holds for a frame, made beforehand for the tar reference. */
+const referenceFrame = (clipId: number, index: number) =>
+  path.join(work, 'reference', String(clipId), `${String(index).padStart(6, '0')}.png`);
 
 /** Accepted clips of noise frames: PNG cannot compress noise, so the bytes on disk are what a camera gives. */
 async function makeClips(frameBytesWanted: number, projectId: number, uploaderId: number): Promise<void> {
@@ -76,10 +81,12 @@ async function makeClips(frameBytesWanted: number, projectId: number, uploaderId
         noise.update(`${seed}:${index}:${offset}`);
         noise.copy().digest().copy(pixels, offset);
       }
-      await sharp(pixels, { raw: { width: WIDTH, height: HEIGHT, channels: 3 } })
-        .png()
-        .toFile(layout.frame(index));
-      written += fs.statSync(layout.frame(index)).size;
+      const image = sharp(pixels, { raw: { width: WIDTH, height: HEIGHT, channels: 3 } });
+      await image.clone().webp({ lossless: true, effort: 0 }).toFile(layout.frame(index));
+      const reference = referenceFrame(clip.id, index);
+      fs.mkdirSync(path.dirname(reference), { recursive: true });
+      await image.png().toFile(reference);
+      written += fs.statSync(reference).size;
       await Frame.create({ clipId: clip.id, index, timeS: index / 5, sharpness: 500, cutBefore: false });
     }
     seed += 1;
@@ -132,19 +139,15 @@ try {
   // link, so its b-files come from a copy of the frames: both sides then read and write the same bytes.
   const mirror = path.join(work, 'mirror');
   for (const clip of sources) {
-    fs.cpSync(paths.clipDerived(clip.id).framesDir, path.join(mirror, String(clip.id)), { recursive: true });
+    fs.cpSync(path.dirname(referenceFrame(clip.id, 0)), path.join(mirror, String(clip.id)), { recursive: true });
   }
   const list = path.join(work, 'files.txt');
   fs.writeFileSync(
     list,
     planned
       .flatMap((item) => [
-        viewSourceFile(paths, item.clipId, item.moment, item.pair.a),
-        path.join(
-          mirror,
-          String(item.clipId),
-          path.basename(viewSourceFile(paths, item.clipId, item.moment, item.pair.b)),
-        ),
+        referenceFrame(item.clipId, viewFrame(item.pair.a, item.moment)),
+        path.join(mirror, String(item.clipId), path.basename(referenceFrame(0, viewFrame(item.pair.b, item.moment)))),
       ])
       .join('\n'),
   );
@@ -179,7 +182,10 @@ try {
           stagingDir: path.join(outDir, 'staging'),
           shardMB: definition.shardMB,
           clips: new Map(sources.map((clip) => [clip.id, clip])),
-          member: { paths, motionFormat: definition.motionFormat },
+          member: {
+            reader: createViewReader(paths, new Map(sources.map((clip) => [clip.id, clip]))),
+            motionFormat: definition.motionFormat,
+          },
           progress: async () => undefined,
         });
         shardBytes = shards.reduce((sum, shard) => sum + shard.bytes, 0);

@@ -6,57 +6,20 @@
  * requests on the idle server measured first (goal: every answer within 200 ms).
  *   npm run bench:pipeline [-- --seconds 60]
  */
-import { execFile } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { parseArgs, promisify } from 'node:util';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import { renderTexture } from '../server/demo/footage';
+import { parseArgs } from 'node:util';
 import type { ClipDetail } from '../shared/types/clips';
+import { renderRowPassClip, ROW_PASS_HEIGHT, ROW_PASS_WIDTH } from './row-pass-clip';
 import { startRunningApp, type RunningApp, type Session } from '../tests/helpers/app-processes';
 
 const { values } = parseArgs({ options: { seconds: { type: 'string', default: '60' } } });
 const SECONDS = Math.max(5, Number(values.seconds));
-const WIDTH = 1280;
-const HEIGHT = 720;
 const POLL_MS = 250;
 const IDLE_ROUNDS = 40;
 const RESPONSE_GOAL_MS = 200;
 const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-pipeline-'));
-
-/** The window sweeps the texture back and forth (up to ~55 px/s) while a crate crosses every few seconds. */
-async function renderClip(): Promise<string> {
-  const texture = await renderTexture(work, 7, '2400x1350');
-  const file = path.join(work, 'long-row-pass-720p.mp4');
-  const camera = `crop=${WIDTH}:${HEIGHT}:x='560+500*sin(t/9)':y='315+300*sin(t/13)'`;
-  const crate = "drawbox=x='mod(t*160,1500)-120':y=420:w=140:h=92:color=0xc2410c@0.95:t=fill";
-  await promisify(execFile)(ffmpegInstaller.path, [
-    '-v',
-    'error',
-    '-y',
-    '-loop',
-    '1',
-    '-framerate',
-    '25',
-    '-i',
-    texture,
-    '-vf',
-    `${camera},${crate},format=yuv420p`,
-    '-t',
-    String(SECONDS),
-    '-c:v',
-    'libx264',
-    '-preset',
-    'veryfast',
-    '-crf',
-    '22',
-    '-movflags',
-    '+faststart',
-    file,
-  ]);
-  return file;
-}
 
 interface Latencies {
   ms: number[];
@@ -89,9 +52,9 @@ function describe(name: string, latencies: Latencies): string {
 const SCREEN_REQUESTS = ['/api/me', '/api/clips?page=1&pageSize=25'];
 
 const renderStart = performance.now();
-const file = await renderClip();
+const file = await renderRowPassClip(work, SECONDS);
 console.log(
-  `clip: ${SECONDS} s ${WIDTH}×${HEIGHT} at 25 frames/s, ${(fs.statSync(file).size / 1024 ** 2).toFixed(1)} MiB, ` +
+  `clip: ${SECONDS} s ${ROW_PASS_WIDTH}×${ROW_PASS_HEIGHT} at 25 frames/s, ${(fs.statSync(file).size / 1024 ** 2).toFixed(1)} MiB, ` +
     `rendered in ${((performance.now() - renderStart) / 1000).toFixed(1)} s`,
 );
 

@@ -7,6 +7,7 @@ import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import { loadConfig } from '../server/core/config';
 import { openKinefoldDatabase } from '../server/core/db/open';
+import { queueCompactionIfNeeded } from '../server/core/storage/compaction';
 import { storagePaths } from '../server/core/storage/paths';
 import { createFramePool } from './pool/frame-pool';
 import { startDailySchedule } from './runtime/daily-schedule';
@@ -25,6 +26,9 @@ console.log(
   `Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, ` +
     `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`,
 );
+
+// An installation upgraded from the original storage format converts its clips in the background.
+if (await queueCompactionIfNeeded('upgrade')) console.log('Kinefold worker: queued compact-storage for older clips.');
 
 const stopSchedule = startDailySchedule();
 

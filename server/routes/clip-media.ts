@@ -12,12 +12,15 @@ import {
   previewPath,
   reprocessClip,
   thumbnailPath,
-  viewPath,
+  viewImage,
 } from '../core/clips/clip-media';
-import { motionFieldPath, type MotionFile } from '../core/clips/clip-motion';
+import { motionFieldFile, type MotionFile } from '../core/clips/clip-motion';
 import type { StoragePaths } from '../core/storage/paths';
 
-/** What processing made of a clip, under /api/clips. Files stream with Range support (sendFile answers 206). */
+/**
+ * What processing made of a clip, under /api/clips. Stored files stream with Range support (sendFile answers 206);
+ * views, .flo files and motion pictures are made when asked and answered whole, with an ETag.
+ */
 export function createClipMediaRouter(paths: StoragePaths): Router {
   const router = Router();
   const byId = { params: idParamSchema };
@@ -45,24 +48,21 @@ function getFrameImage(paths: StoragePaths) {
 }
 
 function getViewImage(paths: StoragePaths) {
-  return async ({ params }: { params: ViewParam }, _req: Request, res: Response) => {
+  return async ({ params }: { params: ViewParam }, req: Request, res: Response) => {
     const { id, index, view } = params;
-    sendDerived(res, await viewPath(id, index, view, paths));
+    sendMade(req, res, await viewImage(id, index, view, paths), 'image/png');
   };
 }
 
 /** The forward field from frame index to index + 1: its colour picture, or the field as a Middlebury .flo file. */
 function getMotion(paths: StoragePaths, file: MotionFile) {
-  return async ({ params }: { params: FrameParam }, _req: Request, res: Response) => {
+  return async ({ params }: { params: FrameParam }, req: Request, res: Response) => {
     const { id, index } = params;
-    const field = await motionFieldPath(id, index, file, paths);
+    const bytes = await motionFieldFile(id, index, file, paths);
+    if (file === 'picture') return sendMade(req, res, bytes, 'image/png');
     // .flo has no registered media type; a download name saves scripts from guessing one.
-    const download = `attachment; filename="clip-${id}-motion-${index}.flo"`;
-    sendDerived(
-      res,
-      field,
-      file === 'flo' ? { 'Content-Type': 'application/octet-stream', 'Content-Disposition': download } : {},
-    );
+    res.set('Content-Disposition', `attachment; filename="clip-${id}-motion-${index}.flo"`);
+    sendMade(req, res, bytes, 'application/octet-stream');
   };
 }
 
@@ -88,6 +88,26 @@ async function postReprocess(
   res: Response<ClipProgress>,
 ): Promise<void> {
   res.status(HttpStatus.ACCEPTED).json(await reprocessClip(params.id, currentUser(req).id));
+}
+
+/**
+ * A file made for this request: express's ETag lets a browser that has it already get a 304, and one byte range
+ * (a resumed download) is answered 206 as sendFile would; several ranges get the whole file.
+ */
+function sendMade(req: Request, res: Response, bytes: Buffer, type: string): void {
+  res.set({ 'Cache-Control': 'private, no-cache', 'Accept-Ranges': 'bytes' }).type(type);
+  const ranges = req.headers.range ? req.range(bytes.length) : undefined;
+  if (ranges === -1) {
+    res.status(HttpStatus.RANGE_NOT_SATISFIABLE).set('Content-Range', `bytes */${bytes.length}`).end();
+    return;
+  }
+  if (Array.isArray(ranges) && ranges.type === 'bytes' && ranges.length === 1) {
+    const { start, end } = ranges[0]!;
+    res.status(HttpStatus.PARTIAL_CONTENT).set('Content-Range', `bytes ${start}-${end}/${bytes.length}`);
+    res.send(bytes.subarray(start, end + 1));
+    return;
+  }
+  res.send(bytes);
 }
 
 /** Derived files change when a clip is processed again, so the browser asks each time (ETag makes that cheap). */

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { STORED_VIEWS } from '../pipeline-stages';
+import { FRAME_VIEWS } from '../pipeline-stages';
 import { pathNumber } from './path-number';
 
 const clipId = pathNumber('id', { min: 1 });
@@ -13,6 +13,6 @@ export type FrameParam = z.infer<typeof frameParamSchema>;
 export const viewParamSchema = z.strictObject({
   id: clipId,
   index: frameIndex,
-  view: z.enum(STORED_VIEWS, { message: `view must be one of ${STORED_VIEWS.join(', ')}` }),
+  view: z.enum(FRAME_VIEWS, { message: `view must be one of ${FRAME_VIEWS.join(', ')}` }),
 });
 export type ViewParam = z.infer<typeof viewParamSchema>;

@@ -7,8 +7,9 @@ export type UsageByKind = Record<UsageKind, number>;
 export interface UsageReport {
   disk: { usedBytes: number; freeBytes: number };
   totalBytes: number;
-  byProject: { projectId: number; name: string; usedBytes: number; quotaBytes: number | null }[];
-  byUser: { userId: number; name: string; usedBytes: number; quotaBytes: number | null }[];
+  /** usedBytes: sources, derived files and pairsets together; sourceBytes: the uploaded footage within it. */
+  byProject: { projectId: number; name: string; usedBytes: number; sourceBytes: number; quotaBytes: number | null }[];
+  byUser: { userId: number; name: string; usedBytes: number; sourceBytes: number; quotaBytes: number | null }[];
   /** From the latest reconciliation (null before the first one). */
   byKind: UsageByKind | null;
   measuredAt: string | null;

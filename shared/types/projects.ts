@@ -9,7 +9,11 @@ export interface ProjectSummary {
   quotaBytes: number | null;
   /** Days after a reject verdict when the clip's files are purged; null keeps rejected footage. */
   retentionDays: number | null;
+  /** Everything the project's clips hold: their sources and what processing derived from them (or, until then,
+   * the derived bytes predicted at admission). */
   usedBytes: number;
+  /** The uploaded footage alone, within usedBytes. */
+  sourceBytes: number;
   clipCount: number;
   settings: ProjectSettings;
   createdAt: string;

@@ -96,9 +96,18 @@ describe('GET /api/clips/:id/frames', () => {
 });
 
 describe('GET /api/clips/:id/frames/:index and /views/:index/:view', () => {
-  it('answer a PNG for each view of a frame', async () => {
+  it('answer the frame as stored (lossless WebP) and each view as a PNG made from it', async () => {
     const { agent } = await curator();
-    for (const url of ['frames/1', 'views/1/luma', 'views/1/chroma']) {
+    const frame = await agent.get(`/api/clips/${processed.id}/frames/1`).buffer(true).parse(binary).expect(200);
+    expect(frame.headers['content-type']).toBe('image/webp');
+    // RIFF container with the WEBP form type, "VP8L" for the lossless bitstream (WebP container specification).
+    const body = frame.body as Buffer;
+    expect([body.toString('latin1', 0, 4), body.toString('latin1', 8, 12), body.toString('latin1', 12, 16)]).toEqual([
+      'RIFF',
+      'WEBP',
+      'VP8L',
+    ]);
+    for (const url of ['views/1/luma', 'views/1/chroma']) {
       const response = await agent.get(`/api/clips/${processed.id}/${url}`).buffer(true).parse(binary).expect(200);
       expect(response.headers['content-type']).toBe('image/png');
       expect((response.body as Buffer).subarray(0, 8)).toEqual(PNG_SIGNATURE);

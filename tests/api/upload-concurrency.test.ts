@@ -5,7 +5,9 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Clip, Project, UploadReservation } from '../../server/core/models';
+import { probeUpload } from '../../server/core/media/clip-probe';
 import { storagePaths } from '../../server/core/storage/paths';
+import { predictDerivedBytes } from '../../server/core/usage/derived-bytes';
 import { signInOverHttp } from '../helpers/http-session';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
@@ -46,10 +48,15 @@ afterAll(async () => {
 });
 
 describe('many uploads at once', () => {
-  it('answers only 201 or 413 to 24 uploads from 4 sessions, stays within the quota, leaves nothing', async () => {
-    const requestBytes = uploadBody(0, files[0]!).body.length;
-    // Room for ten reservations (a reservation is the request's whole Content-Length), so fourteen must be refused.
-    const quotaBytes = FITTING * requestBytes + requestBytes / 2;
+  it('answers only 201 or 413 to 24 uploads from 4 sessions, holds the quota with predictions, leaves nothing', async () => {
+    // Each admitted clip holds its source and the derived bytes predicted for it; room for ten such holds, while
+    // the reservations taken as the bodies arrive (the request's Content-Length) are smaller, so admission must
+    // refuse what the reservations let through.
+    const { probe } = await probeUpload(files[0]!, 'row.mp4');
+    const predicted = predictDerivedBytes(probe, { sampleFps: 5, workingSize: 320 });
+    const hold = fs.statSync(files[0]!).size + predicted;
+    expect(predicted).toBeGreaterThan(uploadBody(0, files[0]!).body.length);
+    const quotaBytes = FITTING * hold + hold / 2;
     const project = await Project.create({
       name: 'Busy week',
       quotaBytes,
@@ -70,12 +77,16 @@ describe('many uploads at once', () => {
       bodies.join('\n'),
     ).toEqual([]);
     const created = statuses.filter((status) => status === 201).length;
+    // Uploads still arriving hold their reservations, so fewer than ten may land, never more.
     expect(created).toBeGreaterThan(0);
     expect(created).toBeLessThanOrEqual(FITTING);
+    const refusals = bodies.filter((_, index) => statuses[index] === 413);
+    expect(refusals.some((body) => /a predicted .* of frames, motion fields and preview/.test(body))).toBe(true);
     expect(statuses.filter((status) => status === 413).length).toBe(UPLOADS - created);
     expect(await Clip.count({ where: { projectId: project.id } })).toBe(created);
     const stored = Number((await Clip.sum('storedBytes', { where: { projectId: project.id } })) ?? 0);
     expect(stored).toBeLessThanOrEqual(quotaBytes);
+    expect(stored).toBe(created * hold);
     expect(await UploadReservation.count()).toBe(0);
     const incoming = storagePaths(server.storageDir).incomingDir;
     expect(fs.existsSync(incoming) ? fs.readdirSync(incoming) : []).toEqual([]);

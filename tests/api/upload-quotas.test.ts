@@ -6,7 +6,9 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Clip, Project, UploadReservation, User } from '../../server/core/models';
 import { cleanStaleUploads } from '../../server/core/usage/storage-hygiene';
+import { probeUpload } from '../../server/core/media/clip-probe';
 import { storagePaths } from '../../server/core/storage/paths';
+import { predictDerivedBytes } from '../../server/core/usage/derived-bytes';
 import { signInOverHttp } from '../helpers/http-session';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
@@ -73,14 +75,23 @@ function incomingFiles(): string[] {
 
 describe('upload quotas', () => {
   it('lets exactly the one upload that fits land when two race for the last room', async () => {
-    const sizes = clips.slice(0, 2).map((file) => multipart(0, file).body.length);
-    const project = await newProject('Creek block', Math.max(...sizes) + 100);
+    // Each clip holds its source and the derived bytes predicted from its probe at the project's settings; the
+    // quota has room for one such hold beside the other upload's reservation (its request), not for two holds.
+    const files = clips.slice(0, 2);
+    const requests = files.map((file) => multipart(0, file).body.length);
+    const holds = await Promise.all(
+      files.map(async (file) => {
+        const { probe } = await probeUpload(file, path.basename(file));
+        return fs.statSync(file).size + predictDerivedBytes(probe, { sampleFps: 5, workingSize: 320 });
+      }),
+    );
+    const project = await newProject('Creek block', Math.max(...holds) + Math.max(...requests) + 100);
     const answers = await Promise.all([post(project.id, clips[0]!), post(project.id, clips[1]!)]);
     const statuses = answers.map((answer) => answer.status).sort();
     expect(statuses).toEqual([201, 413]);
     const refused = answers.find((answer) => answer.status === 413)!;
     expect(((await refused.json()) as { error: { message: string } }).error.message).toMatch(
-      /Project "Creek block"'s quota of .* has .* left; this upload needs/,
+      /Project "Creek block"'s quota of .* has .* left; this (upload|clip) needs/,
     );
     const used = (await Clip.sum('storedBytes', { where: { projectId: project.id } })) ?? 0;
     expect(Number(used)).toBeLessThanOrEqual(Number(project.quotaBytes));

@@ -7,7 +7,7 @@ import { readFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import sharp from 'sharp';
-import { decodeFlo } from '../../worker/motion/formats/flo.js';
+import { decodeFlo } from '../../shared/motion/formats/flo';
 
 const CACHE = join(dirname(fileURLToPath(import.meta.url)), '..', '..', '.cache', 'grove3');
 export const GROVE3_PNG = join(CACHE, 'grove3.png');

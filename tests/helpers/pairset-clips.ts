@@ -1,10 +1,14 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
+import path from 'node:path';
+import { greyPng, rgb16Png } from '../../server/core/media/frame-images';
+import { viewCodes } from '../../server/core/media/frame-views';
+import { encodePackedField } from '../../server/core/media/packed-field';
 import { Clip, Frame, MotionField } from '../../server/core/models';
-import { storagePaths } from '../../server/core/storage/paths';
+import { originalOnlyFiles } from '../../server/core/storage/original-format';
+import { storagePaths, type DerivedFormat } from '../../server/core/storage/paths';
 import type { ClipState } from '../../shared/clip-states';
-import { encodeFlo } from '../../worker/motion/formats/flo';
-import { writeFrameViews } from '../../worker/pool/frame-tasks';
+import { encodeFlo } from '../../shared/motion/formats/flo';
 import sharp from 'sharp';
 import type { TestServer } from './test-server';
 
@@ -27,13 +31,16 @@ export interface PairsetClipOptions {
   /** Writes forward motion fields (.flo and rows) for every neighbour pair that no cut separates. */
   motion?: boolean;
   sampleFps?: number;
+  /** How the files are stored (storage/paths.ts); `original` also writes the views the original format kept. */
+  format?: DerivedFormat;
 }
 
 /**
  * A clip as processing and review leave it, made directly (no ffmpeg, no pipeline): the clip row, frame rows
- * with signals and cuts, frame PNGs of a smooth pattern moving `shift` px to the right per frame, luma and chroma
- * views written by the pipeline's own views task, and, with `motion`, forward fields of exactly (shift, 0) as
- * Middlebury .flo with their motion_fields rows. Tests set the state (accepted by default).
+ * with signals and cuts, frames of a smooth pattern moving `shift` px to the right per frame, and, with `motion`,
+ * forward fields of exactly (shift, 0) with their motion_fields rows, stored in the `packed` format (lossless WebP,
+ * packed fields) or the `original` one (PNG, Middlebury .flo, stored luma and chroma views). Tests set the state
+ * (accepted by default).
  */
 export async function addPairsetClip(server: TestServer, options: PairsetClipOptions): Promise<Clip> {
   const {
@@ -45,6 +52,7 @@ export async function addPairsetClip(server: TestServer, options: PairsetClipOpt
     cutsBefore = [],
     sampleFps = 5,
     motion = true,
+    format = 'packed',
   } = options;
   const name = `pattern-${seed}-${Date.now()}-${Math.random().toString(36).slice(2, 8)}.mp4`;
   const clip = await Clip.create({
@@ -70,21 +78,17 @@ export async function addPairsetClip(server: TestServer, options: PairsetClipOpt
     notes: '',
     frameCount: frames,
     cutCount: cutsBefore.length,
+    derivedFormat: format,
   });
-  const layout = storagePaths(server.storageDir).clipDerived(clip.id);
-  for (const dir of [layout.framesDir, layout.viewDir('luma'), layout.viewDir('chroma'), layout.motionDir]) {
-    fs.mkdirSync(dir, { recursive: true });
-  }
+  const paths = storagePaths(server.storageDir);
+  const layout = paths.clipDerived(clip.id, format);
+  const viewsDir = originalOnlyFiles(paths.clipDir(clip.id)).viewsDir;
+  for (const dir of [layout.framesDir, layout.motionDir]) fs.mkdirSync(dir, { recursive: true });
   for (let index = 0; index < frames; index += 1) {
-    await sharp(patternFrame(width, height, index * shift, seed), { raw: { width, height, channels: 3 } })
-      .png()
-      .toFile(layout.frame(index));
-    await writeFrameViews({
-      kind: 'views',
-      frameFile: layout.frame(index),
-      lumaFile: layout.view('luma', index),
-      chromaFile: layout.view('chroma', index),
-    });
+    const rgb = patternFrame(width, height, index * shift, seed);
+    const image = sharp(rgb, { raw: { width, height, channels: 3 } });
+    await (format === 'packed' ? image.webp({ lossless: true }) : image.png()).toFile(layout.frame(index));
+    if (format === 'original') await writeStoredViews(viewsDir, index, { rgb, width, height });
     await Frame.create({
       clipId: clip.id,
       index,
@@ -97,7 +101,20 @@ export async function addPairsetClip(server: TestServer, options: PairsetClipOpt
     });
     const joined = index + 1 < frames && !cutsBefore.includes(index + 1);
     if (motion && joined) {
-      fs.writeFileSync(layout.motionFlo(index), encodeFlo(uniformField(width, height, shift), width, height));
+      const flow = uniformField(width, height, shift);
+      fs.writeFileSync(
+        layout.motionField(index),
+        format === 'packed'
+          ? encodePackedField({ width, height, flow, consistent: new Uint8Array(width * height).fill(1) })
+          : encodeFlo(flow, width, height),
+      );
+      if (format === 'original') {
+        const backward = uniformField(width, height, -shift);
+        fs.writeFileSync(
+          originalOnlyFiles(paths.clipDir(clip.id)).backwardField(index),
+          encodeFlo(backward, width, height),
+        );
+      }
       await MotionField.create({
         clipId: clip.id,
         fromIndex: index,
@@ -115,6 +132,19 @@ export async function addPairsetClip(server: TestServer, options: PairsetClipOpt
     }
   }
   return clip;
+}
+
+/** The luma and chroma PNGs the original format kept in views/luma and views/chroma. */
+async function writeStoredViews(
+  viewsDir: string,
+  index: number,
+  image: { rgb: Uint8Array; width: number; height: number },
+) {
+  const codes = viewCodes(image);
+  const name = `${String(index).padStart(6, '0')}.png`;
+  for (const view of ['luma', 'chroma'] as const) fs.mkdirSync(path.join(viewsDir, view), { recursive: true });
+  fs.writeFileSync(path.join(viewsDir, 'luma', name), await greyPng(codes.luma, codes.width, codes.height));
+  fs.writeFileSync(path.join(viewsDir, 'chroma', name), await rgb16Png(codes.chroma, codes.width, codes.height));
 }
 
 /** A smooth colour pattern moved right by `offset` px: channels with different periods and phases. */

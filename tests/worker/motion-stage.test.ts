@@ -8,8 +8,10 @@ import { storagePaths } from '../../server/core/storage/paths';
 import { rgbToGrey } from '../../shared/colour/grey';
 import { motionToColour } from '../../shared/motion/colour-wheel';
 import { clipMotionScale } from '../../shared/motion/motion-scale';
-import { readRgbImage } from '../../worker/media/frame-images';
-import { decodeFlo, encodeFlo, floByteLength } from '../../worker/motion/formats/flo';
+import { readRgbImage } from '../../server/core/media/frame-images';
+import { decodePackedField, encodePackedField } from '../../server/core/media/packed-field';
+import { motionFieldFile } from '../../server/core/clips/clip-motion';
+import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../../worker/motion/fields/consistency';
 import { estimateMotion, resolveParams } from '../../worker/motion/index';
 import { ESTIMATORS } from '../../shared/estimators';
 import { addProject, insertClip, workFolders } from '../helpers/pipeline-clips';
@@ -122,24 +124,26 @@ describe('a pan of known speed', () => {
     }
   });
 
-  it('writes each forward field as .flo and colour PNG, and each backward field as .flo', async () => {
+  it('stores each forward field packed with its consistency plane, and no backward field or picture', async () => {
     const layout = paths().clipDerived(clip.id);
     const pairs = clip.frameCount! - 1;
-    expect(fs.readdirSync(layout.motionDir)).toHaveLength(3 * pairs);
+    expect(fs.readdirSync(layout.motionDir).sort()).toEqual(
+      Array.from({ length: pairs }, (_, k) => path.basename(layout.motionField(k))),
+    );
     const rows = await fieldRows(clip.id);
     const forward = rows.filter((row) => row.direction === 'forward');
     for (const row of [forward[0]!, forward[pairs - 1]!]) {
-      const bytes = fs.readFileSync(layout.motionFlo(row.fromIndex));
-      // Middlebury .flo (CHECK-VALUES §1): "PIEH", width, height, then 12 + 8wh bytes in all.
-      expect(bytes.subarray(0, 4).toString('latin1')).toBe('PIEH');
-      expect(bytes.length).toBe(floByteLength(WORKING_SIZE, 180));
-      const { flow, width, height } = decodeFlo(bytes);
+      const { flow, width, height, consistent } = decodePackedField(fs.readFileSync(layout.motionField(row.fromIndex)));
       expect([width, height]).toEqual([WORKING_SIZE, 180]);
       let sum = 0;
-      for (let p = 0; p < width * height; p++) sum += Math.hypot(flow[2 * p]!, flow[2 * p + 1]!);
-      expect(sum / (width * height)).toBeCloseTo(row.meanMagnitude, 4);
-      const back = decodeFlo(fs.readFileSync(layout.motionBackwardFlo(row.fromIndex)));
-      expect(back.flow.length).toBe(flow.length);
+      let kept = 0;
+      for (let p = 0; p < width * height; p++) {
+        sum += Math.hypot(flow[2 * p]!, flow[2 * p + 1]!);
+        kept += consistent![p]!;
+      }
+      // Stored to 1/64 px, so the mean moves by at most 1/128 px per component.
+      expect(Math.abs(sum / (width * height) - row.meanMagnitude)).toBeLessThan(0.012);
+      expect(kept / (width * height)).toBeCloseTo(row.consistentShare, 6);
     }
   });
 
@@ -151,23 +155,23 @@ describe('a pan of known speed', () => {
     // One field sets the scale; another must not be scaled by its own largest motion, as color_flow.cpp would.
     const smallest = forward.reduce((a, b) => (a.consistentP95Magnitude! < b.consistentP95Magnitude! ? a : b));
     expect(smallest.consistentP95Magnitude).toBeLessThan(scale);
-    const { flow } = decodeFlo(fs.readFileSync(layout.motionFlo(smallest.fromIndex)));
-    const picture = await sharp(layout.motionPicture(smallest.fromIndex)).raw().toBuffer({ resolveWithObject: true });
+    const { flow } = decodePackedField(fs.readFileSync(layout.motionField(smallest.fromIndex)));
+    const png = await motionFieldFile(clip.id, smallest.fromIndex, 'picture', paths());
+    const picture = await sharp(png).raw().toBuffer({ resolveWithObject: true });
     expect(picture.info).toMatchObject({ width: WORKING_SIZE, height: 180, channels: 3 });
     // The colour wheel of flow-code's color_flow.cpp (CHECK-VALUES §2), with maxmotion given.
     expect(Buffer.from(motionToColour(flow, scale).rgb).equals(picture.data)).toBe(true);
     expect(Buffer.from(motionToColour(flow).rgb).equals(picture.data)).toBe(false);
   });
 
-  it('gives a pool field bit-identical to a direct call on the same frames', async () => {
+  it('gives a pool field identical to a direct call on the same frames, packed', async () => {
     const layout = paths().clipDerived(clip.id);
     const [a, b] = await Promise.all([greyFrame(layout.frame(6)), greyFrame(layout.frame(7))]);
     const forward = estimateMotion('farneback', a, b, WORKING_SIZE, 180).flow;
     const backward = estimateMotion('farneback', b, a, WORKING_SIZE, 180).flow;
-    expect(Buffer.from(encodeFlo(forward, WORKING_SIZE, 180)).equals(fs.readFileSync(layout.motionFlo(6)))).toBe(true);
-    expect(
-      Buffer.from(encodeFlo(backward, WORKING_SIZE, 180)).equals(fs.readFileSync(layout.motionBackwardFlo(6))),
-    ).toBe(true);
+    const { mask } = forwardBackwardConsistency(forward, backward, WORKING_SIZE, 180, CONSISTENCY_DEFAULTS);
+    const packed = encodePackedField({ width: WORKING_SIZE, height: 180, flow: forward, consistent: mask });
+    expect(packed.equals(fs.readFileSync(layout.motionField(6)))).toBe(true);
   });
 
   it('counts the motion files in the bytes stored and leaves no work folder', async () => {
@@ -233,46 +237,40 @@ describe('cuts', () => {
     }
     const layout = paths().clipDerived(clip.id);
     for (const index of cutBefore) {
-      expect(fs.existsSync(layout.motionFlo(index - 1))).toBe(false);
-      expect(fs.existsSync(layout.motionPicture(index - 1))).toBe(false);
-      expect(fs.existsSync(layout.motionFlo(index))).toBe(true);
+      expect(fs.existsSync(layout.motionField(index - 1))).toBe(false);
+      expect(fs.existsSync(layout.motionField(index))).toBe(true);
     }
   });
 });
 
 describe('the thread pool', () => {
-  it.each(ESTIMATORS)('gives %s fields bit-identical to a direct call, forward and backward', async (name) => {
+  it.each(ESTIMATORS)('gives %s fields identical to a direct call, with the forward–backward check', async (name) => {
     const frames = path.join(gen, 'pool-frames');
     fs.mkdirSync(frames, { recursive: true });
-    // Three frames of a pan (8 source px a step) at the working size, as PNG like the sample stage's.
-    const frameFiles = [0, 1, 2].map((k) => path.join(frames, `${k}.png`));
+    // Three frames of a pan (8 source px a step) at the working size, as lossless WebP like the sample stage's.
+    const frameFiles = [0, 1, 2].map((k) => path.join(frames, `${k}.webp`));
     if (!fs.existsSync(frameFiles[2]!)) {
       for (const [k, out] of frameFiles.entries()) {
         await sharp(texture)
           .extract({ left: 8 * k, top: 30, width: CROP.width, height: CROP.height })
           .resize(WORKING_SIZE)
-          .png()
+          .webp({ lossless: true })
           .toFile(out);
       }
     }
-    const out = (kind: string) => [0, 1].map((k) => path.join(frames, `${name}-${kind}-${k}.flo`));
+    const out = [0, 1].map((k) => path.join(frames, `${name}-${k}.field`));
     const params = resolveParams(name);
-    const summaries = await worker.pool.estimateMotionRun({
-      frameFiles,
-      estimator: name,
-      params,
-      forwardFiles: out('forward'),
-      backwardFiles: out('backward'),
-    });
+    const summaries = await worker.pool.estimateMotionRun({ frameFiles, estimator: name, params, forwardFiles: out });
     expect(summaries).toHaveLength(2);
     const greys = await Promise.all(frameFiles.map(greyFrame));
     for (const k of [0, 1]) {
       const forward = estimateMotion(name, greys[k]!, greys[k + 1]!, WORKING_SIZE, 180, params).flow;
       const backward = estimateMotion(name, greys[k + 1]!, greys[k]!, WORKING_SIZE, 180, params).flow;
-      expect(Buffer.from(encodeFlo(forward, WORKING_SIZE, 180)).equals(fs.readFileSync(out('forward')[k]!))).toBe(true);
-      expect(Buffer.from(encodeFlo(backward, WORKING_SIZE, 180)).equals(fs.readFileSync(out('backward')[k]!))).toBe(
-        true,
-      );
+      const { mask } = forwardBackwardConsistency(forward, backward, WORKING_SIZE, 180, CONSISTENCY_DEFAULTS);
+      const packed = encodePackedField({ width: WORKING_SIZE, height: 180, flow: forward, consistent: mask });
+      expect(packed.equals(fs.readFileSync(out[k]!))).toBe(true);
+      const backwardCheck = forwardBackwardConsistency(backward, forward, WORKING_SIZE, 180, CONSISTENCY_DEFAULTS);
+      expect(summaries[k]!.backward.consistentShare).toBeCloseTo(backwardCheck.consistentShare, 9);
     }
   });
 });

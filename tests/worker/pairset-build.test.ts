@@ -16,8 +16,9 @@ import { storagePaths } from '../../server/core/storage/paths';
 import { decodeChroma } from '../../shared/colour/view-encoding';
 import { shardFileName } from '../../shared/pairing/shard-name';
 import type { PairsetDetail, PairsetManifest } from '../../shared/types/pairsets';
-import { decodeFlo } from '../../worker/motion/formats/flo';
-import { decodeKittiComponent } from '../../worker/motion/formats/kitti-png';
+import { decodeFlo, encodeFlo } from '../../shared/motion/formats/flo';
+import { decodePackedField } from '../../server/core/media/packed-field';
+import { decodeKittiComponent } from '../../shared/motion/formats/kitti-png';
 import { addPairsetClip } from '../helpers/pairset-clips';
 import { buildPairsetNow, pairsetDefinition } from '../helpers/pairset-build';
 import { addProject } from '../helpers/pipeline-clips';
@@ -186,13 +187,18 @@ describe('a built pairset', () => {
     expect(cutNeighbours.every((pair) => pair.b.delta === 2 && pair.b.frame === pair.moment.frame + 2)).toBe(true);
   });
 
-  it('copies the stored views byte for byte when no output size is set', () => {
+  it('writes the stored frame as PNG and the stored field as .flo, pixel for pixel, when no size is set', async () => {
     const archive = readShard(built, 0);
     const pair = pairsOf(archive).find((candidate) => candidate.kind === 'frame~motion')!;
     const member = (name: string) => archive.members.find((m) => m.name === `pairs/${pair.key}/${name}`)!.data;
     const layout = paths().clipDerived(pair.clip.id);
-    expect(member('a.png').equals(fs.readFileSync(layout.frame(pair.moment.frame)))).toBe(true);
-    expect(member('b.flo').equals(fs.readFileSync(layout.motionFlo(pair.moment.frame)))).toBe(true);
+    expect((await sharp(member('a.png')).metadata()).format).toBe('png');
+    const stored = await sharp(layout.frame(pair.moment.frame)).removeAlpha().raw().toBuffer();
+    expect((await sharp(member('a.png')).raw().toBuffer()).equals(stored)).toBe(true);
+    const field = decodePackedField(fs.readFileSync(layout.motionField(pair.moment.frame)));
+    expect(Buffer.from(member('b.flo')).equals(Buffer.from(encodeFlo(field.flow, field.width, field.height)))).toBe(
+      true,
+    );
     expect(pair.estimator).toBe('farneback');
   });
 

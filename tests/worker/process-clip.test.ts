@@ -6,7 +6,7 @@ import ffprobeInstaller from '@ffprobe-installer/ffprobe';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, Clip, Frame, Job, Project } from '../../server/core/models';
-import { reprocessClip } from '../../server/core/clips/clip-media';
+import { reprocessClip, viewImage } from '../../server/core/clips/clip-media';
 import { storagePaths } from '../../server/core/storage/paths';
 import { decodeChroma, decodeLuma } from '../../shared/colour/view-encoding';
 import {
@@ -88,22 +88,19 @@ describe('process-clip on a clean clip', () => {
     expect(clip.cutCount).toBe(0);
   });
 
-  it('keeps frames as RGB PNG at the working size, and luma and chroma views as DESIGN §7 stores them', async () => {
+  it('keeps frames as lossless WebP at the working size, derives luma and chroma as DESIGN §7 stores them', async () => {
     const layout = paths().clipDerived(clip.id);
     expect(fs.readdirSync(layout.framesDir)).toHaveLength(clip.frameCount!);
-    const frame = await sharp(layout.frame(0)).metadata();
-    expect(frame).toMatchObject({ format: 'png', width: 320, height: 240, channels: 3, depth: 'uchar' });
-    for (const view of ['luma', 'chroma'] as const) {
-      expect(fs.readdirSync(layout.viewDir(view))).toHaveLength(clip.frameCount!);
-    }
-    expect(await sharp(layout.view('luma', 0)).metadata()).toMatchObject({
+    expect(await sharp(layout.frame(0)).metadata()).toMatchObject({ format: 'webp', width: 320, height: 240 });
+    expect(fs.existsSync(path.join(paths().clipDir(clip.id), 'views'))).toBe(false);
+    expect(await sharp(await viewImage(clip.id, 0, 'luma', paths())).metadata()).toMatchObject({
       format: 'png',
       width: 320,
       height: 240,
       channels: 1,
       depth: 'uchar',
     });
-    expect(await sharp(layout.view('chroma', 0)).metadata()).toMatchObject({
+    expect(await sharp(await viewImage(clip.id, 0, 'chroma', paths())).metadata()).toMatchObject({
       format: 'png',
       width: 320,
       height: 240,
@@ -171,9 +168,12 @@ describe('views of a known colour', () => {
     ]) {
       expect(Math.abs(rgb[centre * 3 + channel]! - pure!)).toBeLessThanOrEqual(MAX_CODE_DEVIATION);
     }
-    const lumaBytes = await sharp(layout.view('luma', 0)).extractChannel(0).raw().toBuffer();
+    const lumaBytes = await sharp(await viewImage(clip.id, 0, 'luma', paths()))
+      .extractChannel(0)
+      .raw()
+      .toBuffer();
     const l = decodeLuma(new Uint8Array(lumaBytes.buffer, lumaBytes.byteOffset, lumaBytes.length));
-    const chromaBytes = await sharp(layout.view('chroma', 0))
+    const chromaBytes = await sharp(await viewImage(clip.id, 0, 'chroma', paths()))
       .toColourspace('rgb16')
       .raw({ depth: 'ushort' })
       .toBuffer();
@@ -222,7 +222,6 @@ describe('reprocessing', () => {
     expect(await frameRows(clip.id)).toHaveLength(after);
     const layout = paths().clipDerived(clip.id);
     expect(fs.readdirSync(layout.framesDir)).toHaveLength(after);
-    expect(fs.readdirSync(layout.viewDir('luma'))).toHaveLength(after);
     expect(workFolders(server, clip.id)).toEqual([]);
     expect(await Job.count({ where: { clipId: clip.id, state: 'done' } })).toBe(2);
   });

@@ -20,7 +20,7 @@ import { addUser, startTestServer, type TestServer } from '../helpers/test-serve
 const REPO = path.resolve(import.meta.dirname, '../..');
 const KILLS = 10;
 const LEASE_S = 2;
-const STAGES = ['sample', 'signals', 'motion', 'views', 'flags'];
+const STAGES = ['sample', 'signals', 'motion', 'flags'];
 const MAX_DELAY_IN_STAGE_MS = 600;
 const CLIP_S = 5;
 
@@ -123,11 +123,9 @@ describe('a worker killed at random moments', () => {
       expect(indexes).toEqual([...Array(clip.frameCount).keys()]);
       const layout = paths.clipDerived(clip.id);
       expect(fs.readdirSync(layout.framesDir)).toHaveLength(clip.frameCount!);
-      expect(fs.readdirSync(layout.viewDir('luma'))).toHaveLength(clip.frameCount!);
-      expect(fs.readdirSync(layout.viewDir('chroma'))).toHaveLength(clip.frameCount!);
-      // The test pattern has no cut: a forward and a backward field per pair, three files per pair.
+      // The test pattern has no cut: a forward and a backward row per pair, one packed forward field per pair.
       expect(await MotionField.count({ where: { clipId: clip.id } })).toBe(2 * (clip.frameCount! - 1));
-      expect(fs.readdirSync(layout.motionDir)).toHaveLength(3 * (clip.frameCount! - 1));
+      expect(fs.readdirSync(layout.motionDir)).toHaveLength(clip.frameCount! - 1);
       expect(workFolders(server, clip.id)).toEqual([]);
       expect(await AuditEvent.count({ where: { targetId: String(clip.id), action: 'clip.processed' } })).toBe(1);
       expect(await Job.findOne({ where: { clipId: clip.id } })).toMatchObject({ state: 'done', leaseOwner: null });

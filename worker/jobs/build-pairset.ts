@@ -13,6 +13,7 @@ import { BUILD_STAGE, BuildStoppedError, watchBuild } from '../pairsets/build-wa
 import { difficultyReport } from '../pairsets/difficulty-report';
 import { stableJson } from '../pairsets/stable-json';
 import { writeShards } from '../pairsets/write-shards';
+import { createViewReader } from '../pairsets/view-reader';
 import { cancelJob, enterJobStage, finishJob } from '../../server/core/jobs/claim';
 import type { Handler, JobContext } from './handler';
 import { FinalJobError, LeaseLostError } from './job-errors';
@@ -77,16 +78,18 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
         'filtered out (cuts, clip ends, missing motion fields, motion filters). Check the counts in the form.',
     );
   }
+  const clips = new Map(sources.map((clip) => [clip.id, clip]));
+  const reader = createViewReader(paths, clips);
   const shards = await writeShards(planned, {
     outDir,
     stagingDir,
     shardMB: definition.shardMB,
-    clips: new Map(sources.map((clip) => [clip.id, clip])),
-    member: { paths, motionFormat: definition.motionFormat, outputSize: definition.outputSize },
+    clips,
+    member: { reader, motionFormat: definition.motionFormat, outputSize: definition.outputSize },
     progress: (share) => progress(share * SHARDS_SHARE),
   });
   const difficulty = await difficultyReport(planned, pairs, {
-    paths,
+    reader,
     pool: context.pool,
     signal,
     temperature: definition.temperature,

@@ -9,7 +9,6 @@ import { pipelineSettings } from '../pipeline/project-settings';
 import { sampleStage } from '../pipeline/sample-stage';
 import { signalsStage } from '../pipeline/signals-stage';
 import type { PipelineStage } from '../pipeline/stage';
-import { viewsStage } from '../pipeline/views-stage';
 import { openWorkDir, removeLeftoverWorkDirs, type WorkDir } from '../pipeline/work-dir';
 import { clipFolderUsage } from '../../server/core/storage/disk-usage';
 import { enterJobStage, finishJob, reportJobProgress, type Lease } from '../../server/core/jobs/claim';
@@ -17,12 +16,13 @@ import type { Handler, JobContext } from './handler';
 import { LeaseLostError } from './job-errors';
 
 /**
- * The Motion stage: motion fields for neighbour pairs that do not span a cut, between signals and views
- * (DESIGN §5). Its fields are also the motion input of the flags stage (static, shaky).
+ * The Motion stage: motion fields for neighbour pairs that do not span a cut, between signals and flags
+ * (DESIGN §5). Its fields are also the motion input of the flags stage (static, shaky). Luma and chroma views are
+ * derived from the frames when asked (server/core/media/frame-views.ts), so no stage stores them.
  */
 const MOTION_STAGES: readonly PipelineStage[] = [motionStage];
 
-const STAGES: readonly PipelineStage[] = [sampleStage, signalsStage, ...MOTION_STAGES, viewsStage, flagsStage];
+const STAGES: readonly PipelineStage[] = [sampleStage, signalsStage, ...MOTION_STAGES, flagsStage];
 
 const PROGRESS_INTERVAL_MS = 500;
 
@@ -36,10 +36,7 @@ export const processClip: Handler<'process-clip'> = {
     const clipDir = context.paths.clipDir(payload.clipId);
     if (!(await Clip.findByPk(payload.clipId))) return;
     await removeLeftoverWorkDirs(clipDir);
-    const first = Math.max(
-      0,
-      STAGES.findIndex((stage) => stage.name === job.stage),
-    );
+    const first = await firstStage(payload.clipId, job.stage);
     try {
       for (let i = first; i < STAGES.length; i += 1) {
         if (!(await runStage(STAGES[i]!, STAGES[i + 1] ?? null, payload.clipId, context))) return;
@@ -51,6 +48,19 @@ export const processClip: Handler<'process-clip'> = {
   },
   recordFailure: recordClipFailure,
 };
+
+/**
+ * Where a claimed job resumes: at the stage that did not commit. A clip whose frames are still in the original
+ * format starts again from sample, so no later stage mixes the two formats.
+ */
+async function firstStage(clipId: number, stage: string | null): Promise<number> {
+  const clip = await Clip.findByPk(clipId, { attributes: ['derivedFormat'] });
+  if (clip?.derivedFormat !== 'packed') return 0;
+  return Math.max(
+    0,
+    STAGES.findIndex((each) => each.name === stage),
+  );
+}
 
 /** Runs one stage on a freshly loaded clip; false when the clip was deleted meanwhile. */
 async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId: number, context: JobContext) {
@@ -74,8 +84,10 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
       workDir: async () => (work ??= await openWorkDir(clipDir, stage.name)),
       async commit(write) {
         await progress.settled();
-        // The same measure the reconcile-usage job uses, so the two never disagree.
-        const storedBytes = (await clipFolderUsage(clipDir)).total;
+        // The same measure the reconcile-usage job uses, so the two never disagree; until the last stage the
+        // admission's prediction of the derived bytes still holds the quota if it is the larger.
+        const measured = (await clipFolderUsage(clipDir)).total;
+        const storedBytes = next ? Math.max(measured, heldAtAdmission(clip)) : measured;
         await Clip.sequelize!.transaction(async (transaction) => {
           const held = next
             ? await enterJobStage(context.lease, next.name, transaction)
@@ -91,6 +103,10 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
     await (work as WorkDir | null)?.remove();
   }
   return true;
+}
+
+function heldAtAdmission(clip: Clip): number {
+  return Number(clip.sizeBytes) + Number(clip.predictedDerivedBytes ?? 0);
 }
 
 /** Shows the stage on the job and the clip; a clip not yet reviewed is `processing` meanwhile. */

@@ -18,6 +18,12 @@ export function utcDay(now = new Date()): string {
   return now.toISOString().slice(0, 10);
 }
 
+/** What a clip holds against the quotas: its files, or while it waits for processing, its admission's prediction. */
+function heldBytes(clip: Clip, onDisk: number): number {
+  if (clip.state !== 'queued' && clip.state !== 'processing') return onDisk;
+  return Math.max(onDisk, Number(clip.sizeBytes) + Number(clip.predictedDerivedBytes ?? 0));
+}
+
 /**
  * Compares the bytes the database records per clip with the files on disk: fixes each clip's `storedBytes`,
  * removes clip folders that have no clip (and folders a crash left half-removed), and records today's usage by kind. Files are measured before the one
@@ -29,17 +35,20 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
     const folders = entries.filter((name) => /^\d+$/.test(name));
     // A clip delete renames the folder before removing it; a crash in between leaves the renamed folder behind.
     const halfRemoved = entries.filter((name) => name.startsWith(REMOVING_PREFIX));
-    const clips = await Clip.findAll({ attributes: ['id', 'storedBytes'] });
+    const clips = await Clip.findAll({
+      attributes: ['id', 'storedBytes', 'state', 'sizeBytes', 'predictedDerivedBytes'],
+    });
     const known = new Set(clips.map((clip) => clip.id));
     const byKind = emptyUsage();
     const drift: UsageDrift = { clips: [], strayFolders: [] };
-    const fixes: { id: number; bytes: number }[] = [];
+    const fixes: { id: number; recorded: number; bytes: number }[] = [];
     for (const clip of clips) {
       const usage = await clipFolderUsage(paths.clipDir(clip.id));
       for (const [kind, bytes] of Object.entries(usage.byKind)) byKind[kind as keyof typeof byKind] += bytes;
-      if (usage.total !== Number(clip.storedBytes)) {
+      const held = heldBytes(clip, usage.total);
+      if (held !== Number(clip.storedBytes)) {
         drift.clips.push({ clipId: clip.id, recordedBytes: Number(clip.storedBytes), actualBytes: usage.total });
-        fixes.push({ id: clip.id, bytes: usage.total });
+        fixes.push({ id: clip.id, recorded: Number(clip.storedBytes), bytes: held });
       }
     }
     for (const folder of folders.filter((name) => !known.has(Number(name)))) {
@@ -55,8 +64,14 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
     byKind.pairsets = await folderBytes(paths.pairsetsDir);
     const totalBytes = Object.values(byKind).reduce((sum, bytes) => sum + bytes, 0);
     await Clip.sequelize!.transaction(async (transaction) => {
-      for (const fix of fixes)
-        await Clip.update({ storedBytes: fix.bytes }, { where: { id: fix.id }, transaction, silent: true });
+      // Only where nothing recorded a new size since it was read: processing or compaction may have changed the
+      // folder and written its size while this job measured, and their figure is the newer one.
+      for (const fix of fixes) {
+        await Clip.update(
+          { storedBytes: fix.bytes },
+          { where: { id: fix.id, storedBytes: fix.recorded }, transaction, silent: true },
+        );
+      }
       const day = utcDay();
       const snapshot = { day, totalBytes, byKind, drift: { ...drift }, takenAt: new Date() };
       const existing = await UsageSnapshot.findOne({ where: { day }, transaction });

@@ -27,6 +27,9 @@ export const RETRY_POLICIES: { readonly [K in JobKind]: RetryPolicy } = {
   // A build starts over on each try; a definition that gives no pairs fails at once (FinalJobError), and a clip
   // reprocessed mid-build is worth one more try once its files are back.
   'build-pairset': { maxAttempts: 2, backoffS: [60], maxClaims: 5 },
+  // Conversion is clip by clip, each switched on its own; a retry carries on with the clips left. Many claims are
+  // allowed because a long conversion outlives worker restarts (upgrades, deployments).
+  'compact-storage': { maxAttempts: 5, backoffS: [60, 600], maxClaims: 50 },
 };
 
 /** When a job that failed on its `attempts`-th try is due again. */

@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import sharp from 'sharp';
 import { decodeChroma, decodeLuma } from '../../shared/colour/view-encoding';
 import { createFixedEmbedder, DEFAULT_FIXED_EMBEDDING } from '../../shared/pairing/fixed-embedding';
 import { pairDifficulty } from '../../shared/pairing/pair-difficulty';
@@ -9,12 +7,10 @@ import { mulberry32, shuffleInPlace } from '../../shared/pairing/seeded-random';
 import { viewDescriptor } from '../../shared/pairing/view-descriptor';
 import { viewPlane, type ViewData } from '../../shared/pairing/view-plane';
 import type { PairsetDifficulty } from '../../shared/types/pairsets';
-import type { StoragePaths } from '../../server/core/storage/paths';
-import { readRgbImage } from '../media/frame-images';
-import { decodeFlo } from '../motion/formats/flo';
 import type { FramePool } from '../pool/frame-pool';
 import { criticReport, CRITIC_SAMPLE, type EmbeddedPair, type EmbeddedView } from './critic-report';
-import { viewFrame, viewSourceFile } from './pair-members';
+import { viewFrame } from './pair-members';
+import type { ViewReader } from './view-reader';
 
 /** Batch sizes of the report (1 positive + K − 1 negatives); a K is reported when the sample fills a batch. */
 export const DIFFICULTY_KS = [16, 64, 256] as const;
@@ -27,7 +23,7 @@ const EMBEDDING_DESCRIPTION =
   'dimensions by a seeded Gaussian random matrix and normalised to unit length. Nothing is trained.';
 
 export interface DifficultyOptions {
-  paths: StoragePaths;
+  reader: ViewReader;
   /** Trains the critics, one view pair per task. */
   pool: FramePool;
   signal?: AbortSignal;
@@ -75,7 +71,7 @@ export async function difficultyReport(
     const key = `${item.clipId}:${planeKind(view)}:${viewFrame(view, item.moment)}`;
     let embedded = cache.get(key);
     if (!embedded) {
-      const data = await readView(viewSourceFile(options.paths, item.clipId, item.moment, view), view);
+      const data = await readView(options.reader, item.clipId, item.moment, view);
       const plane = viewPlane(data);
       embedded = {
         fixed: embed(plane, data.width, data.height),
@@ -143,10 +139,10 @@ function sample(items: PlannedPair[], seed: number, limit: number): PlannedPair[
   return shuffleInPlace([...items], mulberry32(seed)).slice(0, limit);
 }
 
-/** Decodes a stored view file into the pixels view-plane.ts takes. */
-async function readView(file: string, view: ViewName): Promise<ViewData> {
+/** The pixels view-plane.ts takes for a view of a moment: luma and chroma as their stored codes decode. */
+async function readView(reader: ViewReader, clipId: number, moment: number, view: ViewName): Promise<ViewData> {
   if (view === 'motion') {
-    const { width, height, flow } = decodeFlo(await fs.promises.readFile(file));
+    const { width, height, flow } = await reader.field(clipId, moment);
     const u = new Float32Array(width * height);
     const v = new Float32Array(width * height);
     for (let p = 0; p < u.length; p += 1) {
@@ -155,21 +151,15 @@ async function readView(file: string, view: ViewName): Promise<ViewData> {
     }
     return { kind: 'motion', width, height, u, v };
   }
-  if (view === 'luma') {
-    const { data, info } = await sharp(file).toColourspace('b-w').raw().toBuffer({ resolveWithObject: true });
-    return { kind: 'luma', width: info.width, height: info.height, l: decodeLuma(new Uint8Array(data)) };
+  const frame = viewFrame(view, moment);
+  if (view === 'luma' || view === 'chroma') {
+    const { width, height, luma, chroma } = await reader.views(clipId, frame);
+    if (view === 'luma') return { kind: 'luma', width, height, l: decodeLuma(luma) };
+    const a = new Float32Array(width * height);
+    const b = new Float32Array(width * height);
+    decodeChroma(chroma, a, b);
+    return { kind: 'chroma', width, height, a, b };
   }
-  if (view === 'chroma') {
-    const { data, info } = await sharp(file)
-      .toColourspace('rgb16')
-      .raw({ depth: 'ushort' })
-      .toBuffer({ resolveWithObject: true });
-    const codes = new Uint16Array(data.buffer, data.byteOffset, data.length / 2);
-    const a = new Float32Array(info.width * info.height);
-    const b = new Float32Array(info.width * info.height);
-    decodeChroma(codes, a, b);
-    return { kind: 'chroma', width: info.width, height: info.height, a, b };
-  }
-  const image = await readRgbImage(file);
+  const image = await reader.frame(clipId, frame);
   return { kind: 'frame', width: image.width, height: image.height, rgb: image.rgb };
 }

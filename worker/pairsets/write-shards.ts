@@ -30,9 +30,8 @@ export interface WriteShardsOptions {
 
 interface TarEntry {
   name: string;
+  /** A file in the staging folder, removed once written, or bytes made in memory. */
   member: MemberFile | { data: Uint8Array };
-  /** A converted copy in the staging folder, removed once written. */
-  staged: boolean;
 }
 
 interface PreparedPair {
@@ -90,10 +89,10 @@ async function preparePair(item: PlannedPair, frame: SourceFrame, options: Write
   for (const side of ['a', 'b'] as const) {
     const staging = path.join(options.stagingDir, `${key}.${names[side]}`);
     const file = await viewMember(item.pair[side], item.clipId, item.moment, member, staging);
-    entries.push({ name: `${folder}/${names[side]}`, member: file, staged: file.file === staging });
+    entries.push({ name: `${folder}/${names[side]}`, member: file });
   }
   const record = Buffer.from(stableJson(pairRecord(item, clip, frame, member.motionFormat)));
-  entries.push({ name: `${folder}/pair.json`, member: { data: record }, staged: false });
+  entries.push({ name: `${folder}/pair.json`, member: { data: record } });
   const tarBytes = entries.reduce((sum, entry) => sum + tarSize(entrySize(entry)), 0);
   return { key, entries, tarBytes };
 }
@@ -121,9 +120,7 @@ async function writeShard(
     }
     const digest = await sink.close();
     await Promise.all(
-      entries
-        .filter((entry) => entry.staged)
-        .map((entry) => fs.promises.rm((entry.member as MemberFile).file, { force: true })),
+      entries.flatMap((entry) => ('file' in entry.member ? [fs.promises.rm(entry.member.file, { force: true })] : [])),
     );
     return { index, file, split, pairCount: batch.length, bytes: digest.bytes, sha256: digest.sha256 };
   } catch (error) {

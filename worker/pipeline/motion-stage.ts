@@ -1,24 +1,19 @@
 import fs from 'node:fs';
 import { Frame, MotionField } from '../../server/core/models';
-import { clipMotionScale } from '../../shared/motion/motion-scale';
 import type { PairMotion } from '../pool/motion-tasks';
 import type { FieldSummary } from '../motion/fields/field-summary';
 import { forEachFrame } from './each-frame';
 import { motionSettings } from './motion-settings';
 import { neighbourRuns, splitRuns } from './motion-runs';
-import type { PipelineStage, StageContext } from './stage';
-
-/** Share of the stage's progress the fields take; the colour pictures take the rest. */
-const FIELDS_SHARE = 0.85;
+import type { PipelineStage } from './stage';
 
 /**
  * motion: for each neighbour pair t → t+1 that no cut separates, a forward and a backward field with the project's
  * estimator and parameters (worker/motion/), recorded on every row. Each field's consistency is checked against
  * the other one (consistency.ts: |w_f(x) + w_b(x + w_f(x))|² < 0.01(|w_f|² + |w_b|²) + 0.5, after Sundaram, Brox
- * & Keutzer, ECCV 2010) and it is summarised (field-summary.ts). Files: motion/<t>.flo (forward, Middlebury),
- * motion/<t>.back.flo and motion/<t>.png, the forward field in the flow colour wheel (Baker et al., IJCV 2011).
- * Pictures share one scale per clip (clipMotionScale) so they compare within the clip: the first pass computes and
- * stores the fields, the second colours them. Both passes run in the thread pool.
+ * & Keutzer, ECCV 2010) and it is summarised (field-summary.ts). Files: motion/<t>.field, the forward field
+ * packed with its consistency plane (server/core/media/packed-field.ts). The backward field serves only the check
+ * and is not kept; colour pictures are drawn from the stored field when asked. The work runs in the thread pool.
  */
 export const motionStage: PipelineStage = {
   name: 'motion',
@@ -35,7 +30,7 @@ export const motionStage: PipelineStage = {
     const work = await context.workDir();
     await fs.promises.mkdir(work.layout.motionDir, { recursive: true });
 
-    const estimated = await forEachFrame(runs.length, share(context, 0, FIELDS_SHARE), (r, signal) => {
+    const estimated = await forEachFrame(runs.length, context, (r, signal) => {
       const { first, pairs } = runs[r]!;
       const from = Array.from({ length: pairs }, (_, k) => first + k);
       return pool.estimateMotionRun(
@@ -43,31 +38,12 @@ export const motionStage: PipelineStage = {
           frameFiles: [...from, first + pairs].map(layout.frame),
           estimator,
           params,
-          forwardFiles: from.map(work.layout.motionFlo),
-          backwardFiles: from.map(work.layout.motionBackwardFlo),
+          forwardFiles: from.map(work.layout.motionField),
         },
         signal,
       );
     });
     const fields = runs.flatMap((run, r) => estimated[r]!.map((pair, k) => ({ fromIndex: run.first + k, ...pair })));
-    const cuts = new Set(frames.filter((frame) => frame.cutBefore).map((frame) => frame.index));
-    const maxMotion =
-      clipMotionScale(
-        fields.map((f) => ({ fromIndex: f.fromIndex, ...f.forward })),
-        cuts,
-      )?.pxPerStep ?? 0;
-    await forEachFrame(fields.length, share(context, FIELDS_SHARE, 1 - FIELDS_SHARE), (i, signal) => {
-      const { fromIndex } = fields[i]!;
-      return pool.writeMotionPicture(
-        {
-          floFile: work.layout.motionFlo(fromIndex),
-          pictureFile: work.layout.motionPicture(fromIndex),
-          maxMotion,
-        },
-        signal,
-      );
-    });
-
     await work.moveIntoPlace(layout, ['motionDir']);
     const recorded = { clipId: clip.id, estimator, params: params as unknown as MotionField['params'] };
     await context.commit(async (transaction) => {
@@ -93,9 +69,4 @@ function rows(
     ...summary,
   });
   return [row(fromIndex, fromIndex + 1, 'forward', forward), row(fromIndex + 1, fromIndex, 'backward', backward)];
-}
-
-/** A pass's progress as a part of the stage's. */
-function share(context: StageContext, from: number, size: number): Pick<StageContext, 'signal' | 'progress'> {
-  return { signal: context.signal, progress: (done) => context.progress(from + done * size) };
 }

@@ -9,8 +9,9 @@ import {
   type RunOptions,
   type SampledFrames,
 } from '../../server/core/media/ffmpeg';
-import { writeThumbnail } from '../media/frame-images';
-import { workingFrameSize } from './frame-size';
+import { writeThumbnail } from '../../server/core/media/frame-images';
+import { removeStoredViews } from '../../server/core/storage/original-format';
+import { workingFrameSize } from '../../server/core/media/frame-size';
 import type { PipelineStage, StageContext } from './stage';
 
 /** ffmpeg gets this long plus some seconds per second of footage before it is taken for hung. */
@@ -23,10 +24,11 @@ const FRAMES_SHARE = 0.5;
 const DECODE_SHORTFALL_S = 1;
 
 /**
- * sample: frames at the project's rate and working size (RGB PNG), a browser-playable preview, a thumbnail.
+ * sample: frames at the project's rate and working size (lossless WebP), a browser-playable preview, a thumbnail.
  * Frames come first: a file that cannot be decoded fails here before time goes into a preview. The grey copy for
- * estimation is the frame PNG itself: lossless, so the grey computed from it (shared/colour/grey.ts) is the same
- * every time it is read.
+ * estimation, and the luma and chroma views, are derived from the frame itself: lossless, so what is computed from
+ * it is the same every time it is read. The new frames put the clip in the packed format (storage/paths.ts); views
+ * an earlier processing stored are removed, as nothing reads them any more.
  */
 export const sampleStage: PipelineStage = {
   name: 'sample',
@@ -59,6 +61,7 @@ export const sampleStage: PipelineStage = {
     await writeThumbnail(work.layout.frame(Math.floor(timesS.length / 2)), work.layout.thumbnail);
 
     await work.moveIntoPlace(paths.clipDerived(clip.id), ['framesDir', 'preview', 'thumbsDir']);
+    await removeStoredViews(paths.clipDir(clip.id));
     await context.commit(async (transaction) => {
       await Frame.destroy({ where: { clipId: clip.id }, transaction });
       await Frame.bulkCreate(
@@ -71,6 +74,7 @@ export const sampleStage: PipelineStage = {
       await Clip.update(
         {
           frameCount: timesS.length,
+          derivedFormat: 'packed',
           hasPreview: true,
           hasThumbnail: true,
           cutCount: null,

@@ -17,7 +17,7 @@ export interface WorkDir {
   remove(): Promise<void>;
 }
 
-export type OutputName = 'preview' | 'framesDir' | 'thumbsDir' | 'viewsDir' | 'motionDir';
+export type OutputName = 'preview' | 'framesDir' | 'thumbsDir' | 'motionDir';
 
 export async function openWorkDir(clipDir: string, stage: string): Promise<WorkDir> {
   const dir = path.join(clipDir, `${WORK_DIR_PREFIX}${stage}-${randomUUID().slice(0, 8)}`);

@@ -1,10 +1,10 @@
 import os from 'node:os';
 import { Piscina } from 'piscina';
 import type { CriticOutcome, CriticTask } from './critic-tasks';
-import type { FrameMeasurement, FrameViewsTask, MeasureFrameTask } from './frame-tasks';
+import type { FrameMeasurement, MeasureFrameTask } from './frame-tasks';
 import type { PairEvidence } from '../signals/cut-evidence';
 import type { CutPairsTask } from './cut-tasks';
-import type { MotionPictureTask, MotionRunTask, PairMotion } from './motion-tasks';
+import type { MotionRunTask, PairMotion } from './motion-tasks';
 
 /**
  * The worker-thread pool for CPU-heavy per-frame work, one thread per core, so a clip's frames are measured on
@@ -14,10 +14,8 @@ import type { MotionPictureTask, MotionRunTask, PairMotion } from './motion-task
  */
 export interface FramePool {
   measureFrame(task: Omit<MeasureFrameTask, 'kind'>, signal?: AbortSignal): Promise<FrameMeasurement>;
-  writeFrameViews(task: Omit<FrameViewsTask, 'kind'>, signal?: AbortSignal): Promise<void>;
   /** Fields of a run of neighbouring frames; the thread keeps its motion buffers from one run to the next. */
   estimateMotionRun(task: Omit<MotionRunTask, 'kind'>, signal?: AbortSignal): Promise<PairMotion[]>;
-  writeMotionPicture(task: Omit<MotionPictureTask, 'kind'>, signal?: AbortSignal): Promise<void>;
   /** The cut detector's motion and edge evidence of consecutive thumbs, pair by pair. */
   measureCutPairs(task: Omit<CutPairsTask, 'kind'>, signal?: AbortSignal): Promise<PairEvidence[]>;
   /** Trains one view pair's critic for the pair-difficulty report and measures its bounds. */
@@ -45,9 +43,7 @@ export function createFramePool(threads = os.availableParallelism()): FramePool 
   pool.on('error', (error: Error) => console.warn(`Kinefold worker: frame pool: ${error.message.split('\n')[0]}`));
   return {
     measureFrame: (task, signal) => pool.run({ kind: 'measure', ...task }, { signal }),
-    writeFrameViews: (task, signal) => pool.run({ kind: 'views', ...task }, { signal }),
     estimateMotionRun: (task, signal) => pool.run({ kind: 'motion-run', ...task }, { signal }),
-    writeMotionPicture: (task, signal) => pool.run({ kind: 'motion-picture', ...task }, { signal }),
     measureCutPairs: (task, signal) => pool.run({ kind: 'cut-pairs', ...task }, { signal }),
     trainCritic: (task, signal) => pool.run({ kind: 'critic', ...task }, { signal }),
     threads: maxThreads,

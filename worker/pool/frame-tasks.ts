@@ -1,11 +1,9 @@
 /**
- * The per-frame work of the pipeline, run in the worker-thread pool: read a sampled frame, measure it, or write its
- * luma and chroma views. The computations are the pure functions of shared/ and worker/signals/.
+ * The per-frame work of the pipeline, run in the worker-thread pool: read a sampled frame and measure it. The
+ * computations are the pure functions of shared/ and worker/signals/.
  */
 import { rgbToGrey } from '../../shared/colour/grey';
-import { rgbImageToLab } from '../../shared/colour/srgb-lab';
-import { encodeChroma, encodeLuma } from '../../shared/colour/view-encoding';
-import { readRgbImage, writeGreyPng, writeRgb16Png } from '../media/frame-images';
+import { readRgbImage } from '../../server/core/media/frame-images';
 import { cutThumb, type CutThumb } from '../signals/cut-evidence';
 import { greyHistogram } from '../signals/cuts';
 import { frameSignals, type FrameSignals } from '../signals/frame-signals';
@@ -28,14 +26,7 @@ export interface FrameMeasurement {
   cutThumb: CutThumb;
 }
 
-export interface FrameViewsTask {
-  kind: 'views';
-  frameFile: string;
-  lumaFile: string;
-  chromaFile: string;
-}
-
-export type FrameTask = MeasureFrameTask | FrameViewsTask;
+export type FrameTask = MeasureFrameTask;
 
 export async function measureFrame({ frameFile, cutBins }: MeasureFrameTask): Promise<FrameMeasurement> {
   const { rgb, width, height } = await readRgbImage(frameFile);
@@ -46,16 +37,4 @@ export async function measureFrame({ frameFile, cutBins }: MeasureFrameTask): Pr
     dhash: hashToHex(dHash(grey, width, height)),
     cutThumb: cutThumb(grey, width, height),
   };
-}
-
-/** Luma (L*) and chroma (a*, b*) of the frame, stored as DESIGN §7 says (see view-encoding.ts). */
-export async function writeFrameViews({ frameFile, lumaFile, chromaFile }: FrameViewsTask): Promise<void> {
-  const { rgb, width, height } = await readRgbImage(frameFile);
-  const pixels = width * height;
-  const lab = { l: new Float32Array(pixels), a: new Float32Array(pixels), b: new Float32Array(pixels) };
-  rgbImageToLab(rgb, lab);
-  await Promise.all([
-    writeGreyPng(encodeLuma(lab.l), width, height, lumaFile),
-    writeRgb16Png(encodeChroma(lab.a, lab.b), width, height, chromaFile),
-  ]);
 }

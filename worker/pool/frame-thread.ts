@@ -6,9 +6,9 @@
 import sharp from 'sharp';
 import type { PairEvidence } from '../signals/cut-evidence';
 import { runCriticTask, type CriticOutcome, type CriticTask } from './critic-tasks';
-import { measureFrame, writeFrameViews, type FrameMeasurement, type FrameTask } from './frame-tasks';
+import { measureFrame, type FrameMeasurement, type FrameTask } from './frame-tasks';
 import { measureCutPairs, type CutPairsTask } from './cut-tasks';
-import { estimateMotionRun, writeMotionPicture, type MotionTask, type PairMotion } from './motion-tasks';
+import { estimateMotionRun, type MotionTask, type PairMotion } from './motion-tasks';
 
 sharp.concurrency(1);
 
@@ -18,12 +18,8 @@ export default function runFrameTask(
   switch (task.kind) {
     case 'measure':
       return measureFrame(task);
-    case 'views':
-      return writeFrameViews(task);
     case 'motion-run':
       return estimateMotionRun(task);
-    case 'motion-picture':
-      return writeMotionPicture(task);
     case 'cut-pairs':
       return Promise.resolve(measureCutPairs(task));
     case 'critic':

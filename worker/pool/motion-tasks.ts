@@ -1,17 +1,17 @@
 /**
  * The Motion stage's work in the worker-thread pool: the forward and backward fields of a run of neighbouring
- * frames with their consistency and summaries, and the colour picture of a stored field. Each thread keeps one
+ * frames with their consistency and summaries; the forward field is stored packed with its consistency plane
+ * (server/core/media/packed-field.ts), the backward one serves only the check and is not kept. Each thread keeps one
  * MotionWorkspace for its whole life, so pair after pair reuses the estimators' large buffers instead of
  * allocating them anew (which costs much on these machines). The computations are the pure functions of
  * worker/motion/ and shared/motion/.
  */
 import fs from 'node:fs';
 import { rgbToGrey } from '../../shared/colour/grey';
-import { motionToColour } from '../../shared/motion/colour-wheel';
-import { readRgbImage, writeRgbPng } from '../media/frame-images';
+import { encodePackedField } from '../../server/core/media/packed-field';
+import { readRgbImage } from '../../server/core/media/frame-images';
 import { CONSISTENCY_DEFAULTS, forwardBackwardConsistency } from '../motion/fields/consistency';
 import { summariseField, type FieldSummary } from '../motion/fields/field-summary';
-import { decodeFlo, encodeFlo } from '../motion/formats/flo';
 import type { EstimatorName } from '../../shared/estimators';
 import type { EstimatorParams } from '../motion/index';
 import { NeighbourFieldRun, type NeighbourFields } from '../motion/fields/neighbour-fields';
@@ -24,10 +24,8 @@ export interface MotionRunTask {
   estimator: EstimatorName;
   /** The estimator's complete parameters (resolveParams), recorded with every field. */
   params: EstimatorParams[EstimatorName];
-  /** Where the forward field of pair k goes (.flo), one per pair. */
+  /** Where the forward field of pair k goes (packed field), one per pair. */
   forwardFiles: string[];
-  /** Where the backward field of pair k goes (.flo). */
-  backwardFiles: string[];
 }
 
 /** Summaries of pair k's two fields; each one's consistency is checked against the other field. */
@@ -36,25 +34,17 @@ export interface PairMotion {
   backward: FieldSummary;
 }
 
-/** Colours a stored field with the colour wheel, `maxMotion` px mapping to full colour. */
-export interface MotionPictureTask {
-  kind: 'motion-picture';
-  floFile: string;
-  pictureFile: string;
-  maxMotion: number;
-}
-
-export type MotionTask = MotionRunTask | MotionPictureTask;
+export type MotionTask = MotionRunTask;
 
 /** This thread's buffers, kept between tasks (see the module comment). */
 const workspace = new MotionWorkspace();
 let maskBuffer = new Uint8Array(0);
 
 export async function estimateMotionRun(task: MotionRunTask): Promise<PairMotion[]> {
-  const { frameFiles, forwardFiles, backwardFiles } = task;
+  const { frameFiles, forwardFiles } = task;
   const pairs = frameFiles.length - 1;
-  if (pairs < 1 || forwardFiles.length !== pairs || backwardFiles.length !== pairs) {
-    throw new Error(`motion run: ${frameFiles.length} frames need ${Math.max(0, pairs)} forward and backward files`);
+  if (pairs < 1 || forwardFiles.length !== pairs) {
+    throw new Error(`motion run: ${frameFiles.length} frames need ${Math.max(0, pairs)} field files`);
   }
   let run: NeighbourFieldRun | null = null;
   let size = { width: 0, height: 0 };
@@ -68,7 +58,7 @@ export async function estimateMotionRun(task: MotionRunTask): Promise<PairMotion
       throw new Error(`motion run: ${file} is ${width}x${height}, the run's frames are ${size.width}x${size.height}`);
     }
     const fields = run.add(rgbToGrey(rgb, workspace.float32('task.grey', width * height)));
-    if (fields) results.push(await storePair(fields, width, height, forwardFiles[k - 1]!, backwardFiles[k - 1]!));
+    if (fields) results.push(await storePair(fields, width, height, forwardFiles[k - 1]!));
   }
   return results;
 }
@@ -78,7 +68,6 @@ async function storePair(
   width: number,
   height: number,
   forwardFile: string,
-  backwardFile: string,
 ): Promise<PairMotion> {
   const pixels = width * height;
   if (maskBuffer.length !== pixels) maskBuffer = new Uint8Array(pixels);
@@ -88,18 +77,10 @@ async function storePair(
     return summariseField(field, maskBuffer, scratch);
   };
   const forward = summary(fields.forward, fields.backward);
+  // Packed before the first await and before the backward check reuses the mask: the next frame of the run
+  // overwrites the field buffers.
+  const packed = encodePackedField({ width, height, flow: fields.forward, consistent: maskBuffer });
   const backward = summary(fields.backward, fields.forward);
-  // Encoded before the first await: the next frame of the run overwrites the field buffers.
-  const forwardBytes = encodeFlo(fields.forward, width, height);
-  const backwardBytes = encodeFlo(fields.backward, width, height);
-  await Promise.all([
-    fs.promises.writeFile(forwardFile, forwardBytes),
-    fs.promises.writeFile(backwardFile, backwardBytes),
-  ]);
+  await fs.promises.writeFile(forwardFile, packed);
   return { forward, backward };
-}
-
-export async function writeMotionPicture({ floFile, pictureFile, maxMotion }: MotionPictureTask): Promise<void> {
-  const { flow, width, height } = decodeFlo(await fs.promises.readFile(floFile));
-  await writeRgbPng(motionToColour(flow, maxMotion).rgb, width, height, pictureFile);
 }

@@ -8,7 +8,9 @@ import type { StoragePaths } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
 import { probeUpload } from '../media/clip-probe';
 import { checkQuotaThresholds } from '../usage/quota-warnings';
-import { releaseUpload } from '../usage/quotas';
+import { holdClipBytes, releaseUpload } from '../usage/quotas';
+import { predictDerivedBytes } from '../usage/derived-bytes';
+import { readProjectSettings } from '../projects/project-settings';
 import { discardUpload, type ReceivedUpload } from './received-upload';
 import { enqueueJob } from '../jobs/enqueue';
 
@@ -72,6 +74,14 @@ interface ClipFacts {
   ext: string;
 }
 
+/** The project's sampling rate and working size applied to the probe (usage/derived-bytes.ts). */
+async function predictedDerivedBytes(projectId: number, probe: ClipFacts['probe']): Promise<number> {
+  const project = await Project.findByPk(projectId);
+  const read = project && readProjectSettings(project);
+  if (!read || 'problem' in read) return 0;
+  return predictDerivedBytes(probe, read.settings);
+}
+
 async function commitClip(
   upload: ReceivedUpload,
   facts: ClipFacts,
@@ -80,14 +90,26 @@ async function commitClip(
 ): Promise<Clip> {
   const { fields } = upload;
   let clipId: number | null = null;
+  const predicted = await predictedDerivedBytes(fields.projectId, facts.probe);
   const clip = await Clip.sequelize!.transaction(async (transaction) => {
+    await holdClipBytes(
+      {
+        projectId: fields.projectId,
+        userId: facts.uploaderId,
+        reservationId: upload.reservationId,
+        sourceBytes: upload.size,
+        predictedBytes: predicted,
+      },
+      transaction,
+    );
     const created = await Clip.create(
       {
         projectId: fields.projectId,
         uploaderId: facts.uploaderId,
         originalName: facts.originalName,
         sizeBytes: upload.size,
-        storedBytes: upload.size,
+        storedBytes: upload.size + predicted,
+        predictedDerivedBytes: predicted,
         sha256: upload.sha256,
         sourceExt: facts.ext,
         state: 'queued',

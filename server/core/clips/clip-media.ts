@@ -2,7 +2,8 @@ import fs from 'node:fs';
 import { Op } from 'sequelize';
 import { HttpStatus } from '../../../shared/http-status';
 import { clipMotionScale } from '../../../shared/motion/motion-scale';
-import type { ClipStage, StoredView } from '../../../shared/pipeline-stages';
+import type { ClipStage, FrameView } from '../../../shared/pipeline-stages';
+import { viewPng } from '../media/frame-views';
 import type { ClipFrameList, ClipProgress } from '../../../shared/types/frames';
 import { AppError, conflict, notFound } from '../errors';
 import { Clip, Frame, Job, MotionField } from '../models';
@@ -13,7 +14,8 @@ import { enqueueJob } from '../jobs/enqueue';
 /**
  * What processing made of a clip (frames, signals, views, preview, thumbnail, progress) and starting it again.
  * Motion field files: clip-motion.ts.
- * Files are answered as paths for the route to stream; a path is always built from ids (storage/paths.ts).
+ * Stored files are answered as paths for the route to stream; a path is always built from ids (storage/paths.ts).
+ * Views are derived from the frame for each request (media/frame-views.ts) and answered as bytes.
  */
 
 /** Frames with the summary of the forward motion field from each, and the scale of the clip's motion pictures. */
@@ -32,16 +34,13 @@ export async function listFrames(clipId: number): Promise<ClipFrameList> {
 }
 
 export async function framePath(clipId: number, index: number, paths: StoragePaths): Promise<string> {
-  await existingFrame(clipId, index);
-  return existingFile(paths.clipDerived(clipId).frame(index), `Frame ${index} of clip ${clipId}`);
+  const clip = await existingFrame(clipId, index);
+  return existingFile(paths.clipDerived(clipId, clip.derivedFormat).frame(index), `Frame ${index} of clip ${clipId}`);
 }
 
-export async function viewPath(clipId: number, index: number, view: StoredView, paths: StoragePaths) {
-  await existingFrame(clipId, index);
-  return existingFile(
-    paths.clipDerived(clipId).view(view, index),
-    `The ${view} view of frame ${index} of clip ${clipId} (views are made after the signals stage)`,
-  );
+/** The luma or chroma view of a frame as PNG, derived from the stored frame. */
+export async function viewImage(clipId: number, index: number, view: FrameView, paths: StoragePaths): Promise<Buffer> {
+  return viewPng(await framePath(clipId, index, paths), view);
 }
 
 export async function thumbnailPath(clipId: number, paths: StoragePaths): Promise<string> {
@@ -106,11 +105,12 @@ export async function existingClip(clipId: number): Promise<Clip> {
   return clip;
 }
 
-async function existingFrame(clipId: number, index: number): Promise<void> {
-  await existingClip(clipId);
+async function existingFrame(clipId: number, index: number): Promise<Clip> {
+  const clip = await existingClip(clipId);
   if (!(await Frame.findOne({ where: { clipId, index }, attributes: ['id'] }))) {
     throw notFound(`Frame ${index} of clip ${clipId}`);
   }
+  return clip;
 }
 
 /** The file, or a 404 saying what is missing (not made yet, or removed). */

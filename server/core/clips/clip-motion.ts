@@ -1,6 +1,9 @@
 import { Op } from 'sequelize';
 import { HttpStatus } from '../../../shared/http-status';
+import { encodeFlo } from '../../../shared/motion/formats/flo';
+import { clipMotionScale } from '../../../shared/motion/motion-scale';
 import { AppError, notFound } from '../errors';
+import { motionPicturePng, readStoredField } from '../media/stored-field';
 import { Frame, MotionField } from '../models';
 import type { StoragePaths } from '../storage/paths';
 import { existingClip, existingFile } from './clip-media';
@@ -9,11 +12,25 @@ import { existingClip, existingFile } from './clip-media';
 export type MotionFile = 'picture' | 'flo';
 
 /**
- * The file of the forward field from frame `index` to `index` + 1. Where no field can exist, the 404 says why:
- * the frame is the clip's last, or a cut follows it (no field spans a cut); or the fields are not made yet.
+ * The forward field from frame `index` to `index` + 1 as a Middlebury .flo or as its colour picture, both made
+ * from the stored field when asked. The picture uses the clip's motion scale (the one the frame list reports), so
+ * pictures compare within the clip. Where no field can exist, the 404 says why: the frame is the clip's last, or a
+ * cut follows it (no field spans a cut); or the fields are not made yet.
  */
-export async function motionFieldPath(clipId: number, index: number, file: MotionFile, paths: StoragePaths) {
-  await existingClip(clipId);
+export async function motionFieldFile(clipId: number, index: number, file: MotionFile, paths: StoragePaths) {
+  const field = await readStoredField(await storedFieldPath(clipId, index, paths));
+  if (file === 'flo') return Buffer.from(encodeFlo(field.flow, field.width, field.height));
+  return motionPicturePng(field, await clipMotionScalePx(clipId));
+}
+
+async function clipMotionScalePx(clipId: number): Promise<number> {
+  const cuts = await Frame.findAll({ where: { clipId, cutBefore: true }, attributes: ['index'] });
+  const fields = await MotionField.forwardOfClip(clipId);
+  return clipMotionScale(fields, new Set(cuts.map((frame) => frame.index)))?.pxPerStep ?? 0;
+}
+
+async function storedFieldPath(clipId: number, index: number, paths: StoragePaths): Promise<string> {
+  const clip = await existingClip(clipId);
   const frames = await Frame.findAll({
     where: { clipId, index: { [Op.in]: [index, index + 1] } },
     attributes: ['index', 'cutBefore'],
@@ -32,8 +49,7 @@ export async function motionFieldPath(clipId: number, index: number, file: Motio
   if (!(await MotionField.findOne({ where: { clipId, fromIndex: index, direction: 'forward' }, attributes: ['id'] }))) {
     throw notFound(what);
   }
-  const layout = paths.clipDerived(clipId);
-  return existingFile(file === 'flo' ? layout.motionFlo(index) : layout.motionPicture(index), what);
+  return existingFile(paths.clipDerived(clipId, clip.derivedFormat).motionField(index), what);
 }
 
 function noField(message: string): AppError {

@@ -148,7 +148,14 @@ export async function encodePreview(source: string, output: string, size: FrameS
 }
 
 /**
- * Frames at `fps` per second of the input's timeline as RGB PNG files named by `pattern` (`%06d` numbered from 0).
+ * Lossless WebP at libwebp's fastest method: measured on demo footage (bench:storage), a third smaller than PNG and
+ * quicker to write; higher methods save a further 6 % at three times the time.
+ */
+const LOSSLESS_WEBP = ['-c:v', 'libwebp', '-lossless', '1', '-compression_level', '0', '-pix_fmt', 'bgra'];
+
+/**
+ * Frames at `fps` per second of the input's timeline as lossless WebP files named by `pattern` (`%06d` numbered
+ * from 0).
  * The fps filter picks frames by their timestamps, so variable-frame-rate input is sampled evenly in time;
  * showinfo reports the time of each frame written, and passthrough keeps the muxer from adding or dropping any.
  * `keepLast` is for footage shorter than one step, which would otherwise give no frame.
@@ -167,7 +174,7 @@ export async function sampleFrames(
   const command = ffmpeg(source, { timeout: options.timeoutMs / 1000 })
     .inputOptions(['-nostdin'])
     .videoFilters([fpsFilter, `scale=${size.width}:${size.height}`, 'setsar=1', 'showinfo'])
-    .outputOptions([...COMMON_OUTPUT, '-vsync', 'passthrough', '-pix_fmt', 'rgb24', '-start_number', '0'])
+    .outputOptions([...COMMON_OUTPUT, '-vsync', 'passthrough', ...LOSSLESS_WEBP, '-start_number', '0'])
     .format('image2')
     .output(pattern);
   command.on('stderr', (line: string) => {

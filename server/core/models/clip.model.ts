@@ -8,6 +8,7 @@ import {
   type Sequelize,
 } from 'sequelize';
 import type { ClipState } from '../../../shared/clip-states';
+import type { DerivedFormat } from '../storage/paths';
 import type { ClipFlagDetail, ClipProbe, ClipSummary } from '../../../shared/types/clips';
 import type { Project } from './project.model';
 import type { User } from './user.model';
@@ -20,8 +21,15 @@ export class Clip extends Model<InferAttributes<Clip>, InferCreationAttributes<C
   declare uploaderId: number;
   declare originalName: string;
   declare sizeBytes: number;
-  /** Bytes on disk for this clip now: the source plus everything derived from it. */
+  /**
+   * Bytes this clip holds against the quotas: the source plus everything derived from it, measured on disk; until
+   * processing has measured them, the derived bytes predicted at admission.
+   */
   declare storedBytes: number;
+  /** Derived bytes predicted from the probe at admission (usage/derived-bytes.ts), kept to judge the prediction. */
+  declare predictedDerivedBytes: CreationOptional<number | null>;
+  /** How the derived files are stored (storage/paths.ts). */
+  declare derivedFormat: CreationOptional<DerivedFormat>;
   declare sha256: string;
   declare sourceExt: string;
   declare state: ClipState;
@@ -122,6 +130,8 @@ export class Clip extends Model<InferAttributes<Clip>, InferCreationAttributes<C
         originalName: { type: DataTypes.STRING(400), allowNull: false },
         sizeBytes: { type: DataTypes.BIGINT, allowNull: false },
         storedBytes: { type: DataTypes.BIGINT, allowNull: false },
+        predictedDerivedBytes: { type: DataTypes.BIGINT, allowNull: true },
+        derivedFormat: { type: DataTypes.STRING(8), allowNull: false, defaultValue: 'packed' },
         sha256: { type: DataTypes.STRING(64), allowNull: false },
         sourceExt: { type: DataTypes.STRING(8), allowNull: false },
         state: { type: DataTypes.STRING(24), allowNull: false },

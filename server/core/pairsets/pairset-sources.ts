@@ -2,6 +2,7 @@ import { literal, Op, type WhereOptions } from 'sequelize';
 import type { MomentFrame } from '../../../shared/pairing/pairing-graph';
 import type { PairsetDefinition } from '../../../shared/schemas/pairsets';
 import { Clip, Frame, MotionField, Project } from '../models';
+import type { DerivedFormat } from '../storage/paths';
 
 /** The field t→t+1 of a moment, with the estimator that made it. */
 export interface SourceMotion {
@@ -27,6 +28,8 @@ export interface SourceClip {
   projectName: string;
   site: string;
   durationS: number;
+  /** How the clip's frames and fields are stored (storage/paths.ts). */
+  derivedFormat: DerivedFormat;
   frames: SourceFrame[];
 }
 
@@ -42,7 +45,7 @@ const ID_CHUNK = 500;
 export async function loadPairsetSources(selection: SourceSelection): Promise<SourceClip[]> {
   const clips = await Clip.findAll({
     where: clipWhere(selection),
-    attributes: ['id', 'projectId', 'site', 'durationS'],
+    attributes: ['id', 'projectId', 'site', 'durationS', 'derivedFormat'],
     include: [{ model: Project, as: 'project', attributes: ['name'] }],
     order: [['id', 'ASC']],
   });
@@ -55,6 +58,7 @@ export async function loadPairsetSources(selection: SourceSelection): Promise<So
         projectName: clip.project?.name ?? '',
         site: clip.site,
         durationS: clip.durationS,
+        derivedFormat: clip.derivedFormat,
         frames: [],
       },
     ]),

@@ -21,6 +21,12 @@ export const PROJECT_DEFAULTS = {
 
 const USAGE_ATTRIBUTES: [ReturnType<typeof literal>, string][] = [
   [literal('(SELECT COALESCE(SUM(storedBytes), 0) FROM clips WHERE clips.projectId = Project.id)'), 'usedBytes'],
+  [
+    literal(
+      '(SELECT COALESCE(SUM(sizeBytes), 0) FROM clips WHERE clips.projectId = Project.id AND clips.purgedAt IS NULL)',
+    ),
+    'sourceBytes',
+  ],
   [literal('(SELECT COUNT(*) FROM clips WHERE clips.projectId = Project.id)'), 'clipCount'],
 ];
 
@@ -33,6 +39,7 @@ function toSummary(project: Project): ProjectSummary {
     quotaBytes: project.quotaBytes === null ? null : Number(project.quotaBytes),
     retentionDays: project.retentionDays ?? null,
     usedBytes: Number(project.getDataValue('usedBytes' as never) ?? 0),
+    sourceBytes: Number(project.getDataValue('sourceBytes' as never) ?? 0),
     clipCount: Number(project.getDataValue('clipCount' as never) ?? 0),
     settings: {
       sampleFps: project.sampleFps,

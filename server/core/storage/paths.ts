@@ -1,7 +1,6 @@
 import path from 'node:path';
 import { shardFileName } from '../../../shared/pairing/shard-name';
 import type { SplitName } from '../../../shared/pairing/split';
-import type { StoredView } from '../../../shared/pipeline-stages';
 
 /**
  * Every path under the storage root, built from ids only (DESIGN §6): a name a person typed never becomes a path.
@@ -25,8 +24,8 @@ export function storagePaths(root: string) {
     clipsDir: path.join(root, 'clips'),
     clipDir,
     clipSource: (clipId: number, ext: string) => path.join(clipDir(clipId), `source.${ext}`),
-    /** preview.mp4, frames/, thumbs/ and views/ of a clip. */
-    clipDerived: (clipId: number) => derivedLayout(clipDir(clipId)),
+    /** preview.mp4, frames/, thumbs/ and motion/ of a clip, with file names of the clip's derived format. */
+    clipDerived: (clipId: number, format: DerivedFormat = 'packed') => derivedLayout(clipDir(clipId), format),
     /** Where one attempt at a stage writes before renaming its outputs into place; `token` tells attempts apart. */
     clipWorkDir: (clipId: number, stage: string, token: string) =>
       path.join(clipDir(clipId), `${WORK_DIR_PREFIX}${stage}-${token}`),
@@ -41,7 +40,16 @@ export const PAIRSET_MANIFEST = 'pairset.json';
 export const pairsetWorkPrefix = (pairsetId: number) => `${WORK_DIR_PREFIX}${pairsetId}-`;
 const FRAME_NAME_DIGITS = 6;
 
-function frameName(index: number): string {
+/**
+ * How a clip's derived files are stored. `packed` (every clip processed since): frames as lossless WebP, forward
+ * motion fields as packed fields (media/packed-field.ts), no stored views, backward fields or motion pictures.
+ * `original`: frames as PNG, fields as Middlebury .flo both ways, views and pictures on disk; the compact-storage
+ * job converts such clips and readers take both meanwhile.
+ */
+export const DERIVED_FORMATS = ['original', 'packed'] as const;
+export type DerivedFormat = (typeof DERIVED_FORMATS)[number];
+
+export function frameName(index: number): string {
   return String(index).padStart(FRAME_NAME_DIGITS, '0');
 }
 
@@ -49,27 +57,24 @@ function frameName(index: number): string {
  * The derived files of a clip, laid out the same way under its folder and under a stage's work folder, so a
  * stage writes into the work folder and renames each output into the clip folder unchanged.
  */
-export function derivedLayout(base: string) {
+export function derivedLayout(base: string, format: DerivedFormat = 'packed') {
   const framesDir = path.join(base, 'frames');
   const thumbsDir = path.join(base, 'thumbs');
-  const viewsDir = path.join(base, 'views');
   const motionDir = path.join(base, 'motion');
+  const frameExt = format === 'packed' ? 'webp' : 'png';
+  const fieldExt = format === 'packed' ? 'field' : 'flo';
   return {
+    format,
     preview: path.join(base, 'preview.mp4'),
     framesDir,
-    frame: (index: number) => path.join(framesDir, `${frameName(index)}.png`),
+    frame: (index: number) => path.join(framesDir, `${frameName(index)}.${frameExt}`),
     /** The same frame files as an ffmpeg image2 pattern, numbered from 0. */
-    framePattern: path.join(framesDir, `%0${FRAME_NAME_DIGITS}d.png`),
+    framePattern: path.join(framesDir, `%0${FRAME_NAME_DIGITS}d.${frameExt}`),
     thumbsDir,
     thumbnail: path.join(thumbsDir, 'thumbnail.jpg'),
-    viewsDir,
-    viewDir: (view: StoredView) => path.join(viewsDir, view),
-    view: (view: StoredView, index: number) => path.join(viewsDir, view, `${frameName(index)}.png`),
     motionDir,
-    /** The forward field from frame `index` to `index` + 1 (Middlebury .flo), its colour picture, its backward. */
-    motionFlo: (index: number) => path.join(motionDir, `${frameName(index)}.flo`),
-    motionPicture: (index: number) => path.join(motionDir, `${frameName(index)}.png`),
-    motionBackwardFlo: (index: number) => path.join(motionDir, `${frameName(index)}.back.flo`),
+    /** The forward field from frame `index` to `index` + 1: a packed field, or a Middlebury .flo. */
+    motionField: (index: number) => path.join(motionDir, `${frameName(index)}.${fieldExt}`),
   };
 }
 export type DerivedLayout = ReturnType<typeof derivedLayout>;

@@ -71,6 +71,45 @@ export async function reserveUpload(projectId: number, userId: number, bytes: nu
   });
 }
 
+/**
+ * At admission, once the probe is known: the clip's source plus the derived bytes predicted for it must fit both
+ * quotas beside everything stored and every other upload in flight (this upload's own reservation is replaced by
+ * the clip). Inside the transaction that creates the clip, so concurrent admissions see each other's holds.
+ */
+export async function holdClipBytes(
+  hold: { projectId: number; userId: number; reservationId: string; sourceBytes: number; predictedBytes: number },
+  transaction: Transaction,
+): Promise<void> {
+  const own = await UploadReservation.findByPk(hold.reservationId, { transaction });
+  const ownBytes = Number(own?.bytes ?? 0);
+  const needed = hold.sourceBytes + hold.predictedBytes;
+  const refuse = (what: string, quota: number, used: number) => {
+    const left = Math.max(0, quota - used);
+    return new AppError(
+      HttpStatus.PAYLOAD_TOO_LARGE,
+      'quota_exceeded',
+      `${what} quota of ${formatBytes(quota)} has ${formatBytes(left)} left; this clip needs ` +
+        `${formatBytes(needed)}: ${formatBytes(hold.sourceBytes)} of footage and a predicted ` +
+        `${formatBytes(hold.predictedBytes)} of frames, motion fields and preview made from it.`,
+      { quotaBytes: quota, usedBytes: used, neededBytes: needed, predictedDerivedBytes: hold.predictedBytes },
+    );
+  };
+  const project = await Project.findByPk(hold.projectId, { transaction, lock: transaction.LOCK.UPDATE });
+  if (project && project.quotaBytes !== null) {
+    const usage = await projectUsage(hold.projectId, transaction);
+    const used = usage.stored + usage.reserved - ownBytes;
+    if (used + needed > Number(project.quotaBytes)) {
+      throw refuse(`Project "${project.name}"'s`, Number(project.quotaBytes), used);
+    }
+  }
+  const user = await User.findByPk(hold.userId, { transaction, lock: transaction.LOCK.UPDATE });
+  if (user && user.quotaBytes !== null) {
+    const usage = await userUsage(hold.userId, transaction);
+    const used = usage.stored + usage.reserved - ownBytes;
+    if (used + needed > Number(user.quotaBytes)) throw refuse('Your', Number(user.quotaBytes), used);
+  }
+}
+
 export async function releaseUpload(reservationId: string, transaction?: Transaction): Promise<void> {
   await UploadReservation.destroy({ where: { id: reservationId }, transaction });
 }

@@ -16,15 +16,26 @@ export async function usageReport(paths: StoragePaths): Promise<UsageReport> {
     projectId: number;
     name: string;
     usedBytes: number;
+    sourceBytes: number;
     quotaBytes: number | null;
   }>(
     `SELECT p.id AS projectId, p.name AS name, p.quotaBytes AS quotaBytes,
-            COALESCE((SELECT SUM(storedBytes) FROM clips c WHERE c.projectId = p.id), 0) AS usedBytes
+            COALESCE((SELECT SUM(storedBytes) FROM clips c WHERE c.projectId = p.id), 0) AS usedBytes,
+            COALESCE((SELECT SUM(sizeBytes) FROM clips c WHERE c.projectId = p.id AND c.purgedAt IS NULL), 0)
+              AS sourceBytes
      FROM projects p ORDER BY usedBytes DESC, p.name`,
     { type: QueryTypes.SELECT },
   );
-  const byUser = await sequelize.query<{ userId: number; name: string; usedBytes: number; quotaBytes: number | null }>(
+  const byUser = await sequelize.query<{
+    userId: number;
+    name: string;
+    usedBytes: number;
+    sourceBytes: number;
+    quotaBytes: number | null;
+  }>(
     `SELECT u.id AS userId, u.name AS name, u.quotaBytes AS quotaBytes,
+            COALESCE((SELECT SUM(sizeBytes) FROM clips c WHERE c.uploaderId = u.id AND c.purgedAt IS NULL), 0)
+              AS sourceBytes,
             COALESCE((SELECT SUM(storedBytes) FROM clips c WHERE c.uploaderId = u.id), 0)
               + COALESCE((SELECT SUM(bytes) FROM pairsets s WHERE s.ownerId = u.id), 0) AS usedBytes
      FROM users u ORDER BY usedBytes DESC, u.name`,
@@ -34,9 +45,10 @@ export async function usageReport(paths: StoragePaths): Promise<UsageReport> {
   const latest = snapshots[0] ?? null;
   await fs.promises.mkdir(paths.root, { recursive: true });
   const disk = await fs.promises.statfs(paths.root);
-  const numeric = <T extends { usedBytes: number; quotaBytes: number | null }>(row: T): T => ({
+  const numeric = <T extends { usedBytes: number; sourceBytes: number; quotaBytes: number | null }>(row: T): T => ({
     ...row,
     usedBytes: Number(row.usedBytes),
+    sourceBytes: Number(row.sourceBytes),
     quotaBytes: row.quotaBytes === null ? null : Number(row.quotaBytes),
   });
   const projects = byProject.map(numeric);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { FLO_TAG_FLOAT, decodeFlo, encodeFlo, floByteLength } from '../../../worker/motion/formats/flo.js';
+import { FLO_TAG_FLOAT, decodeFlo, encodeFlo, floByteLength } from '../../../shared/motion/formats/flo';
 import { UNKNOWN_FLOW, isUnknownFlow } from '../../../shared/motion/unknown-flow.js';
 
 // Source for every check here: D. Scharstein, Middlebury optical flow `flow-code` (README.txt, flowIO.cpp,

@@ -5,7 +5,7 @@ import {
   decodeKittiFlow,
   encodeKittiComponent,
   encodeKittiFlow,
-} from '../../../worker/motion/formats/kitti-png.js';
+} from '../../../shared/motion/formats/kitti-png';
 import { UNKNOWN_FLOW, isUnknownFlow } from '../../../shared/motion/unknown-flow.js';
 
 // Source: KITTI 2015 devkit readme.txt (Geiger, Menze): u = (ch1 − 2^15)/64, v = (ch2 − 2^15)/64,

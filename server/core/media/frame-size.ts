@@ -1,4 +1,4 @@
-import type { FrameSize } from '../../server/core/media/ffmpeg';
+import type { FrameSize } from './ffmpeg';
 
 /**
  * The working size of a clip's frames: the longest side of the upright picture (rotation applied) becomes the

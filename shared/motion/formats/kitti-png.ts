@@ -2,7 +2,7 @@
 // Source: KITTI 2015 devkit readme.txt (Geiger, Menze): u = (ch1 − 2^15)/64, v = (ch2 − 2^15)/64,
 // valid = (bool)ch3. Channel order here is the PNG's (R = u, G = v, B = valid); OpenCV reads it as BGR.
 
-import { UNKNOWN_FLOW, isUnknownFlow } from '../../../shared/motion/unknown-flow.js';
+import { UNKNOWN_FLOW, isUnknownFlow } from '../unknown-flow';
 
 export const KITTI_OFFSET = 2 ** 15;
 export const KITTI_SCALE = 64;
