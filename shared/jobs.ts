@@ -13,6 +13,8 @@ export interface JobPayloads {
   'build-pairset': { pairsetId: number };
   /** Purges the files of a project's rejected clips older than its retention days; rows and verdicts stay. */
   'run-retention': { projectId: number };
+  /** k-means over the moment descriptors of a clustering's projects; writes its clusters and assignments. */
+  'cluster-moments': { clusteringId: number };
 }
 export type JobKind = keyof JobPayloads;
 /** Any kind's payload; a row's kind says which (the worker's claim pairs them). */
@@ -27,6 +29,7 @@ export const JOB_TARGETS: {
   'send-rejection-digest': () => ({ clipId: null, pairsetId: null }),
   'build-pairset': ({ pairsetId }) => ({ clipId: null, pairsetId }),
   'run-retention': () => ({ clipId: null, pairsetId: null }),
+  'cluster-moments': () => ({ clipId: null, pairsetId: null }),
 };
 
 export const JOB_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;

@@ -44,3 +44,22 @@ export function sklearnSilhouette(points: Float64Array, dims: number, labels: In
   return runSklearn<{ silhouette: number }>({ kind: 'silhouette', points: [...points], dims, labels: [...labels] })
     .silhouette;
 }
+
+const HISTOGRAM_SCRIPT = String.raw`
+import json, sys
+import numpy as np
+task = json.load(sys.stdin)
+g = np.array(task["grey"], dtype=np.float64).reshape(task["height"], task["width"])
+gx = g[1:-1, 2:] - g[1:-1, :-2]
+gy = g[2:, 1:-1] - g[:-2, 1:-1]
+magnitude = np.hypot(gx, gy)
+angle = np.mod(np.arctan2(gy, gx), np.pi)
+counts, _ = np.histogram(angle[magnitude > 0], bins=task["bins"], range=(0, np.pi), weights=magnitude[magnitude > 0])
+print(json.dumps((counts / counts.sum()).tolist()))
+`;
+
+/** numpy's magnitude-weighted histogram of unsigned gradient orientation (central differences, interior pixels). */
+export function numpyOrientationHistogram(grey: Float32Array, width: number, height: number, bins: number): number[] {
+  const input = JSON.stringify({ grey: [...grey], width, height, bins });
+  return JSON.parse(execFileSync(PYTHON, ['-c', HISTOGRAM_SCRIPT], { input }).toString()) as number[];
+}

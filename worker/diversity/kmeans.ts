@@ -9,7 +9,7 @@
  * stopped on the shift, the labels are taken once more against the final centres. Ties go to the lower centre.
  * So the same initial centres give scikit-learn's labels and inertia (tests/unit/diversity/kmeans.test.ts).
  */
-import { mulberry32, type RandomSource } from '../../shared/pairing/seeded-random';
+import { fmix32, mulberry32, type RandomSource } from '../../shared/pairing/seeded-random';
 
 export interface KMeansOptions {
   k: number;
@@ -33,19 +33,38 @@ export interface KMeansResult {
 
 const DEFAULT_MAX_ITERATIONS = 300;
 const DEFAULT_TOL = 1e-4;
+/** ⌊2^32 / φ⌋, Knuth's multiplicative hashing constant [M]: spreads consecutive restart numbers apart. */
+const GOLDEN_RATIO_32 = 0x9e3779b9;
 
-/** The best of `restarts` seeded runs. */
+/**
+ * The best of `restarts` seeded runs (the earlier on equal inertia). Each restart has its own seed (restartSeed),
+ * so restarts may run on different threads and still give this result.
+ */
 export function kMeans(points: Float64Array, dims: number, options: KMeansOptions): KMeansResult {
-  const n = pointCount(points, dims);
-  if (options.k < 1 || options.k > n) throw new Error(`k-means: k must be within 1..${n}, got ${options.k}`);
-  const random = mulberry32(options.seed);
   let best: KMeansResult | null = null;
   for (let run = 0; run < Math.max(1, options.restarts); run += 1) {
-    const initial = kMeansPlusPlus(points, dims, options.k, random);
-    const result = lloyd(points, dims, initial, options);
+    const result = kMeansRestart(points, dims, options.k, restartSeed(options.seed, run), options);
     if (best === null || result.inertia < best.inertia) best = result;
   }
   return best!;
+}
+
+/** One restart: k-means++ seeding from `seed`, then Lloyd's iterations. */
+export function kMeansRestart(
+  points: Float64Array,
+  dims: number,
+  k: number,
+  seed: number,
+  options: Pick<KMeansOptions, 'maxIterations' | 'tol'> = {},
+): KMeansResult {
+  const n = pointCount(points, dims);
+  if (k < 1 || k > n) throw new Error(`k-means: k must be within 1..${n}, got ${k}`);
+  return lloyd(points, dims, kMeansPlusPlus(points, dims, k, mulberry32(seed)), options);
+}
+
+/** The seed of restart `run` of a clustering seeded with `seed`. */
+export function restartSeed(seed: number, run: number): number {
+  return fmix32((seed >>> 0) ^ Math.imul(run + 1, GOLDEN_RATIO_32));
 }
 
 /** Greedy k-means++: the first centre uniformly, each next one the best of a few candidates drawn ∝ D². */

@@ -1,4 +1,5 @@
 import { buildPairset } from './build-pairset';
+import { clusterMomentsJob } from './cluster-moments';
 import type { Handlers } from './handler';
 import { processClip } from './process-clip';
 import { reconcileUsage } from './reconcile-usage';
@@ -12,4 +13,5 @@ export const HANDLERS: Handlers = {
   'send-rejection-digest': sendRejectionDigestJob,
   'build-pairset': buildPairset,
   'run-retention': runRetention,
+  'cluster-moments': clusterMomentsJob,
 };

@@ -27,6 +27,8 @@ export const RETRY_POLICIES: { readonly [K in JobKind]: RetryPolicy } = {
   // A build starts over on each try; a definition that gives no pairs fails at once (FinalJobError), and a clip
   // reprocessed mid-build is worth one more try once its files are back.
   'build-pairset': { maxAttempts: 2, backoffS: [60], maxClaims: 5 },
+  // Clustering starts over on each try and fails for good on too few moments (FinalJobError); else a busy database.
+  'cluster-moments': { maxAttempts: 2, backoffS: [60], maxClaims: 5 },
 };
 
 /** When a job that failed on its `attempts`-th try is due again. */

@@ -16,6 +16,7 @@ import type { EstimatorName } from '../../shared/estimators';
 import type { EstimatorParams } from '../motion/index';
 import { NeighbourFieldRun, type NeighbourFields } from '../motion/fields/neighbour-fields';
 import { MotionWorkspace } from '../motion/kernels/workspace';
+import { motionDescriptor } from '../signals/moment-descriptor';
 
 /** Frames k → k+1 of `frameFiles` (consecutive frames with no cut between them), both ways. */
 export interface MotionRunTask {
@@ -34,6 +35,8 @@ export interface MotionRunTask {
 export interface PairMotion {
   forward: FieldSummary;
   backward: FieldSummary;
+  /** The motion part of moment k's descriptor, from the forward field (moment-descriptor.ts). */
+  descriptor: Float32Array;
 }
 
 /** Colours a stored field with the colour wheel, `maxMotion` px mapping to full colour. */
@@ -96,7 +99,7 @@ async function storePair(
     fs.promises.writeFile(forwardFile, forwardBytes),
     fs.promises.writeFile(backwardFile, backwardBytes),
   ]);
-  return { forward, backward };
+  return { forward, backward, descriptor: motionDescriptor(fields.forward) };
 }
 
 export async function writeMotionPicture({ floFile, pictureFile, maxMotion }: MotionPictureTask): Promise<void> {
