@@ -114,7 +114,7 @@ export function mixClusters(planned: readonly PlannedPair[], clusterOf: ClusterO
 
 function mixSplit(pairs: readonly PlannedPair[], clusterOf: ClusterOf): PlannedPair[] {
   const queues = new Map<number | null, PlannedPair[][]>();
-  for (let i = 0; i < pairs.length; ) {
+  for (let i = 0; i < pairs.length;) {
     const { clipId, moment } = pairs[i]!;
     const group: PlannedPair[] = [];
     while (i < pairs.length && pairs[i]!.clipId === clipId && pairs[i]!.moment === moment) group.push(pairs[i++]!);

@@ -26,7 +26,12 @@ export const clusteringCreateSchema = z.strictObject({
     .min(0)
     .max(2 ** 32 - 1)
     .default(1),
-  restarts: z.number().int().min(1, 'restarts must be within 1..20').max(20, 'restarts must be within 1..20').default(DEFAULT_RESTARTS),
+  restarts: z
+    .number()
+    .int()
+    .min(1, 'restarts must be within 1..20')
+    .max(20, 'restarts must be within 1..20')
+    .default(DEFAULT_RESTARTS),
 });
 export type ClusteringCreateBody = z.infer<typeof clusteringCreateSchema>;
 

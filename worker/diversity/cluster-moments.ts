@@ -99,7 +99,8 @@ async function suggestK(points: Float64Array, dims: number, options: ClusterOpti
   const sample = new Float64Array(order.length * dims);
   order.forEach((i, row) => sample.set(points.subarray(i * dims, (i + 1) * dims), row * dims));
   const candidates: number[] = [];
-  for (let k = SUGGESTED_K_RANGE.from; k <= Math.min(SUGGESTED_K_RANGE.to, order.length - 1); k += 1) candidates.push(k);
+  for (let k = SUGGESTED_K_RANGE.from; k <= Math.min(SUGGESTED_K_RANGE.to, order.length - 1); k += 1)
+    candidates.push(k);
   return Promise.all(
     candidates.map(async (k) => {
       const runs = await Promise.all(

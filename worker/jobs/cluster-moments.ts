@@ -60,7 +60,10 @@ export const clusterMomentsJob: Handler<'cluster-moments'> = {
   },
 
   async recordFailure({ payload }, failure, _context, transaction) {
-    await Clustering.update({ state: 'failed', error: failure.message }, { where: { id: payload.clusteringId }, transaction });
+    await Clustering.update(
+      { state: 'failed', error: failure.message },
+      { where: { id: payload.clusteringId }, transaction },
+    );
   },
 };
 

@@ -7,7 +7,12 @@
  * - Motion: the same kind of histogram over the direction of the flow vectors of known pixels.
  */
 import { rgbImageToLab } from '../../shared/colour/srgb-lab';
-import { APPEARANCE_DIMS, DIRECTION_BINS, MOTION_DIMS, ORIENTATION_BINS } from '../../shared/diversity/descriptor-layout';
+import {
+  APPEARANCE_DIMS,
+  DIRECTION_BINS,
+  MOTION_DIMS,
+  ORIENTATION_BINS,
+} from '../../shared/diversity/descriptor-layout';
 import { isUnknownFlow } from '../../shared/motion/unknown-flow';
 
 /** Colour statistics, gradient orientation and ln(1 + sharpness) of one frame. */

@@ -29,7 +29,9 @@ export async function loadMomentDescriptors(clipIds: readonly number[]): Promise
   const rows: MomentDescriptor[] = [];
   for (let start = 0; start < clipIds.length; start += CLIP_CHUNK) {
     const chunk = clipIds.slice(start, start + CLIP_CHUNK);
-    rows.push(...(await MomentDescriptor.findAll({ where: { clipId: { [Op.in]: chunk } }, order: [['clipId', 'ASC']] })));
+    rows.push(
+      ...(await MomentDescriptor.findAll({ where: { clipId: { [Op.in]: chunk } }, order: [['clipId', 'ASC']] })),
+    );
   }
   const total = rows.reduce((sum, row) => sum + row.frameCount, 0);
   const points = new Float64Array(total * DESCRIPTOR_DIMS);

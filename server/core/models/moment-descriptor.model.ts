@@ -1,17 +1,14 @@
-import {
-  DataTypes,
-  Model,
-  type InferAttributes,
-  type InferCreationAttributes,
-  type Sequelize,
-} from 'sequelize';
+import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import { APPEARANCE_DIMS, MOTION_DIMS, momentDescriptor } from '../../../shared/diversity/descriptor-layout';
 
 /**
  * The moment descriptors of one clip (shared/diversity/descriptor-layout.ts): Float32 little-endian, frame by
  * frame. The signals stage writes appearance (and clears motion); the motion stage writes motion.
  */
-export class MomentDescriptor extends Model<InferAttributes<MomentDescriptor>, InferCreationAttributes<MomentDescriptor>> {
+export class MomentDescriptor extends Model<
+  InferAttributes<MomentDescriptor>,
+  InferCreationAttributes<MomentDescriptor>
+> {
   declare clipId: number;
   declare frameCount: number;
   declare appearance: Buffer;

@@ -45,7 +45,9 @@ describe('gradient orientation histogram', () => {
     const width = 12;
     const height = 10;
     const vertical = Float32Array.from({ length: width * height }, (_, p) => ((p % width) % 4 < 2 ? 0 : 200));
-    const horizontal = Float32Array.from({ length: width * height }, (_, p) => (Math.floor(p / width) % 4 < 2 ? 0 : 200));
+    const horizontal = Float32Array.from({ length: width * height }, (_, p) =>
+      Math.floor(p / width) % 4 < 2 ? 0 : 200,
+    );
     expect(orientationHistogram(vertical, width, height)[0]).toBeCloseTo(1, 12);
     expect(orientationHistogram(horizontal, width, height)[4]).toBeCloseTo(1, 12);
     expect([...orientationHistogram(new Float32Array(width * height), width, height)]).toEqual(new Array(8).fill(0));
