@@ -86,7 +86,7 @@ export function kMeansPlusPlus(points: Float64Array, dims: number, k: number, ra
       const candidate = drawProportional(closest, potential, random);
       let candidatePotential = 0;
       for (let i = 0; i < n; i += 1) {
-        const d = Math.min(closest[i]!, squaredDistance(points, i * dims, points, candidate * dims, dims));
+        const d = squaredDistanceBelow(points, i * dims, points, candidate * dims, dims, closest[i]!);
         candidateClosest[i] = d;
         candidatePotential += d;
       }
@@ -138,7 +138,10 @@ export function lloyd(
   return { centres, labels, inertia: inertia(points, dims, centres, labels), iterations };
 }
 
-/** Labels each point with its nearest centre (the lower index on a tie). */
+/**
+ * Labels each point with its nearest centre (the lower index on a tie). A centre's sum stops once it reaches the
+ * best so far: it could not win, so the labels are those of full sums, found in a fraction of the work.
+ */
 export function assign(points: Float64Array, dims: number, centres: Float64Array, labels: Int32Array): void {
   const n = labels.length;
   const k = centres.length / dims;
@@ -147,7 +150,7 @@ export function assign(points: Float64Array, dims: number, centres: Float64Array
     let best = Infinity;
     let label = 0;
     for (let c = 0; c < k; c += 1) {
-      const d = squaredDistance(points, offset, centres, c * dims, dims);
+      const d = squaredDistanceBelow(points, offset, centres, c * dims, dims, best);
       if (d < best) {
         best = d;
         label = c;
@@ -196,6 +199,24 @@ function updateCentres(
     const i = far[e]!.i;
     out.set(points.subarray(i * dims, i * dims + dims), c * dims);
   });
+}
+
+/** The squared distance, or a partial sum ≥ `limit` as soon as the sum reaches it (then: `limit` stands). */
+function squaredDistanceBelow(
+  x: Float64Array,
+  xOffset: number,
+  y: Float64Array,
+  yOffset: number,
+  dims: number,
+  limit: number,
+): number {
+  let total = 0;
+  for (let j = 0; j < dims; j += 1) {
+    const d = x[xOffset + j]! - y[yOffset + j]!;
+    total += d * d;
+    if (total >= limit) return limit;
+  }
+  return total;
 }
 
 export function squaredDistance(x: Float64Array, xOffset: number, y: Float64Array, yOffset: number, dims: number) {
