@@ -15,6 +15,8 @@ export interface JobPayloads {
   'run-retention': { projectId: number };
   /** Converts clips stored in the original format (PNG frames, .flo fields, stored views) to the packed one. */
   'compact-storage': { reason: 'upgrade' | 'on-demand' };
+  /** k-means over the moment descriptors of a clustering's projects; writes its clusters and assignments. */
+  'cluster-moments': { clusteringId: number };
 }
 export type JobKind = keyof JobPayloads;
 /** Any kind's payload; a row's kind says which (the worker's claim pairs them). */
@@ -30,6 +32,7 @@ export const JOB_TARGETS: {
   'build-pairset': ({ pairsetId }) => ({ clipId: null, pairsetId }),
   'run-retention': () => ({ clipId: null, pairsetId: null }),
   'compact-storage': () => ({ clipId: null, pairsetId: null }),
+  'cluster-moments': () => ({ clipId: null, pairsetId: null }),
 };
 
 export const JOB_STATES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;

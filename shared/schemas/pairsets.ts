@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { pairKinds, viewNames, type ViewKind, type ViewName } from '../pairing/pairing-graph';
 import { MAX_TAG_LENGTH } from './clips';
+import { diversitySchema } from './diversity';
 import { listQuerySchema } from './list-query';
 import { pathNumber } from './path-number';
 
@@ -61,6 +62,8 @@ const definitionShape = {
   shardMB: z.number().min(0.05, 'shardMB must be at least 0.05').max(4096).default(PAIRSET_DEFAULTS.shardMB),
   /** τ of the pair-difficulty report. */
   temperature: z.number().gt(0, 'temperature must be more than 0').max(10).default(PAIRSET_DEFAULTS.temperature),
+  /** Cluster balance, pair.json's cluster and a cluster-mixed order; left out, none of these. */
+  diversity: diversitySchema.optional(),
 };
 
 interface CheckedFields {

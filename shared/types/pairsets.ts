@@ -3,6 +3,7 @@ import type { PairKind, ViewName } from '../pairing/pairing-graph';
 import type { SplitName } from '../pairing/split';
 import type { PairsetCritic } from './pair-critic';
 import type { PairsetDefinition, PairsetState } from '../schemas/pairsets';
+import type { ClusterBalance } from './diversity';
 
 export interface SplitCounts {
   train: number;
@@ -24,6 +25,8 @@ export interface PairsetPreview {
   clips: SplitCounts;
   pairs: SplitCounts;
   footageHours: SplitCounts;
+  /** With a clustering in the definition: each cluster's moments before and after the balance cap. */
+  clusters?: ClusterBalance;
 }
 
 /** Counts per bin between `edges[i]` and `edges[i + 1]`; `missing` counts frames without the measure. */
@@ -47,6 +50,8 @@ export interface PairsetStatistics {
   motionMagnitude: Histogram;
   /** Variance of the Laplacian of each moment's frame. */
   sharpness: Histogram;
+  /** With a clustering in the definition: each cluster's moments before and after the balance cap. */
+  clusters?: ClusterBalance;
 }
 
 export interface ShardSummary {

@@ -28,6 +28,22 @@ if (!fs.existsSync(CHROMIUM)) {
   run(`${INSTALL_CHROMIUM} >/dev/null`);
 }
 
+// The clustering tests compare with scikit-learn through Debian's own python3.
+const SKLEARN_CHECK = "/usr/bin/python3 -c 'import sklearn, numpy'";
+const INSTALL_SKLEARN = 'apt-get install -y python3-sklearn python3-numpy';
+try {
+  execFileSync('sh', ['-c', SKLEARN_CHECK], { stdio: 'ignore' });
+} catch {
+  if (!isRoot) {
+    console.error(
+      `The clustering tests need Debian's scikit-learn. Install it with:\n  sudo sh -c '${INSTALL_SKLEARN}'`,
+    );
+    process.exit(1);
+  }
+  console.log(`Installing Debian's scikit-learn for the clustering tests (${INSTALL_SKLEARN}) ...`);
+  run(`apt-get update >/dev/null && ${INSTALL_SKLEARN} >/dev/null`);
+}
+
 if (!fs.existsSync(GROVE3)) {
   console.log('Fetching the Middlebury Grove3 frame and ground truth for the motion accuracy tests ...');
   try {

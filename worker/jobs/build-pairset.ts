@@ -1,11 +1,11 @@
 import { randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { planPairs } from '../../shared/pairing/pair-plan';
 import { definitionViews } from '../../shared/schemas/pairsets';
 import type { PairsetManifest, ShardSummary } from '../../shared/types/pairsets';
 import { Pairset, Shard } from '../../server/core/models';
 import { loadPairsetSources } from '../../server/core/pairsets/pairset-sources';
+import { planDefinition } from '../../server/core/pairsets/pairset-plan';
 import { pairsetStatistics } from '../../server/core/pairsets/pairset-statistics';
 import { checkUserQuotaThresholds } from '../../server/core/usage/quota-warnings';
 import { PAIRSET_MANIFEST, pairsetWorkPrefix, type StoragePaths } from '../../server/core/storage/paths';
@@ -71,7 +71,7 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
 
   const sources = await loadPairsetSources(definition);
   const { pairs } = definitionViews(definition);
-  const planned = planPairs(sources, pairs, definition.split, definition);
+  const { planned, balance, clusters } = await planDefinition(definition, sources, pairs);
   if (planned.length === 0) {
     throw new FinalJobError(
       'The definition gives no pairs: no accepted clip matches it, or every moment is ' +
@@ -86,6 +86,7 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
     shardMB: definition.shardMB,
     clips,
     member: { reader, motionFormat: definition.motionFormat, outputSize: definition.outputSize },
+    clusters,
     progress: (share) => progress(share * SHARDS_SHARE),
   });
   const difficulty = await difficultyReport(planned, pairs, {
@@ -96,7 +97,7 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
     seed: definition.split.seed,
     progress: (share) => progress(SHARDS_SHARE + share * (1 - SHARDS_SHARE)),
   });
-  const statistics = pairsetStatistics(planned, pairs, sources);
+  const statistics = { ...pairsetStatistics(planned, pairs, sources), ...(balance ? { clusters: balance } : {}) };
   const manifest: PairsetManifest = {
     format: PAIRSET_FORMAT,
     pairset: { id: pairset.id, name: pairset.name, version: pairset.version },

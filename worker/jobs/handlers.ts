@@ -1,5 +1,6 @@
 import { buildPairset } from './build-pairset';
 import { compactStorage } from './compact-storage';
+import { clusterMomentsJob } from './cluster-moments';
 import type { Handlers } from './handler';
 import { processClip } from './process-clip';
 import { reconcileUsage } from './reconcile-usage';
@@ -14,4 +15,5 @@ export const HANDLERS: Handlers = {
   'build-pairset': buildPairset,
   'run-retention': runRetention,
   'compact-storage': compactStorage,
+  'cluster-moments': clusterMomentsJob,
 };

@@ -30,6 +30,8 @@ export const RETRY_POLICIES: { readonly [K in JobKind]: RetryPolicy } = {
   // Conversion is clip by clip, each switched on its own; a retry carries on with the clips left. Many claims are
   // allowed because a long conversion outlives worker restarts (upgrades, deployments).
   'compact-storage': { maxAttempts: 5, backoffS: [60, 600], maxClaims: 50 },
+  // Clustering starts over on each try and fails for good on too few moments (FinalJobError); else a busy database.
+  'cluster-moments': { maxAttempts: 2, backoffS: [60], maxClaims: 5 },
 };
 
 /** When a job that failed on its `attempts`-th try is due again. */

@@ -26,8 +26,18 @@ export function memberNames(planned: PlannedPair, motionFormat: MotionFormat): {
   };
 }
 
-/** pair.json: the clip, the moment, both views with their frame and Δ, the estimator and the moment's signals. */
-export function pairRecord(planned: PlannedPair, clip: SourceClip, frame: SourceFrame, motionFormat: MotionFormat) {
+/**
+ * pair.json: the clip, the moment, both views with their frame and Δ, the estimator and the moment's signals; with
+ * a clustering in the definition, the moment's cluster (`id` null: the clustering did not see the moment), so a
+ * trainer can sample by cluster.
+ */
+export function pairRecord(
+  planned: PlannedPair,
+  clip: SourceClip,
+  frame: SourceFrame,
+  motionFormat: MotionFormat,
+  cluster?: { clustering: number; id: number | null },
+) {
   const names = memberNames(planned, motionFormat);
   const usesMotion = planned.pair.a === 'motion' || planned.pair.b === 'motion';
   return {
@@ -52,6 +62,7 @@ export function pairRecord(planned: PlannedPair, clip: SourceClip, frame: Source
           }
         : null,
     },
+    ...(cluster ? { cluster } : {}),
   };
 }
 

@@ -4,6 +4,7 @@ import { SPLIT_ORDER, type PlannedPair } from '../../shared/pairing/pair-plan';
 import { shardFileName } from '../../shared/pairing/shard-name';
 import type { SplitName } from '../../shared/pairing/split';
 import type { ShardSummary } from '../../shared/types/pairsets';
+import type { ClusterOf } from '../../shared/diversity/cluster-balance';
 import type { SourceClip, SourceFrame } from '../../server/core/pairsets/pairset-sources';
 import { viewMember, type MemberFile, type MemberOptions } from './pair-members';
 import { memberNames, pairFolder, pairKey, pairRecord } from './pair-record';
@@ -24,6 +25,8 @@ export interface WriteShardsOptions {
   shardMB: number;
   member: MemberOptions;
   clips: ReadonlyMap<number, SourceClip>;
+  /** With a clustering in the definition: each pair.json records its moment's cluster. */
+  clusters?: { clusteringId: number; clusterOf: ClusterOf } | null;
   /** Called after each pair with the share of pairs prepared; may throw to stop (cancel, shutdown). */
   progress(share: number): Promise<void>;
 }
@@ -91,7 +94,10 @@ async function preparePair(item: PlannedPair, frame: SourceFrame, options: Write
     const file = await viewMember(item.pair[side], item.clipId, item.moment, member, staging);
     entries.push({ name: `${folder}/${names[side]}`, member: file });
   }
-  const record = Buffer.from(stableJson(pairRecord(item, clip, frame, member.motionFormat)));
+  const cluster = options.clusters
+    ? { clustering: options.clusters.clusteringId, id: options.clusters.clusterOf(item.clipId, item.moment) }
+    : undefined;
+  const record = Buffer.from(stableJson(pairRecord(item, clip, frame, member.motionFormat, cluster)));
   entries.push({ name: `${folder}/pair.json`, member: { data: record } });
   const tarBytes = entries.reduce((sum, entry) => sum + tarSize(entrySize(entry)), 0);
   return { key, entries, tarBytes };

@@ -1,5 +1,7 @@
 import fs from 'node:fs';
-import { Frame, MotionField } from '../../server/core/models';
+import { Frame, MomentDescriptor, MotionField } from '../../server/core/models';
+import { MOTION_DIMS } from '../../shared/diversity/descriptor-layout';
+import { floatBlob } from '../../server/core/models/moment-descriptor.model';
 import type { PairMotion } from '../pool/motion-tasks';
 import type { FieldSummary } from '../motion/fields/field-summary';
 import { forEachFrame } from './each-frame';
@@ -52,9 +54,20 @@ export const motionStage: PipelineStage = {
         fields.flatMap((field) => rows(field, recorded)),
         { transaction },
       );
+      await MomentDescriptor.update(
+        { motion: motionDescriptors(fields, frames.length) },
+        { where: { clipId: clip.id }, transaction },
+      );
     });
   },
 };
+
+/** The motion parts of every moment's descriptor, zeros where no field leaves the moment. */
+function motionDescriptors(fields: readonly (PairMotion & { fromIndex: number })[], frameCount: number): Buffer {
+  const parts: Float32Array[] = Array.from({ length: frameCount }, () => new Float32Array(MOTION_DIMS));
+  for (const field of fields) if (field.fromIndex < frameCount) parts[field.fromIndex] = field.descriptor;
+  return floatBlob(parts);
+}
 
 /** The forward row (t → t+1) and the backward row (t+1 → t) of one pair. */
 function rows(

@@ -1,4 +1,5 @@
-import { Clip, Frame } from '../../server/core/models';
+import { Clip, Frame, MomentDescriptor } from '../../server/core/models';
+import { floatBlob } from '../../server/core/models/moment-descriptor.model';
 import { detectClipCuts } from './cut-detection';
 import { forEachFrame } from './each-frame';
 import type { PipelineStage } from './stage';
@@ -7,7 +8,8 @@ import type { PipelineStage } from './stage';
  * signals: per-frame mean luma, RMS contrast, variance of the Laplacian and clipped shares (frame-signals.ts), the
  * frame's dHash (perceptual-hash.ts), and cuts (cut-detection.ts): histogram distance (cuts.ts), edge change and
  * a coarse motion verdict (cut-evidence.ts), decided against the clip's own local level (cut-decision.ts), with
- * curators' cut marks overriding the detector.
+ * curators' cut marks overriding the detector; and the appearance part of each moment's descriptor (colour, gradient
+ * orientation, sharpness: moment-descriptor.ts), whose motion part the motion stage adds.
  */
 export const signalsStage: PipelineStage = {
   name: 'signals',
@@ -39,6 +41,15 @@ export const signalsStage: PipelineStage = {
     await context.commit(async (transaction) => {
       await Frame.destroy({ where: { clipId: clip.id }, transaction });
       await Frame.bulkCreate(rows, { transaction });
+      await MomentDescriptor.upsert(
+        {
+          clipId: clip.id,
+          frameCount: rows.length,
+          appearance: floatBlob(measured.map((frame) => frame.appearance)),
+          motion: null,
+        },
+        { transaction },
+      );
       await Clip.update(
         {
           cutCount: countTransitions(cuts.cutBefore),

@@ -1,6 +1,7 @@
 import os from 'node:os';
 import { Piscina } from 'piscina';
 import type { CriticOutcome, CriticTask } from './critic-tasks';
+import type { KMeansRunOutcome, KMeansRunTask } from '../diversity/cluster-moments';
 import type { FrameMeasurement, MeasureFrameTask } from './frame-tasks';
 import type { PairEvidence } from '../signals/cut-evidence';
 import type { CutPairsTask } from './cut-tasks';
@@ -20,6 +21,8 @@ export interface FramePool {
   measureCutPairs(task: Omit<CutPairsTask, 'kind'>, signal?: AbortSignal): Promise<PairEvidence[]>;
   /** Trains one view pair's critic for the pair-difficulty report and measures its bounds. */
   trainCritic(task: Omit<CriticTask, 'kind'>, signal?: AbortSignal): Promise<CriticOutcome>;
+  /** One k-means restart (or one candidate k with its silhouette) of a clustering of moments. */
+  runKMeans(task: Omit<KMeansRunTask, 'kind'>, signal?: AbortSignal): Promise<KMeansRunOutcome>;
   /** Threads at most, so a stage can split its work into enough pieces to keep each one busy. */
   threads: number;
   destroy(): Promise<void>;
@@ -46,6 +49,7 @@ export function createFramePool(threads = os.availableParallelism()): FramePool 
     estimateMotionRun: (task, signal) => pool.run({ kind: 'motion-run', ...task }, { signal }),
     measureCutPairs: (task, signal) => pool.run({ kind: 'cut-pairs', ...task }, { signal }),
     trainCritic: (task, signal) => pool.run({ kind: 'critic', ...task }, { signal }),
+    runKMeans: (task, signal) => pool.run({ kind: 'kmeans-run', ...task }, { signal }),
     threads: maxThreads,
     destroy: () => pool.destroy(),
   };

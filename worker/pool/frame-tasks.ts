@@ -8,6 +8,7 @@ import { cutThumb, type CutThumb } from '../signals/cut-evidence';
 import { greyHistogram } from '../signals/cuts';
 import { frameSignals, type FrameSignals } from '../signals/frame-signals';
 import { hashToHex } from '../../shared/review/hash-bits';
+import { appearanceDescriptor } from '../signals/moment-descriptor';
 import { dHash } from '../signals/perceptual-hash';
 
 export interface MeasureFrameTask {
@@ -24,6 +25,8 @@ export interface FrameMeasurement {
   dhash: string;
   /** Small copies for the cut detector's motion and edge evidence. */
   cutThumb: CutThumb;
+  /** The appearance part of the moment descriptor (shared/diversity/descriptor-layout.ts). */
+  appearance: Float32Array;
 }
 
 export type FrameTask = MeasureFrameTask;
@@ -31,10 +34,12 @@ export type FrameTask = MeasureFrameTask;
 export async function measureFrame({ frameFile, cutBins }: MeasureFrameTask): Promise<FrameMeasurement> {
   const { rgb, width, height } = await readRgbImage(frameFile);
   const grey = rgbToGrey(rgb, new Float32Array(width * height));
+  const signals = frameSignals(grey, width, height);
   return {
-    signals: frameSignals(grey, width, height),
+    signals,
     histogram: greyHistogram(grey, cutBins),
     dhash: hashToHex(dHash(grey, width, height)),
     cutThumb: cutThumb(grey, width, height),
+    appearance: appearanceDescriptor(rgb, grey, width, height, signals.sharpness),
   };
 }

@@ -6,6 +6,7 @@
 import sharp from 'sharp';
 import type { PairEvidence } from '../signals/cut-evidence';
 import { runCriticTask, type CriticOutcome, type CriticTask } from './critic-tasks';
+import { runKMeansTask, type KMeansRunOutcome, type KMeansRunTask } from '../diversity/cluster-moments';
 import { measureFrame, type FrameMeasurement, type FrameTask } from './frame-tasks';
 import { measureCutPairs, type CutPairsTask } from './cut-tasks';
 import { estimateMotionRun, type MotionTask, type PairMotion } from './motion-tasks';
@@ -13,8 +14,8 @@ import { estimateMotionRun, type MotionTask, type PairMotion } from './motion-ta
 sharp.concurrency(1);
 
 export default function runFrameTask(
-  task: FrameTask | MotionTask | CutPairsTask | CriticTask,
-): Promise<FrameMeasurement | PairMotion[] | PairEvidence[] | CriticOutcome | void> {
+  task: FrameTask | MotionTask | CutPairsTask | CriticTask | KMeansRunTask,
+): Promise<FrameMeasurement | PairMotion[] | PairEvidence[] | CriticOutcome | KMeansRunOutcome | void> {
   switch (task.kind) {
     case 'measure':
       return measureFrame(task);
@@ -24,5 +25,7 @@ export default function runFrameTask(
       return Promise.resolve(measureCutPairs(task));
     case 'critic':
       return Promise.resolve(runCriticTask(task));
+    case 'kmeans-run':
+      return Promise.resolve(runKMeansTask(task));
   }
 }

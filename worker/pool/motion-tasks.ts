@@ -16,6 +16,7 @@ import type { EstimatorName } from '../../shared/estimators';
 import type { EstimatorParams } from '../motion/index';
 import { NeighbourFieldRun, type NeighbourFields } from '../motion/fields/neighbour-fields';
 import { MotionWorkspace } from '../motion/kernels/workspace';
+import { motionDescriptor } from '../signals/moment-descriptor';
 
 /** Frames k → k+1 of `frameFiles` (consecutive frames with no cut between them), both ways. */
 export interface MotionRunTask {
@@ -32,6 +33,8 @@ export interface MotionRunTask {
 export interface PairMotion {
   forward: FieldSummary;
   backward: FieldSummary;
+  /** The motion part of moment k's descriptor, from the forward field (moment-descriptor.ts). */
+  descriptor: Float32Array;
 }
 
 export type MotionTask = MotionRunTask;
@@ -81,6 +84,7 @@ async function storePair(
   // overwrites the field buffers.
   const packed = encodePackedField({ width, height, flow: fields.forward, consistent: maskBuffer });
   const backward = summary(fields.backward, fields.forward);
+  const descriptor = motionDescriptor(fields.forward);
   await fs.promises.writeFile(forwardFile, packed);
-  return { forward, backward };
+  return { forward, backward, descriptor };
 }

@@ -12,6 +12,7 @@ import * as clipListOrder from './migrations/0009-clip-list-order';
 import * as motionScale from './migrations/0010-motion-scale';
 import * as cutMarks from './migrations/0011-cut-marks';
 import * as storageDiet from './migrations/0012-storage-diet';
+import * as diversity from './migrations/0013-diversity';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -32,6 +33,7 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0010-motion-scale', motionScale],
   ['0011-cut-marks', cutMarks],
   ['0012-storage-diet', storageDiet],
+  ['0013-diversity', diversity],
 ];
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */

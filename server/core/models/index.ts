@@ -2,12 +2,15 @@ import type { Sequelize } from 'sequelize';
 import { ApiToken } from './api-token.model';
 import { AuditEvent } from './audit-event.model';
 import { Clip } from './clip.model';
+import { ClipCluster } from './clip-cluster.model';
+import { Clustering } from './clustering.model';
 import { CutMark } from './cut-mark.model';
 import { Frame } from './frame.model';
 import { Invitation } from './invitation.model';
 import { Job } from './job.model';
 import { MailMessage } from './mail-message.model';
 import { MailOutbox } from './mail-outbox.model';
+import { MomentDescriptor } from './moment-descriptor.model';
 import { MotionField } from './motion-field.model';
 import { Pairset } from './pairset.model';
 import { PasswordReset } from './password-reset.model';
@@ -46,6 +49,9 @@ export function initModels(sequelize: Sequelize): void {
   Shard.initModel(sequelize);
   ApiToken.initModel(sequelize);
   CutMark.initModel(sequelize);
+  MomentDescriptor.initModel(sequelize);
+  Clustering.initModel(sequelize);
+  ClipCluster.initModel(sequelize);
 
   AuditEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId', constraints: false });
   Clip.belongsTo(Project, { as: 'project', foreignKey: 'projectId' });
@@ -70,12 +76,15 @@ export {
   ApiToken,
   AuditEvent,
   Clip,
+  ClipCluster,
+  Clustering,
   CutMark,
   Frame,
   Invitation,
   Job,
   MailMessage,
   MailOutbox,
+  MomentDescriptor,
   MotionField,
   Pairset,
   PasswordReset,

@@ -3,7 +3,6 @@ import { literal, Op, type Order, type Transaction, type WhereOptions } from 'se
 import type { ListPage } from '../../../shared/api-types';
 import { formatBytes } from '../../../shared/format-bytes';
 import { HttpStatus } from '../../../shared/http-status';
-import { planPairs } from '../../../shared/pairing/pair-plan';
 import {
   definitionViews,
   type PairsetDefinition,
@@ -17,6 +16,7 @@ import { Job, Pairset, Project, Shard, User } from '../models';
 import type { StoragePaths } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
 import { loadPairsetSources } from './pairset-sources';
+import { planDefinition } from './pairset-plan';
 import { planCounts } from './pairset-statistics';
 import { userUsage } from '../usage/quotas';
 import { enqueueJob } from '../jobs/enqueue';
@@ -35,8 +35,8 @@ const REBUILDABLE: readonly PairsetState[] = ['draft', 'failed', 'cancelled'];
 export async function previewPairset(body: PairsetPreviewBody): Promise<PairsetPreview> {
   const sources = await loadPairsetSources(body);
   const { views, pairs } = definitionViews(body);
-  const planned = planPairs(sources, pairs, body.split, body);
-  return { views, ...planCounts(planned, pairs, sources) };
+  const { planned, balance } = await planDefinition(body, sources, pairs);
+  return { views, ...planCounts(planned, pairs, sources), ...(balance ? { clusters: balance } : {}) };
 }
 
 export async function createPairset(definition: PairsetDefinition, actorId: number): Promise<PairsetDetail> {

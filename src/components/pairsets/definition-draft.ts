@@ -22,6 +22,12 @@ export interface DefinitionDraft {
   seed: number;
   shardMB: number;
   temperature: number;
+  /** Diversity: the clustering to balance by (null: none), a cap on each cluster's moments, a mixed order. */
+  clusteringId: number | null;
+  capKind: 'none' | 'moments' | 'share';
+  /** Moments, or a share in percent. */
+  capValue: number | null;
+  mixClusters: boolean;
 }
 
 const END_OF_DAY_MS = 86_399_999;
@@ -45,6 +51,10 @@ export function emptyDraft(): DefinitionDraft {
     seed: 1,
     shardMB: PAIRSET_DEFAULTS.shardMB,
     temperature: PAIRSET_DEFAULTS.temperature,
+    clusteringId: null,
+    capKind: 'none',
+    capValue: null,
+    mixClusters: false,
   };
 }
 
@@ -77,5 +87,10 @@ export function definitionBody(draft: DefinitionDraft): PairsetPreviewBody {
   if (draft.minMeanMotion !== null) body.minMeanMotion = draft.minMeanMotion;
   if (draft.minConsistentShare !== null) body.minConsistentShare = draft.minConsistentShare;
   if (draft.outputSize !== null) body.outputSize = draft.outputSize;
+  if (draft.clusteringId !== null) {
+    body.diversity = { clusteringId: draft.clusteringId, mixClusters: draft.mixClusters };
+    if (draft.capKind === 'moments' && draft.capValue !== null) body.diversity.capMoments = draft.capValue;
+    if (draft.capKind === 'share' && draft.capValue !== null) body.diversity.capShare = draft.capValue / 100;
+  }
   return body;
 }
