@@ -57,67 +57,71 @@ export function resumableUploadEngine({ paths, limitBytes, publicUrl, route }: R
   /** Uploads whose last byte is in and whose admission runs: asked about meanwhile, they answer 423 (retry). */
   const admitting = new Set<string>();
 
-  const tus = new Server({
-    path: route,
-    relativeLocation: true,
-    datastore: new ReservedFileStore({ directory: paths.resumableDir }),
-    namingFunction: () => randomUUID(),
-    async onIncomingRequest(req, uploadId) {
-      if (req.method === 'POST') return;
-      if (admitting.has(uploadId)) {
-        throw new AppError(
-          HttpStatus.LOCKED,
-          'upload_being_checked',
-          'This upload is complete and being checked; ask again shortly.',
-        );
-      }
-      // Another person's upload is answered as if it did not exist.
-      if ((await resumableUploader(uploadId)) !== uploaderOf(req)) throw uploadGone();
-    },
-    async onUploadCreate(req, upload) {
-      if (upload.size === undefined) {
-        throw new AppError(
-          HttpStatus.LENGTH_REQUIRED,
-          'length_required',
-          'Uploads must declare their size (Upload-Length) so quotas can be checked first.',
-        );
-      }
-      if (upload.size > limitBytes) throw tooLarge(limitBytes, upload.size);
-      await openResumableUpload(upload.id, upload.metadata as ResumableMetadata, uploaderOf(req), upload.size);
-      return {};
-    },
-    async onUploadFinish(req, upload) {
-      admitting.add(upload.id);
-      try {
-        const clip = await admitResumableUpload(
-          { id: upload.id, size: upload.size!, metadata: upload.metadata as ResumableMetadata },
-          uploaderOf(req),
-          { paths, publicUrl },
-        );
-        return {
-          status_code: HttpStatus.OK,
-          headers: { 'Content-Type': 'application/json' },
-          body: JSON.stringify(clip),
-        };
-      } finally {
-        admitting.delete(upload.id);
-      }
-    },
-    onResponseError(req, error) {
-      if (error instanceof AppError) return errorAnswer(error.status, error);
-      // tus's own refusals ({ status_code, body }) keep their protocol meaning (409 offset, 460 checksum, …).
-      if (!(error instanceof Error)) return undefined;
-      const node = expressRequestOf(req);
-      const requestId = node.res?.locals.requestId as string | undefined;
-      console.error(`[${requestId ?? '-'}] ${req.method} ${node.originalUrl}`, error);
-      return errorAnswer(HttpStatus.INTERNAL_SERVER_ERROR, {
-        code: 'internal',
-        message: `Something went wrong on the server (request ${requestId ?? 'unknown'}).`,
-      });
-    },
-  });
+  const createServer = () =>
+    new Server({
+      path: route,
+      relativeLocation: true,
+      datastore: new ReservedFileStore({ directory: paths.resumableDir }),
+      namingFunction: () => randomUUID(),
+      async onIncomingRequest(req, uploadId) {
+        if (req.method === 'POST') return;
+        if (admitting.has(uploadId)) {
+          throw new AppError(
+            HttpStatus.LOCKED,
+            'upload_being_checked',
+            'This upload is complete and being checked; ask again shortly.',
+          );
+        }
+        // Another person's upload is answered as if it did not exist.
+        if ((await resumableUploader(uploadId)) !== uploaderOf(req)) throw uploadGone();
+      },
+      async onUploadCreate(req, upload) {
+        if (upload.size === undefined) {
+          throw new AppError(
+            HttpStatus.LENGTH_REQUIRED,
+            'length_required',
+            'Uploads must declare their size (Upload-Length) so quotas can be checked first.',
+          );
+        }
+        if (upload.size > limitBytes) throw tooLarge(limitBytes, upload.size);
+        await openResumableUpload(upload.id, upload.metadata as ResumableMetadata, uploaderOf(req), upload.size);
+        return {};
+      },
+      async onUploadFinish(req, upload) {
+        admitting.add(upload.id);
+        try {
+          const clip = await admitResumableUpload(
+            { id: upload.id, size: upload.size!, metadata: upload.metadata as ResumableMetadata },
+            uploaderOf(req),
+            { paths, publicUrl },
+          );
+          return {
+            status_code: HttpStatus.OK,
+            headers: { 'Content-Type': 'application/json' },
+            body: JSON.stringify(clip),
+          };
+        } finally {
+          admitting.delete(upload.id);
+        }
+      },
+      onResponseError(req, error) {
+        if (error instanceof AppError) return errorAnswer(error.status, error);
+        // tus's own refusals ({ status_code, body }) keep their protocol meaning (409 offset, 460 checksum, …).
+        if (!(error instanceof Error)) return undefined;
+        const node = expressRequestOf(req);
+        const requestId = node.res?.locals.requestId as string | undefined;
+        console.error(`[${requestId ?? '-'}] ${req.method} ${node.originalUrl}`, error);
+        return errorAnswer(HttpStatus.INTERNAL_SERVER_ERROR, {
+          code: 'internal',
+          message: `Something went wrong on the server (request ${requestId ?? 'unknown'}).`,
+        });
+      },
+    });
+  // The file store makes its folder when built: built on first use, so incoming/ stays as it was until then.
+  let tus: Server | null = null;
 
   return (req, res, next) => {
+    tus ??= createServer();
     tus.handle(req, res).catch(next);
   };
 }
