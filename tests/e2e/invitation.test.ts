@@ -57,6 +57,14 @@ describe('inviting a person', () => {
     const formatted = page.frameLocator('iframe[title="Formatted message"]');
     expect(await formatted.locator('a').first().getAttribute('href')).toBe(link);
     await screenshot(page, 'mail-log-formatted');
+    // The admin works at 127.0.0.1 while links say localhost: Settings shows the public URL and says so.
+    await page.click('[data-test="nav-admin-settings"]');
+    const notice = await page.waitForSelector('[data-test="settings-public-url"]');
+    expect(await notice.textContent()).toContain(server.config.publicUrl);
+    expect(await page.textContent('[data-test="settings-public-url-warning"]')).toContain(
+      `You are using ${server.baseUrl}`,
+    );
+    await screenshot(page, 'settings-public-url');
     await adminContext.close();
 
     // A fresh context shares nothing with the admin's; it opens the mailed link itself.
