@@ -6,8 +6,11 @@ import { loadConfig } from './core/config';
 import { openKinefoldDatabase } from './core/db/open';
 import { runDemoCampaign } from './demo/campaign';
 import { startMail } from './core/mail';
-import { cleanStaleUploads } from './core/usage/storage-hygiene';
+import { cleanStaleUploads, expireResumableUploads } from './core/usage/storage-hygiene';
 import { storagePaths } from './core/storage/paths';
+
+/** How often idle resumable uploads are looked for; their expiry is measured in hours. */
+const RESUMABLE_SWEEP_MS = 15 * 60_000;
 
 const config = loadConfig();
 const sequelize = await openKinefoldDatabase(config);
@@ -15,12 +18,23 @@ const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..
 const kinefold = createApp({ config, sequelize, clientDir });
 // Only the server receives uploads, one server per storage folder, and it has not listened yet: nothing begun
 // before this moment can still be in flight, so a crash mid-upload holds no quota past the restart.
-const cleaned = await cleanStaleUploads(storagePaths(config.storageDir), { before: Date.now() });
+// Resumable uploads are the exception: they wait for their sender until idle for config.resumableIdleMs.
+const paths = storagePaths(config.storageDir);
+const cleaned = await cleanStaleUploads(paths, { before: Date.now() });
 if (cleaned.files + cleaned.reservations > 0) {
   console.log(
     `Kinefold server: removed ${cleaned.files} stale partial uploads, released ${cleaned.reservations} reservations.`,
   );
 }
+async function expireIdleUploads(): Promise<void> {
+  const { uploads } = await expireResumableUploads(paths, { idleMs: config.resumableIdleMs });
+  if (uploads > 0) console.log(`Kinefold server: ${uploads} resumable uploads idle too long removed, quota released.`);
+}
+await expireIdleUploads();
+const expirySweep = setInterval(
+  () => void expireIdleUploads().catch((error: unknown) => console.error('Kinefold server: upload expiry', error)),
+  RESUMABLE_SWEEP_MS,
+);
 
 const mail = await startMail(config);
 console.log(
@@ -47,6 +61,7 @@ function stop(signal: string): void {
   stopping = true;
   console.log(`Kinefold server: ${signal} received, closing.`);
   demoStop.abort();
+  clearInterval(expirySweep);
   kinefold.close();
   server.close(() => {
     // A message in flight finishes before the database closes; anything not yet sent waits in the outbox.

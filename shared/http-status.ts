@@ -15,6 +15,8 @@ export const HttpStatus = {
   PAYLOAD_TOO_LARGE: 413,
   RANGE_NOT_SATISFIABLE: 416,
   UNPROCESSABLE_ENTITY: 422,
+  /** WebDAV's Locked (RFC 4918), which tus uses for an upload that is busy: the client asks again later. */
+  LOCKED: 423,
   TOO_MANY_REQUESTS: 429,
   INTERNAL_SERVER_ERROR: 500,
   SERVICE_UNAVAILABLE: 503,

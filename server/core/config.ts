@@ -8,7 +8,10 @@ export interface Config {
   storageDir: string;
   demo: DemoMode;
   smtpUrl: string | null;
+  /** The base of every link Kinefold mails; by default this server on its own port. */
   publicUrl: string;
+  /** Whether publicUrl was set (KINEFOLD_PUBLIC_URL) or derived from PORT, for the admin's settings. */
+  publicUrlSource: 'configured' | 'derived';
   sessionSecret: string;
   sessionMaxAgeMs: number;
   /** True when the server sits behind TLS: cookies get `secure`, helmet adds HSTS. */
@@ -24,6 +27,8 @@ export interface Config {
   resetWindowMs: number;
   /** Largest file one upload may carry. */
   uploadLimitBytes: number;
+  /** A resumable upload that receives no byte for this long is removed and its reserved bytes released. */
+  resumableIdleMs: number;
   /** Seconds a worker holds a claimed job before another may take it over; renewed every third of it. */
   jobLeaseS: number;
   /** Jobs one worker process runs at once. */
@@ -51,13 +56,16 @@ function parseInteger(name: string, value: string | undefined, fallback: number)
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
-  const publicUrl = env.KINEFOLD_PUBLIC_URL ?? 'http://localhost:3000';
+  const port = parseInteger('PORT', env.PORT, 3000);
+  // Links must reach this server: without a configured address, the one it listens on is the best guess.
+  const publicUrl = env.KINEFOLD_PUBLIC_URL || `http://localhost:${port}`;
   return {
-    port: parseInteger('PORT', env.PORT, 3000),
+    port,
     storageDir: path.resolve(env.KINEFOLD_STORAGE_DIR ?? 'storage'),
     demo: parseDemo(env.KINEFOLD_DEMO),
     smtpUrl: env.SMTP_URL || null,
     publicUrl,
+    publicUrlSource: env.KINEFOLD_PUBLIC_URL ? 'configured' : 'derived',
     sessionSecret: env.KINEFOLD_SESSION_SECRET ?? '',
     sessionMaxAgeMs: parseInteger('KINEFOLD_SESSION_HOURS', env.KINEFOLD_SESSION_HOURS, 12) * 3600_000,
     tls: env.KINEFOLD_TLS === '1' || publicUrl.startsWith('https://'),
@@ -70,6 +78,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     resetLimitPerAccount: parseInteger('KINEFOLD_RESET_LIMIT_ACCOUNT', env.KINEFOLD_RESET_LIMIT_ACCOUNT, 3),
     resetWindowMs: 60 * 60_000,
     uploadLimitBytes: parseInteger('KINEFOLD_UPLOAD_LIMIT_BYTES', env.KINEFOLD_UPLOAD_LIMIT_BYTES, 4 * 1024 ** 3),
+    resumableIdleMs: parseInteger('KINEFOLD_RESUMABLE_IDLE_HOURS', env.KINEFOLD_RESUMABLE_IDLE_HOURS, 24) * 3600_000,
     jobLeaseS: Math.max(1, parseInteger('KINEFOLD_JOB_LEASE_S', env.KINEFOLD_JOB_LEASE_S, 60)),
     jobConcurrency: Math.max(1, parseInteger('KINEFOLD_JOB_CONCURRENCY', env.KINEFOLD_JOB_CONCURRENCY, 2)),
     workerNice: Math.min(MAX_NICE, parseInteger('KINEFOLD_WORKER_NICE', env.KINEFOLD_WORKER_NICE, 10)),

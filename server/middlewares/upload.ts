@@ -45,7 +45,8 @@ export function receiveClipUpload(paths: StoragePaths, limitBytes: number) {
   };
 }
 
-function tooLarge(limitBytes: number, bytes?: number): AppError {
+/** The refusal of a file over the upload limit, for the multipart and the resumable route alike. */
+export function tooLarge(limitBytes: number, bytes?: number): AppError {
   return new AppError(
     HttpStatus.PAYLOAD_TOO_LARGE,
     'file_too_large',

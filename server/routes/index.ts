@@ -18,6 +18,7 @@ import { createMeRouter } from './me';
 import { createPairsetsRouter } from './pairsets';
 import { createPasswordResetRouter } from './password-reset';
 import { projectsRouter } from './projects';
+import { createResumableUploadsRouter } from './resumable-uploads';
 import { createClipReviewRouter, createReviewRouter, createReviewSettingsRouter } from './review';
 import { tokensRouter } from './tokens';
 import { createUsersRouter } from './users';
@@ -41,6 +42,14 @@ export function createApiRouter(deps: ApiDeps): Router {
   api.use('/invitations', createInvitationsRouter(deps.config));
   api.use('/mail', mailRouter);
   api.use('/projects', projectsRouter);
+  api.use(
+    '/clips/resumable',
+    createResumableUploadsRouter({
+      paths: deps.paths,
+      limitBytes: deps.uploadLimitBytes,
+      publicUrl: deps.config.publicUrl,
+    }),
+  );
   api.use('/clips', createClipsRouter(deps.paths, deps.uploadLimitBytes, deps.config.publicUrl));
   api.use('/clips', createClipMediaRouter(deps.paths));
   api.use('/clips', createClipCutsRouter());

@@ -53,3 +53,9 @@ export interface RetentionPreview {
   clips: { clipId: number; originalName: string; rejectedAt: string; bytes: number }[];
   totalBytes: number;
 }
+
+/** The base of every link Kinefold mails, and whether an admin set it or the server derived it from its port. */
+export interface PublicAddress {
+  publicUrl: string;
+  source: 'configured' | 'derived';
+}

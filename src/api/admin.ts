@@ -1,7 +1,7 @@
 import type { ListPage } from '../../shared/api-types';
 import type { Settings } from '../../shared/schemas/settings';
 import type { AuditListQuery, JobListQuery } from '../../shared/schemas/admin';
-import type { AuditEntry, JobSummary, RetentionPreview, UsageReport } from '../../shared/types/admin';
+import type { AuditEntry, JobSummary, PublicAddress, RetentionPreview, UsageReport } from '../../shared/types/admin';
 import { http } from './http';
 
 export const getUsage = () => http.get<UsageReport>('/admin/usage');
@@ -26,3 +26,4 @@ export const runRetention = (projectId: number) => http.post<{ jobId: number }>(
 
 export const getSettings = () => http.get<Settings>('/settings');
 export const putSettings = (settings: Settings) => http.put<Settings>('/settings', settings);
+export const getPublicAddress = () => http.get<PublicAddress>('/settings/public-url');

@@ -21,6 +21,9 @@ export interface UploadItem {
   handle: UploadHandle | null;
 }
 
+/** Shown while a broken connection is retried; the upload carries on from what the server already holds. */
+const RESUMING = 'Connection lost; resuming where it stopped';
+
 let nextKey = 1;
 
 /** A batch of files uploaded one request per file, a few at a time, with progress, cancel and per-file results. */
@@ -69,10 +72,16 @@ export function useUploadBatch() {
     if (item.state === 'cancelled') return;
     item.state = 'sending';
     item.message = '';
-    item.handle = uploadClip(fields, item.file, (sent) => {
-      item.sentBytes = sent;
-      // Once every byte is out the server is probing the file; say so rather than sit at 100%.
-      if (sent >= item.file.size && item.state === 'sending') item.state = 'checking';
+    item.handle = uploadClip(fields, item.file, {
+      onProgress(sent) {
+        item.sentBytes = sent;
+        if (item.message === RESUMING) item.message = '';
+        // Once every byte is out the server is probing the file; say so rather than sit at 100%.
+        if (sent >= item.file.size && item.state === 'sending') item.state = 'checking';
+      },
+      onInterrupted() {
+        if (item.state === 'sending' || item.state === 'checking') item.message = RESUMING;
+      },
     });
     try {
       item.clip = await item.handle.done;

@@ -49,19 +49,28 @@ describe('inviting a person', () => {
     const text = (await page.textContent('[data-test="mail-text"]')) ?? '';
     expect(text).toContain(`${admin.name} invited you to Kinefold as a curator`);
     const link = text.match(/\S+\/invite\/[A-Za-z0-9_-]{43}/)?.[0] ?? '';
-    expect(link.startsWith(`${server.config.publicUrl}/invite/`)).toBe(true);
+    // No KINEFOLD_PUBLIC_URL is set: links are derived from the port this server listens on (PORT), so they reach it.
+    expect(server.config.publicUrlSource).toBe('derived');
+    expect(link.startsWith(`http://localhost:${new URL(server.baseUrl).port}/invite/`)).toBe(true);
     await screenshot(page, 'mail-log');
     await page.getByRole('tab', { name: 'As formatted' }).click();
     const formatted = page.frameLocator('iframe[title="Formatted message"]');
     expect(await formatted.locator('a').first().getAttribute('href')).toBe(link);
     await screenshot(page, 'mail-log-formatted');
+    // The admin works at 127.0.0.1 while links say localhost: Settings shows the public URL and says so.
+    await page.click('[data-test="nav-admin-settings"]');
+    const notice = await page.waitForSelector('[data-test="settings-public-url"]');
+    expect(await notice.textContent()).toContain(server.config.publicUrl);
+    expect(await page.textContent('[data-test="settings-public-url-warning"]')).toContain(
+      `You are using ${server.baseUrl}`,
+    );
+    await screenshot(page, 'settings-public-url');
     await adminContext.close();
 
-    // A fresh context shares nothing with the admin's. Links carry KINEFOLD_PUBLIC_URL; this server listens on
-    // a port of its own, so the link's path is opened there.
+    // A fresh context shares nothing with the admin's; it opens the mailed link itself.
     const inviteeContext = await browser.newContext({ viewport: { width: 1280, height: 800 } });
     const invitee = await inviteeContext.newPage();
-    await invitee.goto(`${server.baseUrl}${new URL(link).pathname}`);
+    await invitee.goto(link);
     await invitee.waitForSelector('[data-test="invitation-form"]');
     expect(await invitee.textContent('[data-test="invitation-form"]')).toContain(INVITEE);
     await invitee.fill('#invitation-name', 'Marit Solberg');
@@ -78,7 +87,7 @@ describe('inviting a person', () => {
 
     const laterContext = await browser.newContext();
     const later = await laterContext.newPage();
-    await later.goto(`${server.baseUrl}${new URL(link).pathname}`);
+    await later.goto(link);
     await later.waitForSelector('[data-test="invitation-unusable"]');
     expect(await later.textContent('[data-test="invitation-unusable"]')).toMatch(/already been used/);
     await laterContext.close();

@@ -17,14 +17,14 @@ export interface TestServer {
   close(): Promise<void>;
 }
 
-/** A fresh storage folder and database per test file, and the same app `npm start` serves. */
+/** A fresh storage folder and database per test file, and the same app `npm start` serves (`env` as it reads). */
 export async function startTestServer(
   overrides: Partial<Config> = {},
-  { clientDir }: { clientDir?: string } = {},
+  { clientDir, env = {} }: { clientDir?: string; env?: NodeJS.ProcessEnv } = {},
 ): Promise<TestServer> {
   const storageDir = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-test-'));
   const config: Config = {
-    ...loadConfig({ KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DEMO: 'off' }),
+    ...loadConfig({ ...env, KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DEMO: 'off' }),
     bcryptCost: 10,
     signInLimitPerIp: 1000,
     signInLimitPerAccount: 1000,

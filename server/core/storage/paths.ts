@@ -12,6 +12,10 @@ export function storagePaths(root: string) {
     root,
     incomingDir: path.join(root, 'incoming'),
     incomingFile: (uploadId: string) => path.join(root, 'incoming', `${uploadId}.part`),
+    /** Resumable (tus) uploads: `<id>` holds the bytes received so far, `<id>.json` what the upload declared. */
+    resumableDir: path.join(root, 'incoming', RESUMABLE_DIR),
+    resumableFile: (uploadId: string) => path.join(root, 'incoming', RESUMABLE_DIR, uploadId),
+    resumableInfo: (uploadId: string) => path.join(root, 'incoming', RESUMABLE_DIR, `${uploadId}.json`),
     pairsetsDir: path.join(root, 'pairsets'),
     /** The shards and pairset.json of a built pairset. */
     pairsetDir: (pairsetId: number) => path.join(root, 'pairsets', String(pairsetId)),
@@ -33,6 +37,8 @@ export function storagePaths(root: string) {
 }
 export type StoragePaths = ReturnType<typeof storagePaths>;
 
+/** The folder of resumable uploads inside `incoming/`: they outlive a restart, unlike the other partial files. */
+export const RESUMABLE_DIR = 'resumable';
 /** Work folders start with this, so leftovers of a crashed attempt are found and removed by name. */
 export const WORK_DIR_PREFIX = 'work-';
 export const PAIRSET_MANIFEST = 'pairset.json';

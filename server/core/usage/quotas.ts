@@ -45,8 +45,14 @@ function overQuota(what: string, quota: number, used: number, bytes: number): Ap
 /**
  * Holds `bytes` against the project's and the uploader's quotas before any of the upload is read. The check and
  * the hold happen in one IMMEDIATE transaction, so two uploads can never both see room that only one fits.
+ * A resumable upload passes its own id, so its reservation is found by the upload's id.
  */
-export async function reserveUpload(projectId: number, userId: number, bytes: number): Promise<string> {
+export async function reserveUpload(
+  projectId: number,
+  userId: number,
+  bytes: number,
+  id: string = randomUUID(),
+): Promise<string> {
   return Project.sequelize!.transaction(async (transaction) => {
     const project = await Project.findByPk(projectId, { transaction });
     if (!project) throw notFound(`Project ${projectId}`);
@@ -65,7 +71,6 @@ export async function reserveUpload(projectId: number, userId: number, bytes: nu
       const used = usage.stored + usage.reserved;
       if (used + bytes > Number(user.quotaBytes)) throw overQuota('Your', Number(user.quotaBytes), used, bytes);
     }
-    const id = randomUUID();
     await UploadReservation.create({ id, projectId, userId, bytes }, { transaction });
     return id;
   });
