@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Clip, Project, UploadReservation } from '../../server/core/models';
 import { probeUpload } from '../../server/core/media/clip-probe';
 import { storagePaths } from '../../server/core/storage/paths';
-import { predictDerivedBytes } from '../../server/core/usage/derived-bytes';
+import { predictDerivedBytesOf } from '../../server/core/usage/derived-bytes';
 import { signInOverHttp } from '../helpers/http-session';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
@@ -53,7 +53,7 @@ describe('many uploads at once', () => {
     // the reservations taken as the bodies arrive (the request's Content-Length) are smaller, so admission must
     // refuse what the reservations let through.
     const { probe } = await probeUpload(files[0]!, 'row.mp4');
-    const predicted = predictDerivedBytes(probe, { sampleFps: 5, workingSize: 320 });
+    const predicted = await predictDerivedBytesOf(files[0]!, probe, { sampleFps: 5, workingSize: 320 });
     const hold = fs.statSync(files[0]!).size + predicted;
     expect(predicted).toBeGreaterThan(uploadBody(0, files[0]!).body.length);
     const quotaBytes = FITTING * hold + hold / 2;

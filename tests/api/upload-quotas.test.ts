@@ -8,7 +8,7 @@ import { Clip, Project, UploadReservation, User } from '../../server/core/models
 import { cleanStaleUploads } from '../../server/core/usage/storage-hygiene';
 import { probeUpload } from '../../server/core/media/clip-probe';
 import { storagePaths } from '../../server/core/storage/paths';
-import { predictDerivedBytes } from '../../server/core/usage/derived-bytes';
+import { predictDerivedBytesOf } from '../../server/core/usage/derived-bytes';
 import { signInOverHttp } from '../helpers/http-session';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
@@ -82,7 +82,7 @@ describe('upload quotas', () => {
     const holds = await Promise.all(
       files.map(async (file) => {
         const { probe } = await probeUpload(file, path.basename(file));
-        return fs.statSync(file).size + predictDerivedBytes(probe, { sampleFps: 5, workingSize: 320 });
+        return fs.statSync(file).size + (await predictDerivedBytesOf(file, probe, { sampleFps: 5, workingSize: 320 }));
       }),
     );
     const project = await newProject('Creek block', Math.max(...holds) + Math.max(...requests) + 100);

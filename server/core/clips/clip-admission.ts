@@ -9,7 +9,7 @@ import { recordAudit } from '../audit/audit';
 import { probeUpload } from '../media/clip-probe';
 import { checkQuotaThresholds } from '../usage/quota-warnings';
 import { holdClipBytes, releaseUpload } from '../usage/quotas';
-import { predictDerivedBytes } from '../usage/derived-bytes';
+import { predictDerivedBytesOf } from '../usage/derived-bytes';
 import { readProjectSettings } from '../projects/project-settings';
 import { discardUpload, type ReceivedUpload } from './received-upload';
 import { enqueueJob } from '../jobs/enqueue';
@@ -74,12 +74,12 @@ interface ClipFacts {
   ext: string;
 }
 
-/** The project's sampling rate and working size applied to the probe (usage/derived-bytes.ts). */
-async function predictedDerivedBytes(projectId: number, probe: ClipFacts['probe']): Promise<number> {
+/** The project's sampling rate and working size applied to the file and its probe (usage/derived-bytes.ts). */
+async function predictedDerivedBytes(file: string, projectId: number, probe: ClipFacts['probe']): Promise<number> {
   const project = await Project.findByPk(projectId);
   const read = project && readProjectSettings(project);
   if (!read || 'problem' in read) return 0;
-  return predictDerivedBytes(probe, read.settings);
+  return predictDerivedBytesOf(file, probe, read.settings);
 }
 
 async function commitClip(
@@ -90,7 +90,7 @@ async function commitClip(
 ): Promise<Clip> {
   const { fields } = upload;
   let clipId: number | null = null;
-  const predicted = await predictedDerivedBytes(fields.projectId, facts.probe);
+  const predicted = await predictedDerivedBytes(upload.path, fields.projectId, facts.probe);
   const clip = await Clip.sequelize!.transaction(async (transaction) => {
     await holdClipBytes(
       {

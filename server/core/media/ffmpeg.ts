@@ -85,6 +85,29 @@ export async function decodeFirstFrame(file: string, timeoutMs: number): Promise
   }
 }
 
+/**
+ * Lossless WebP at libwebp's fastest method, as frames are stored: measured on demo footage (bench:storage), a third
+ * smaller than PNG and quicker to write; higher methods save a further 6 % at three times the time.
+ */
+const LOSSLESS_WEBP = ['-c:v', 'libwebp', '-lossless', '1', '-compression_level', '0', '-pix_fmt', 'bgra'];
+
+/**
+ * Bytes of the frame at `atS` seconds as the sample stage would store it (scaled to `size`, lossless WebP): a
+ * sample of how well this footage compresses, for the admission's prediction of its derived bytes. Seeks before
+ * the input, so it decodes from the nearest key frame only.
+ */
+export async function storedFrameBytes(file: string, atS: number, size: FrameSize, timeoutMs: number) {
+  const { stdout } = await run(
+    ffmpegInstaller.path,
+    [
+      ...['-v', 'error', '-nostdin', '-ss', atS.toFixed(3), '-i', file, '-map', '0:v:0', '-frames:v', '1'],
+      ...['-vf', `scale=${size.width}:${size.height}`, ...LOSSLESS_WEBP, '-f', 'webp', '-'],
+    ],
+    { timeout: timeoutMs, maxBuffer: MAX_OUTPUT, killSignal: 'SIGKILL', encoding: 'buffer' },
+  );
+  return stdout.length;
+}
+
 function firstLine(text: string | undefined): string {
   return (text ?? '').trim().split('\n')[0] ?? '';
 }
@@ -146,12 +169,6 @@ export async function encodePreview(source: string, output: string, size: FrameS
     .output(output);
   await runCommand(command, options);
 }
-
-/**
- * Lossless WebP at libwebp's fastest method: measured on demo footage (bench:storage), a third smaller than PNG and
- * quicker to write; higher methods save a further 6 % at three times the time.
- */
-const LOSSLESS_WEBP = ['-c:v', 'libwebp', '-lossless', '1', '-compression_level', '0', '-pix_fmt', 'bgra'];
 
 /**
  * Frames at `fps` per second of the input's timeline as lossless WebP files named by `pattern` (`%06d` numbered
