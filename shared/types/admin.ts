@@ -28,9 +28,15 @@ export interface JobSummary {
   stage: string | null;
   progress: number;
   error: string | null;
+  /** Due: when the job may run (a digest waits for its hour, a failed attempt for its backoff). */
   runAfter: string;
   createdAt: string;
+  /** When the latest attempt started and ended, and its length in seconds (so far, while running). */
+  startedAt: string | null;
   finishedAt: string | null;
+  durationS: number | null;
+  /** The worker running the job, or the one that ran its latest attempt. */
+  worker: string | null;
 }
 
 export interface AuditEntry {
