@@ -6,7 +6,6 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { admitUpload } from '../../server/core/clips/clip-admission';
 import { Project, User } from '../../server/core/models';
-import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import { storagePaths } from '../../server/core/storage/paths';
 import { reserveUpload } from '../../server/core/usage/quotas';
 import type { Role } from '../../shared/roles';
@@ -14,7 +13,7 @@ import { launchBrowser, screenshot, signedInAsDemo } from '../helpers/browser';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { startRunningServer, type RunningServer } from '../helpers/running-server';
-import { horizontalOverflow, seriousAxeFindings } from '../helpers/screen-checks';
+import { horizontalOverflow, seriousAxeFindings } from './screen-checks';
 
 /**
  * Every main screen on a phone (390×844) and a tablet (768×1024): nothing reaches past the window's right edge,
@@ -92,6 +91,7 @@ const SCREENS: { role: Role; path: () => string; ready: string }[] = [
   { role: 'admin', path: () => '/admin/jobs', ready: '[data-test="jobs-table"] tbody tr' },
   { role: 'admin', path: () => '/admin/audit', ready: '[data-test="audit-table"] tbody tr' },
   { role: 'admin', path: () => '/admin/settings', ready: '[data-test="settings"]' },
+  { role: 'admin', path: () => '/api-tokens', ready: '[data-test="all-tokens-table"]' },
   { role: 'admin', path: () => '/mail', ready: '[data-test="mail-table"]' },
 ];
 
