@@ -26,7 +26,15 @@ const DATE_TIME_FORMS = [
   'MMM d, yyyy h:mm a',
   'MMMM d, yyyy h:mm a',
 ];
-const DATE_FORMS = ['yyyy-MM-dd', 'yyyy/MM/dd', 'yyyy.MM.dd', 'd MMM yyyy', 'd MMMM yyyy', 'MMM d, yyyy', 'MMMM d, yyyy'];
+const DATE_FORMS = [
+  'yyyy-MM-dd',
+  'yyyy/MM/dd',
+  'yyyy.MM.dd',
+  'd MMM yyyy',
+  'd MMMM yyyy',
+  'MMM d, yyyy',
+  'MMMM d, yyyy',
+];
 
 /** A time that carries its own zone: ISO 8601 with `Z` or a ±hh:mm offset. */
 const ISO_WITH_ZONE = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+-]\d{2}:?\d{2})$/i;

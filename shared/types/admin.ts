@@ -57,4 +57,8 @@ export interface RetentionPreview {
   retentionDays: number | null;
   clips: { clipId: number; originalName: string; rejectedAt: string; bytes: number }[];
   totalBytes: number;
+  /** Not due yet but within the longest look-ahead window, soonest first, with when each comes due. */
+  upcoming: { clipId: number; originalName: string; dueAt: string; bytes: number }[];
+  /** Clips and bytes coming due within each look-ahead window (7 and 30 days), not counting those due now. */
+  windows: { days: number; clips: number; bytes: number }[];
 }

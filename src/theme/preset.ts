@@ -56,7 +56,11 @@ export const KinefoldPreset = definePreset(Aura, {
       colorScheme: {
         light: {
           root: { danger: solid('red'), warn: solid('orange'), success: solid('green') },
-          outlined: { danger: { color: '{red.700}' }, warn: { color: '{orange.700}' }, success: { color: '{green.700}' } },
+          outlined: {
+            danger: { color: '{red.700}' },
+            warn: { color: '{orange.700}' },
+            success: { color: '{green.700}' },
+          },
           text: { danger: { color: '{red.700}' }, warn: { color: '{orange.700}' }, success: { color: '{green.700}' } },
         },
       },

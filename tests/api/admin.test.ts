@@ -17,6 +17,7 @@ import { checkQuotaThresholds } from '../../server/core/usage/quota-warnings';
 import { storagePaths } from '../../server/core/storage/paths';
 import { csvField } from '../../server/core/audit/audit-log';
 import { enqueueJob } from '../../server/core/jobs/enqueue';
+import { retentionCandidates } from '../../server/core/clips/retention';
 import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
@@ -314,6 +315,37 @@ describe('retention of rejected footage', () => {
     expect(fs.existsSync(storagePaths(server.storageDir).clipDir(accepted.id))).toBe(true);
     expect(await AuditEvent.count({ where: { action: 'clip.purge', targetId: String(rejected.id) } })).toBe(1);
     expect((await preview()).body.clips).toEqual([]);
+  });
+
+  it('previews what comes due in the next 7 and 30 days, and each clip moves to due now when its day comes', async () => {
+    const project = (await Project.findByPk(projectId))!;
+    const recent = (await Clip.findOne({ where: { originalName: 'recent.mp4' } }))!;
+    const verdict = (await Verdict.findOne({ where: { clipId: recent.id, supersededAt: null } }))!;
+    const bytes = Number(recent.storedBytes);
+    const dayMs = 24 * 3600_000;
+    await project.update({ retentionDays: 25 });
+    const dueAt = new Date(verdict.at.getTime() + 25 * dayMs);
+
+    const today = (await admin.agent.get(`/api/admin/retention/preview?projectId=${projectId}`).expect(200)).body;
+    expect(today.clips).toEqual([]);
+    expect(today.upcoming).toEqual([
+      { clipId: recent.id, originalName: 'recent.mp4', bytes, dueAt: dueAt.toISOString() },
+    ]);
+    expect(today.windows).toEqual([
+      { days: 7, clips: 0, bytes: 0 },
+      { days: 30, clips: 1, bytes },
+    ]);
+    // Twenty days on, it is five days from due: inside both windows.
+    const later = await retentionCandidates(projectId, new Date(verdict.at.getTime() + 20 * dayMs));
+    expect(later.windows).toEqual([
+      { days: 7, clips: 1, bytes },
+      { days: 30, clips: 1, bytes },
+    ]);
+    // On its day it is due now, the same list the run purges, and no longer upcoming.
+    const due = await retentionCandidates(projectId, dueAt);
+    expect(due.clips.map((clip) => clip.clipId)).toEqual([recent.id]);
+    expect(due.upcoming).toEqual([]);
+    await project.update({ retentionDays: null });
   });
 });
 

@@ -213,7 +213,7 @@ describe('Authorization: Bearer', () => {
 });
 
 describe("an admin and everyone's tokens", () => {
-  it('lists every person\'s tokens with their owner, and revokes another person\'s token', async () => {
+  it("lists every person's tokens with their owner, and revokes another person's token", async () => {
     const admin = await signedInAgent(server, 'admin@example.test');
     const second = await signedInAgent(server, 'second@example.test');
     const theirs = await newToken(second, 'left on the lab machine');

@@ -56,7 +56,10 @@ describe('reading a typed capture time', () => {
   });
 
   it('refuses what it cannot read, with a message that shows the form it wants', () => {
-    expect(read('next tuesday')).toMatchObject({ kind: 'refused', message: expect.stringContaining('2026-04-07 09:15') });
+    expect(read('next tuesday')).toMatchObject({
+      kind: 'refused',
+      message: expect.stringContaining('2026-04-07 09:15'),
+    });
     expect(read('2026-02-30 10:00')).toMatchObject({ kind: 'refused' });
     expect(read('2026-04-07 25:10')).toMatchObject({ kind: 'refused' });
     expect(read('07/04/2026 09:15')).toMatchObject({ kind: 'refused', message: expect.stringMatching(/day-first/) });

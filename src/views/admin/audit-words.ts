@@ -60,7 +60,13 @@ function valueWords(value: unknown): string {
 
 /** Splits camelCase and kebab keys into words: `retentionDays` → "retention days". */
 function keyWords(key: string): string {
-  return DETAIL_WORDS[key] ?? key.replace(/([a-z0-9])([A-Z])/g, '$1 $2').replace(/[-_]/g, ' ').toLowerCase();
+  return (
+    DETAIL_WORDS[key] ??
+    key
+      .replace(/([a-z0-9])([A-Z])/g, '$1 $2')
+      .replace(/[-_]/g, ' ')
+      .toLowerCase()
+  );
 }
 
 /** One entry as a sentence, e.g. "Ada Field uploaded clip 12 (file: pass.mp4; size: 1048576)." */
