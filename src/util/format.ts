@@ -27,3 +27,17 @@ export function formatSpan(seconds: number): string {
   if (whole < 3600) return `${Math.floor(whole / 60)} min ${String(whole % 60).padStart(2, '0')} s`;
   return `${Math.floor(whole / 3600)} h ${String(Math.floor((whole % 3600) / 60)).padStart(2, '0')} min`;
 }
+
+const timeOfDay = new Intl.DateTimeFormat(undefined, { timeStyle: 'medium' });
+const dayAndTime = new Intl.DateTimeFormat(undefined, {
+  month: 'short',
+  day: 'numeric',
+  hour: '2-digit',
+  minute: '2-digit',
+});
+
+/** A moment in a busy table: the time alone when it is today, else day and time, so columns stay one line. */
+export function formatMoment(iso: string, now = new Date()): string {
+  const at = new Date(iso);
+  return at.toDateString() === now.toDateString() ? timeOfDay.format(at) : dayAndTime.format(at);
+}
