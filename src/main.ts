@@ -11,7 +11,11 @@ import './theme/base.css';
 const app = createApp(App);
 app.use(createPinia());
 app.use(router);
-app.use(PrimeVue, { theme: { preset: KinefoldPreset, options: { darkModeSelector: '.kf-dark' } } });
+app.use(PrimeVue, {
+  theme: { preset: KinefoldPreset, options: { darkModeSelector: '.kf-dark' } },
+  // A password box is a text box: ARIA does not allow aria-expanded on it (WCAG 4.1.2), strength meter or not.
+  pt: { password: { pcInputText: { root: { 'aria-expanded': undefined } } } },
+});
 app.use(ToastService);
 app.use(ConfirmationService);
 app.mount('#app');

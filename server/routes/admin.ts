@@ -2,12 +2,16 @@ import { Router, type Request, type Response } from 'express';
 import type { z } from 'zod';
 import { HttpStatus } from '../../shared/http-status';
 import { retentionQuerySchema, retentionRunSchema, type RetentionQuery } from '../../shared/schemas/admin';
+import { allTokensQuerySchema, type AllTokensQuery } from '../../shared/schemas/tokens';
+import type { ListPage } from '../../shared/api-types';
 import type { RetentionPreview, UsageReport } from '../../shared/types/admin';
+import type { OwnedApiTokenSummary } from '../../shared/types/pairsets';
 import { currentUser, requireRole } from '../middlewares/auth';
 import { validated } from '../middlewares/validate';
 import { requestReconcile } from '../core/usage/reconcile-requests';
 import { requestRetentionRun, retentionCandidates } from '../core/clips/retention';
 import { usageReport } from '../core/usage/usage';
+import { listAllApiTokens } from '../core/people/api-tokens';
 import type { StoragePaths } from '../core/storage/paths';
 
 export function createAdminRouter(paths: StoragePaths): Router {
@@ -20,7 +24,17 @@ export function createAdminRouter(paths: StoragePaths): Router {
     validated({ query: retentionQuerySchema }, getRetentionPreview),
   );
   router.post('/retention/run', requireRole('admin'), validated({ body: retentionRunSchema }, postRetentionRun));
+  router.get('/tokens', requireRole('admin'), validated({ query: allTokensQuerySchema }, getAllTokens));
   return router;
+}
+
+/** Everyone's API tokens; revoking one goes through `DELETE /api/tokens/:id`, which admins may use on any token. */
+async function getAllTokens(
+  { query }: { query: AllTokensQuery },
+  _req: Request,
+  res: Response<ListPage<OwnedApiTokenSummary>>,
+): Promise<void> {
+  res.json(await listAllApiTokens(query));
 }
 
 async function getRetentionPreview(

@@ -22,8 +22,11 @@ const auditFilters = {
 export const auditListQuerySchema = listQuerySchema(['at', 'action']).extend(auditFilters);
 export type AuditListQuery = z.infer<typeof auditListQuerySchema>;
 
-/** The CSV export takes the same filters, without paging: it streams everything that matches. */
-export const auditExportQuerySchema = z.strictObject(auditFilters);
+/**
+ * The CSV export takes the same filters and sort, without paging: it streams everything that matches, in the
+ * order the screen shows (newest first unless sorted otherwise).
+ */
+export const auditExportQuerySchema = z.strictObject({ ...auditFilters, sort: auditListQuerySchema.shape.sort });
 export type AuditExportQuery = z.infer<typeof auditExportQuerySchema>;
 
 const projectId = z.coerce

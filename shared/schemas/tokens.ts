@@ -12,3 +12,9 @@ export const TOKEN_SORT_FIELDS = ['createdAt', 'name', 'lastUsedAt'] as const;
 /** `GET /api/tokens`: the signed-in person's own tokens, newest first unless asked otherwise. */
 export const tokenListQuerySchema = listQuerySchema(TOKEN_SORT_FIELDS);
 export type TokenListQuery = z.infer<typeof tokenListQuerySchema>;
+
+/** `GET /api/admin/tokens`: every person's tokens, for an admin to see and revoke; `userId` narrows to one owner. */
+export const allTokensQuerySchema = listQuerySchema(TOKEN_SORT_FIELDS).extend({
+  userId: z.coerce.number().int().positive().optional(),
+});
+export type AllTokensQuery = z.infer<typeof allTokensQuerySchema>;

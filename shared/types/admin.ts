@@ -29,9 +29,15 @@ export interface JobSummary {
   stage: string | null;
   progress: number;
   error: string | null;
+  /** Due: when the job may run (a digest waits for its hour, a failed attempt for its backoff). */
   runAfter: string;
   createdAt: string;
+  /** When the latest attempt started and ended, and its length in seconds (so far, while running). */
+  startedAt: string | null;
   finishedAt: string | null;
+  durationS: number | null;
+  /** The worker running the job, or the one that ran its latest attempt. */
+  worker: string | null;
 }
 
 export interface AuditEntry {
@@ -52,6 +58,10 @@ export interface RetentionPreview {
   retentionDays: number | null;
   clips: { clipId: number; originalName: string; rejectedAt: string; bytes: number }[];
   totalBytes: number;
+  /** Not due yet but within the longest look-ahead window, soonest first, with when each comes due. */
+  upcoming: { clipId: number; originalName: string; dueAt: string; bytes: number }[];
+  /** Clips and bytes coming due within each look-ahead window (7 and 30 days), not counting those due now. */
+  windows: { days: number; clips: number; bytes: number }[];
 }
 
 /** The base of every link Kinefold mails, and whether an admin set it or the server derived it from its port. */

@@ -128,6 +128,13 @@ export interface ApiTokenSummary {
   createdAt: string;
 }
 
+/** A token with whose it is, as an admin's list of everyone's tokens shows it. */
+export interface OwnedApiTokenSummary extends ApiTokenSummary {
+  ownerId: number;
+  ownerName: string;
+  ownerEmail: string;
+}
+
 /** The answer to `POST /api/tokens`: the only time the whole token is shown. */
 export interface CreatedApiToken extends ApiTokenSummary {
   token: string;

@@ -16,6 +16,8 @@ import {
 import { checkQuotaThresholds } from '../../server/core/usage/quota-warnings';
 import { storagePaths } from '../../server/core/storage/paths';
 import { csvField } from '../../server/core/audit/audit-log';
+import { enqueueJob } from '../../server/core/jobs/enqueue';
+import { retentionCandidates } from '../../server/core/clips/retention';
 import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
@@ -111,6 +113,35 @@ describe('jobs', () => {
     expect((await Clip.findByPk(clipId))?.state).toBe('awaiting_review');
     expect(await AuditEvent.count({ where: { action: 'job.cancel' } })).toBe(1);
   });
+
+  it('gives each job its due time, start, finish, duration and worker, and names what a digest is for', async () => {
+    const { body } = await admin.agent.get('/api/jobs?kind=process-clip&state=done').expect(200);
+    const done = body.items[0];
+    const row = (await Job.findByPk(done.id))!;
+    expect(done).toMatchObject({
+      worker: 'test-worker',
+      startedAt: row.startedAt!.toISOString(),
+      finishedAt: row.finishedAt!.toISOString(),
+      runAfter: row.runAfter.toISOString(),
+    });
+    expect(Date.parse(done.startedAt)).toBeLessThanOrEqual(Date.parse(done.finishedAt));
+    expect(done.durationS).toBeCloseTo((Date.parse(done.finishedAt) - Date.parse(done.startedAt)) / 1000, 6);
+
+    const due = new Date(Math.floor(Date.now() / 1000) * 1000 + 3600_000);
+    const digest = await server.sequelize.transaction((transaction) =>
+      enqueueJob('send-rejection-digest', { uploaderId: operatorId }, { transaction, runAfter: due }),
+    );
+    const queued = await admin.agent.get('/api/jobs?kind=send-rejection-digest&state=queued').expect(200);
+    expect(queued.body.items.find((job: { id: number }) => job.id === digest.id)).toMatchObject({
+      target: `uploader ${operatorId}`,
+      runAfter: due.toISOString(),
+      startedAt: null,
+      finishedAt: null,
+      durationS: null,
+      worker: null,
+    });
+    await digest.destroy();
+  });
 });
 
 describe('usage and reconciliation', () => {
@@ -201,6 +232,28 @@ describe('audit log', () => {
     expect(lines.some((line) => line.includes(',job.cancel,job,'))).toBe(true);
   });
 
+  it('exports in the order the screen lists: newest first, or as sorted', async () => {
+    const idsOf = (csvText: string) =>
+      csvText
+        .trim()
+        .split('\r\n')
+        .slice(1)
+        .map((line) => line.split(',').slice(0, 3).join(','));
+    const shown = (items: { at: string; actorName: string | null; action: string }[]) =>
+      items.map((entry) => [entry.at, entry.actorName ?? 'Kinefold', entry.action].join(','));
+    for (const sort of ['', '-at', 'at', 'action']) {
+      const query = sort ? `?sort=${sort}` : '';
+      const list = await admin.agent.get(`/api/audit${query}${query ? '&' : '?'}pageSize=200`).expect(200);
+      expect(list.body.total).toBeGreaterThan(2);
+      const csv = await admin.agent.get(`/api/audit.csv${query}`).expect(200);
+      expect(idsOf(csv.text), `sort=${sort}`).toEqual(shown(list.body.items));
+    }
+    const newestFirst = (await admin.agent.get('/api/audit.csv').expect(200)).text.trim().split('\r\n').slice(1);
+    const times = newestFirst.map((line) => line.split(',')[0]!);
+    expect([...times].sort().reverse()).toEqual(times);
+    await admin.agent.get('/api/audit.csv?sort=size').expect(400);
+  });
+
   it('quotes CSV fields per RFC 4180 and defuses spreadsheet formulas', () => {
     expect(csvField('plain')).toBe('plain');
     expect(csvField('a,b')).toBe('"a,b"');
@@ -262,6 +315,37 @@ describe('retention of rejected footage', () => {
     expect(fs.existsSync(storagePaths(server.storageDir).clipDir(accepted.id))).toBe(true);
     expect(await AuditEvent.count({ where: { action: 'clip.purge', targetId: String(rejected.id) } })).toBe(1);
     expect((await preview()).body.clips).toEqual([]);
+  });
+
+  it('previews what comes due in the next 7 and 30 days, and each clip moves to due now when its day comes', async () => {
+    const project = (await Project.findByPk(projectId))!;
+    const recent = (await Clip.findOne({ where: { originalName: 'recent.mp4' } }))!;
+    const verdict = (await Verdict.findOne({ where: { clipId: recent.id, supersededAt: null } }))!;
+    const bytes = Number(recent.storedBytes);
+    const dayMs = 24 * 3600_000;
+    await project.update({ retentionDays: 25 });
+    const dueAt = new Date(verdict.at.getTime() + 25 * dayMs);
+
+    const today = (await admin.agent.get(`/api/admin/retention/preview?projectId=${projectId}`).expect(200)).body;
+    expect(today.clips).toEqual([]);
+    expect(today.upcoming).toEqual([
+      { clipId: recent.id, originalName: 'recent.mp4', bytes, dueAt: dueAt.toISOString() },
+    ]);
+    expect(today.windows).toEqual([
+      { days: 7, clips: 0, bytes: 0 },
+      { days: 30, clips: 1, bytes },
+    ]);
+    // Twenty days on, it is five days from due: inside both windows.
+    const later = await retentionCandidates(projectId, new Date(verdict.at.getTime() + 20 * dayMs));
+    expect(later.windows).toEqual([
+      { days: 7, clips: 1, bytes },
+      { days: 30, clips: 1, bytes },
+    ]);
+    // On its day it is due now, the same list the run purges, and no longer upcoming.
+    const due = await retentionCandidates(projectId, dueAt);
+    expect(due.clips.map((clip) => clip.clipId)).toEqual([recent.id]);
+    expect(due.upcoming).toEqual([]);
+    await project.update({ retentionDays: null });
   });
 });
 

@@ -211,3 +211,35 @@ describe('Authorization: Bearer', () => {
     await bearer(token).get('/api/pairsets').expect(200);
   });
 });
+
+describe("an admin and everyone's tokens", () => {
+  it("lists every person's tokens with their owner, and revokes another person's token", async () => {
+    const admin = await signedInAgent(server, 'admin@example.test');
+    const second = await signedInAgent(server, 'second@example.test');
+    const theirs = await newToken(second, 'left on the lab machine');
+    // Signed out 401, an engineer 403, a bad query 400.
+    await request(server.app).get('/api/admin/tokens').expect(401);
+    await engineer.agent.get('/api/admin/tokens').expect(403);
+    await admin.agent.get('/api/admin/tokens?sort=owner').expect(400);
+
+    const all = await admin.agent.get('/api/admin/tokens?pageSize=200').expect(200);
+    expect(all.body.total).toBe(await ApiToken.count());
+    const owners = new Set(all.body.items.map((item: { ownerEmail: string }) => item.ownerEmail));
+    expect(owners).toEqual(new Set(['engineer@example.test', 'second@example.test']));
+    expect(all.body.items.find((item: { id: number }) => item.id === theirs.id)).toMatchObject({
+      name: 'left on the lab machine',
+      ownerName: 'Test engineer',
+      ownerEmail: 'second@example.test',
+      revokedAt: null,
+    });
+    expect(JSON.stringify(all.body)).not.toContain(theirs.token);
+    const secondId = (await User.findByEmail('second@example.test'))!.id;
+    const narrowed = await admin.agent.get(`/api/admin/tokens?userId=${secondId}`).expect(200);
+    expect(narrowed.body.items.every((item: { ownerId: number }) => item.ownerId === secondId)).toBe(true);
+
+    await admin.agent.delete(`/api/tokens/${theirs.id}`).set('x-csrf-token', admin.csrf).expect(200);
+    await bearer(theirs.token).get('/api/pairsets').expect(401);
+    const audit = await AuditEvent.findOne({ where: { action: 'token.revoke', targetId: String(theirs.id) } });
+    expect(audit!.detail).toMatchObject({ ownerId: secondId });
+  });
+});

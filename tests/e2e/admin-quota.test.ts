@@ -61,6 +61,8 @@ describe('an admin lowering a project quota', () => {
     expect(await page.textContent('[data-test="upload-quota"]')).toMatch(/of the project's 10\.2 KiB quota used/);
     await page.setInputFiles('input[type="file"]', [clip]);
     await page.click('[data-test="upload-start"]');
+    // No capture time: the batch asks once before it goes.
+    await page.click('.p-confirmdialog-accept-button');
     await page.waitForSelector('[data-test="upload-state-terrace-late.mp4"]:has-text("refused")');
     expect(await page.textContent('[data-test="upload-message-terrace-late.mp4"]')).toMatch(
       /Project "Terrace quota trial"'s quota of 10\.2 KiB has 10\.2 KiB left; this upload needs/,

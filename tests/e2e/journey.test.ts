@@ -49,6 +49,7 @@ describe('one clip through all four roles', () => {
     await operator.fill('#capture-rig', 'tractor mount');
     await operator.setInputFiles('input[type="file"]', [path.join(media, CLIP)]);
     await operator.click('[data-test="upload-start"]');
+    await operator.click('.p-confirmdialog-accept-button');
     await operator.waitForSelector(`[data-test="upload-state-${CLIP}"]:has-text("created")`);
     const clip = (await Clip.findOne({ where: { originalName: CLIP } }))!;
     expect(clip.state).toBe('queued');

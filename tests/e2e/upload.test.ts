@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Project } from '../../server/core/models';
+import { Clip, Project } from '../../server/core/models';
 import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import { launchBrowser, screenshot, signInThroughForm } from '../helpers/browser';
 import { makeTestClip } from '../helpers/media-fixtures';
@@ -52,6 +52,26 @@ describe('an operator uploading a batch', () => {
     await page.fill('#capture-tags', 'benches');
     await page.keyboard.press('Enter');
     await page.setInputFiles('input[type="file"]', files);
+
+    // Capture time: what cannot be read stays in the field with the reason, and holds the batch back.
+    await page.fill('#capture-at', '07/04/2026 09:15');
+    await page.press('#capture-at', 'Tab');
+    expect(await page.inputValue('#capture-at')).toBe('07/04/2026 09:15');
+    expect(await page.textContent('[data-test="capture-time-reading"]')).toMatch(/day-first or month-first/);
+    expect(await page.isDisabled('[data-test="upload-start"]')).toBe(true);
+    // A date alone is kept as midnight; the picker's own format is kept as typed, in the chosen zone.
+    await page.fill('#capture-at', '2026-04-07');
+    await page.press('#capture-at', 'Tab');
+    expect(await page.inputValue('#capture-at')).toBe('2026-04-07 00:00');
+    expect(await page.textContent('[data-test="capture-time-reading"]')).toMatch(/taken as 00:00/);
+    await page.click('[data-test="capture-time-zone"]');
+    await page.fill('.p-select-filter', 'Berlin');
+    await page.click('li[role="option"]:has-text("Europe/Berlin")');
+    await page.fill('#capture-at', '2026-04-07 09:15');
+    await page.press('#capture-at', 'Tab');
+    expect(await page.inputValue('#capture-at')).toBe('2026-04-07 09:15');
+    // Berlin is on summer time (UTC+2) from the last Sunday of March (EU Directive 2000/84/EC).
+    expect(await page.textContent('[data-test="capture-time-reading"]')).toContain('2026-04-07T09:15:00+02:00');
     await page.click('[data-test="upload-start"]');
     await page.waitForSelector('[data-test="upload-overall"]');
     for (const name of ['bench-row-a.mp4', 'bench-row-b.mp4']) {
@@ -68,6 +88,8 @@ describe('an operator uploading a batch', () => {
     expect(table).toContain('bench-row-b.mp4');
     expect(table?.match(/queued/g)?.length).toBe(2);
     expect(table).toContain('Glasshouse, bench 4');
+    const stored = await Clip.findOne({ where: { originalName: 'bench-row-a.mp4' } });
+    expect(stored!.capturedAt!.toISOString()).toBe('2026-04-07T07:15:00.000Z');
     await screenshot(page, 'upload-clips-queued');
     await page.close();
   });

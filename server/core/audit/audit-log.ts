@@ -38,16 +38,21 @@ function toEntry(event: AuditEvent): AuditEntry {
 
 const ACTOR = { model: User, as: 'actor', attributes: ['name'] };
 
+/** The screen's order: `sort` as `field` or `-field`, newest first when none is given; id breaks ties. */
+function orderOf(sort: string | undefined): [string, 'ASC' | 'DESC'][] {
+  const direction = sort?.startsWith('-') || !sort ? 'DESC' : 'ASC';
+  const field = sort?.replace(/^-/, '') ?? 'at';
+  return [
+    [field, direction],
+    ['id', direction],
+  ];
+}
+
 export async function listAudit(query: AuditListQuery): Promise<ListPage<AuditEntry>> {
-  const direction = query.sort?.startsWith('-') || !query.sort ? 'DESC' : 'ASC';
-  const field = query.sort?.replace(/^-/, '') ?? 'at';
   const { rows, count } = await AuditEvent.findAndCountAll({
     where: whereOf(query),
     include: [ACTOR],
-    order: [
-      [field, direction],
-      ['id', direction],
-    ],
+    order: orderOf(query.sort),
     limit: query.pageSize,
     offset: (query.page - 1) * query.pageSize,
   });
@@ -63,16 +68,22 @@ export function csvField(value: string): string {
   return /[",\r\n]/.test(guarded) ? `"${guarded.replace(/"/g, '""')}"` : guarded;
 }
 
-/** Every matching event as CSV lines, oldest first, read in batches so a long trail never sits in memory. */
+/**
+ * Every matching event as CSV lines in the screen's order (newest first unless sorted otherwise), read in batches
+ * so a long trail never sits in memory. Batches are taken below the first row's id, so events recorded while the
+ * export runs neither shift the pages nor appear half-way.
+ */
 export async function* auditCsvLines(query: AuditExportQuery): AsyncGenerator<string> {
   yield 'at,actor,action,target type,target id,detail\r\n';
-  let afterId = 0;
-  for (;;) {
+  const newest = await AuditEvent.max<number, AuditEvent>('id');
+  if (!newest) return;
+  for (let offset = 0; ; offset += EXPORT_BATCH) {
     const batch = await AuditEvent.findAll({
-      where: { ...whereOf(query), id: { [Op.gt]: afterId } } as WhereOptions<AuditEvent>,
+      where: { ...whereOf(query), id: { [Op.lte]: newest } } as WhereOptions<AuditEvent>,
       include: [ACTOR],
-      order: [['id', 'ASC']],
+      order: orderOf(query.sort),
       limit: EXPORT_BATCH,
+      offset,
     });
     for (const event of batch) {
       const entry = toEntry(event);
@@ -88,6 +99,5 @@ export async function* auditCsvLines(query: AuditExportQuery): AsyncGenerator<st
         .join(',')}\r\n`;
     }
     if (batch.length < EXPORT_BATCH) return;
-    afterId = batch[batch.length - 1]!.id;
   }
 }

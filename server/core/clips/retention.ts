@@ -6,25 +6,19 @@ import { recordAudit } from '../audit/audit';
 import { enqueueJob } from '../jobs/enqueue';
 
 const DAY_MS = 24 * 3600_000;
+/** How far ahead the preview looks: the windows the storage screen reports. */
+export const RETENTION_LOOKAHEAD_DAYS = [7, 30] as const;
 
-/**
- * What retention would purge in a project now: rejected clips whose reject verdict in force is older than the
- * project's retention days and whose files are still there. Accepted clips never appear: only `rejected` counts.
- * The preview and the run use this same query, so the preview is exactly what the run deletes.
- */
-export async function retentionCandidates(projectId: number, now = new Date()): Promise<RetentionPreview> {
-  const project = await Project.findByPk(projectId);
-  if (!project) throw notFound(`Project ${projectId}`);
-  if (project.retentionDays === null || project.retentionDays === undefined) {
-    return { projectId, retentionDays: null, clips: [], totalBytes: 0 };
-  }
-  const cutoff = new Date(now.getTime() - project.retentionDays * DAY_MS);
-  const clips = await Project.sequelize!.query<{
-    clipId: number;
-    originalName: string;
-    rejectedAt: string;
-    bytes: number;
-  }>(
+interface RejectedRow {
+  clipId: number;
+  originalName: string;
+  rejectedAt: string;
+  bytes: number;
+}
+
+/** Rejected, unpurged clips of a project whose reject verdict in force was given at or before `cutoff`. */
+async function rejectedBy(projectId: number, cutoff: Date): Promise<RejectedRow[]> {
+  const clips = await Project.sequelize!.query<RejectedRow>(
     `SELECT c.id AS clipId, c.originalName AS originalName, v.at AS rejectedAt, c.storedBytes AS bytes
      FROM clips c JOIN verdicts v ON v.clipId = c.id AND v.supersededAt IS NULL AND v.decision = 'reject'
      WHERE c.projectId = :projectId AND c.state = 'rejected' AND c.purgedAt IS NULL AND v.at <= :cutoff
@@ -34,16 +28,45 @@ export async function retentionCandidates(projectId: number, now = new Date()): 
       type: QueryTypes.SELECT,
     },
   );
-  const rows = clips.map((row) => ({
-    ...row,
-    bytes: Number(row.bytes),
-    rejectedAt: new Date(row.rejectedAt).toISOString(),
-  }));
+  return clips.map((row) => ({ ...row, bytes: Number(row.bytes), rejectedAt: new Date(row.rejectedAt).toISOString() }));
+}
+
+/**
+ * What retention would purge in a project now: rejected clips whose reject verdict in force is older than the
+ * project's retention days and whose files are still there. Accepted clips never appear: only `rejected` counts.
+ * The preview and the run use this same query, so the preview is exactly what the run deletes. `upcoming` lists
+ * what comes due within the longest look-ahead window, with totals per window, should nothing change meanwhile.
+ */
+export async function retentionCandidates(projectId: number, now = new Date()): Promise<RetentionPreview> {
+  const project = await Project.findByPk(projectId);
+  if (!project) throw notFound(`Project ${projectId}`);
+  if (project.retentionDays === null || project.retentionDays === undefined) {
+    return { projectId, retentionDays: null, clips: [], totalBytes: 0, upcoming: [], windows: [] };
+  }
+  const keepMs = project.retentionDays * DAY_MS;
+  const longest = Math.max(...RETENTION_LOOKAHEAD_DAYS);
+  const within = await rejectedBy(projectId, new Date(now.getTime() + longest * DAY_MS - keepMs));
+  const dueAt = (row: RejectedRow) => new Date(Date.parse(row.rejectedAt) + keepMs);
+  const rows = within.filter((row) => dueAt(row) <= now);
+  const upcoming = within
+    .filter((row) => dueAt(row) > now)
+    .map(({ clipId, originalName, bytes, ...row }) => ({
+      clipId,
+      originalName,
+      bytes,
+      dueAt: dueAt(row as RejectedRow),
+    }));
+  const windows = RETENTION_LOOKAHEAD_DAYS.map((days) => {
+    const due = upcoming.filter((row) => row.dueAt.getTime() <= now.getTime() + days * DAY_MS);
+    return { days, clips: due.length, bytes: due.reduce((sum, row) => sum + row.bytes, 0) };
+  });
   return {
     projectId,
     retentionDays: project.retentionDays,
     clips: rows,
     totalBytes: rows.reduce((sum, row) => sum + row.bytes, 0),
+    upcoming: upcoming.map((row) => ({ ...row, dueAt: row.dueAt.toISOString() })),
+    windows,
   };
 }
 

@@ -13,6 +13,7 @@ import * as motionScale from './migrations/0010-motion-scale';
 import * as cutMarks from './migrations/0011-cut-marks';
 import * as storageDiet from './migrations/0012-storage-diet';
 import * as diversity from './migrations/0013-diversity';
+import * as jobTiming from './migrations/0014-job-timing';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -34,6 +35,7 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0011-cut-marks', cutMarks],
   ['0012-storage-diet', storageDiet],
   ['0013-diversity', diversity],
+  ['0014-job-timing', jobTiming],
 ];
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */

@@ -19,7 +19,7 @@ export interface Lease {
 export async function claimJob(owner: string, leaseMs: number, now = new Date()): Promise<Job | null> {
   const rows = await Job.sequelize!.query<{ id: number }>(
     `UPDATE jobs SET state = 'running', leaseOwner = :owner, leaseExpiresAt = :expires, attempts = attempts + 1,
-       updatedAt = :now
+       startedAt = :now, lastWorker = :owner, finishedAt = NULL, updatedAt = :now
      WHERE id = (SELECT id FROM jobs
                  WHERE (state = 'queued' AND runAfter <= :now) OR (state = 'running' AND leaseExpiresAt < :now)
                  ORDER BY runAfter, id LIMIT 1)

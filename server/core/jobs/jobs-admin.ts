@@ -7,16 +7,29 @@ import { Clip, Job, Pairset } from '../models';
 import { recordAudit } from '../audit/audit';
 import { reprocessClip } from '../clips/clip-media';
 
-function toSummary(job: Job): JobSummary {
+/** What a job works on, in words: its clip or pairset, else what its payload names. */
+function targetOf(job: Job): string {
   const clip = job.get('clip') as Clip | null;
+  if (job.clipId) return `clip ${job.clipId}${clip ? ` (${clip.originalName})` : ''}`;
+  if (job.pairsetId) return `pairset ${job.pairsetId}`;
+  const payload = job.payload as Partial<Record<'uploaderId' | 'projectId', number>>;
+  if (job.kind === 'send-rejection-digest' && payload.uploaderId) return `uploader ${payload.uploaderId}`;
+  if (job.kind === 'run-retention' && payload.projectId) return `project ${payload.projectId}`;
+  return 'storage';
+}
+
+/** Seconds the latest attempt took, or has taken so far while it runs; null before it started. */
+function durationOf(job: Job, now: Date): number | null {
+  if (!job.startedAt) return null;
+  const end = job.state === 'running' ? now : job.finishedAt;
+  return end ? Math.max(0, (end.getTime() - job.startedAt.getTime()) / 1000) : null;
+}
+
+function toSummary(job: Job, now = new Date()): JobSummary {
   return {
     id: job.id,
     kind: job.kind,
-    target: job.clipId
-      ? `clip ${job.clipId}${clip ? ` (${clip.originalName})` : ''}`
-      : job.pairsetId
-        ? `pairset ${job.pairsetId}`
-        : 'storage',
+    target: targetOf(job),
     clipId: job.clipId,
     state: job.state,
     attempts: job.attempts,
@@ -28,6 +41,9 @@ function toSummary(job: Job): JobSummary {
     runAfter: job.runAfter.toISOString(),
     createdAt: job.createdAt.toISOString(),
     finishedAt: job.finishedAt?.toISOString() ?? null,
+    startedAt: job.startedAt?.toISOString() ?? null,
+    durationS: durationOf(job, now),
+    worker: job.leaseOwner ?? job.lastWorker,
   };
 }
 
@@ -49,7 +65,8 @@ export async function listJobs(query: JobListQuery): Promise<ListPage<JobSummary
     offset: (query.page - 1) * query.pageSize,
     include: [{ model: Clip, as: 'clip', attributes: ['id', 'originalName'] }],
   });
-  return { items: rows.map(toSummary), total: count, page: query.page, pageSize: query.pageSize };
+  const now = new Date();
+  return { items: rows.map((row) => toSummary(row, now)), total: count, page: query.page, pageSize: query.pageSize };
 }
 
 /**

@@ -24,6 +24,9 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare error: CreationOptional<string | null>;
   declare runAfter: Date;
   declare finishedAt: CreationOptional<Date | null>;
+  /** When the latest attempt was claimed, and by which worker (kept after the lease is let go). */
+  declare startedAt: CreationOptional<Date | null>;
+  declare lastWorker: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -44,6 +47,8 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
         error: { type: DataTypes.TEXT, allowNull: true },
         runAfter: { type: DataTypes.DATE, allowNull: false },
         finishedAt: { type: DataTypes.DATE, allowNull: true },
+        startedAt: { type: DataTypes.DATE, allowNull: true },
+        lastWorker: { type: DataTypes.STRING(100), allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -1,8 +1,8 @@
 import { createHash, randomBytes, timingSafeEqual } from 'node:crypto';
 import type { ListPage } from '../../../shared/api-types';
 import { HttpStatus } from '../../../shared/http-status';
-import type { TokenListQuery } from '../../../shared/schemas/tokens';
-import type { ApiTokenSummary, CreatedApiToken } from '../../../shared/types/pairsets';
+import type { AllTokensQuery, TokenListQuery } from '../../../shared/schemas/tokens';
+import type { ApiTokenSummary, CreatedApiToken, OwnedApiTokenSummary } from '../../../shared/types/pairsets';
 import { AppError, conflict, notFound } from '../errors';
 import { ApiToken, User } from '../models';
 import { recordAudit } from '../audit/audit';
@@ -40,19 +40,40 @@ export async function createApiToken(userId: number, name: string): Promise<Crea
   return { ...created.toApi(), token };
 }
 
+/** Newest first unless `sort` says otherwise; id breaks ties. */
+function tokenOrder(sort: string | undefined): [string, 'ASC' | 'DESC'][] {
+  const field = sort?.replace(/^-/, '') ?? 'createdAt';
+  const direction = sort && !sort.startsWith('-') ? 'ASC' : 'DESC';
+  return [
+    [field, direction],
+    ['id', direction],
+  ];
+}
+
 export async function listApiTokens(userId: number, query: TokenListQuery): Promise<ListPage<ApiTokenSummary>> {
-  const field = query.sort?.replace(/^-/, '') ?? 'createdAt';
-  const direction = query.sort && !query.sort.startsWith('-') ? 'ASC' : 'DESC';
   const { rows, count } = await ApiToken.findAndCountAll({
     where: { userId },
-    order: [
-      [field, direction],
-      ['id', direction],
-    ],
+    order: tokenOrder(query.sort),
     limit: query.pageSize,
     offset: (query.page - 1) * query.pageSize,
   });
   return { items: rows.map((row) => row.toApi()), total: count, page: query.page, pageSize: query.pageSize };
+}
+
+/** Every person's tokens with their owners, for admins: a token left behind by someone can be found and revoked. */
+export async function listAllApiTokens(query: AllTokensQuery): Promise<ListPage<OwnedApiTokenSummary>> {
+  const { rows, count } = await ApiToken.findAndCountAll({
+    where: query.userId ? { userId: query.userId } : {},
+    include: [{ model: User, as: 'user', attributes: ['id', 'name', 'email'] }],
+    order: tokenOrder(query.sort),
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+  });
+  const items = rows.map((row) => {
+    const owner = row.get('user') as User;
+    return { ...row.toApi(), ownerId: owner.id, ownerName: owner.name, ownerEmail: owner.email };
+  });
+  return { items, total: count, page: query.page, pageSize: query.pageSize };
 }
 
 /** Revokes one of the person's own tokens (an admin may revoke anyone's); from then on it answers 401. */
