@@ -6,7 +6,7 @@
 import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import { loadConfig } from '../server/core/config';
-import { openKinefoldDatabase } from '../server/core/db/open';
+import { openKinefoldDatabaseOrExit } from '../server/core/db/open';
 import { storagePaths } from '../server/core/storage/paths';
 import { createFramePool } from './pool/frame-pool';
 import { startDailySchedule } from './runtime/daily-schedule';
@@ -18,7 +18,7 @@ const config = loadConfig();
 // raise its own priority, and one started nicer than this stays so.
 if (os.getPriority() < config.workerNice) os.setPriority(config.workerNice);
 const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
-const sequelize = await openKinefoldDatabase(config, { migrate: false });
+const sequelize = await openKinefoldDatabaseOrExit(config, { migrate: false });
 const pool = createFramePool();
 const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir), pool, owner });
 console.log(

@@ -6,6 +6,8 @@ export type DemoMode = 'full' | 'accounts' | 'off';
 export interface Config {
   port: number;
   storageDir: string;
+  /** `postgres://…` from KINEFOLD_DATABASE_URL: PostgreSQL instead of the SQLite file under the storage root. */
+  databaseUrl: string | null;
   demo: DemoMode;
   smtpUrl: string | null;
   publicUrl: string;
@@ -50,11 +52,20 @@ function parseInteger(name: string, value: string | undefined, fallback: number)
   return parsed;
 }
 
+function parseDatabaseUrl(value: string | undefined): string | null {
+  if (!value) return null;
+  if (!/^postgres(ql)?:\/\/[^/]/.test(value)) {
+    throw new Error('KINEFOLD_DATABASE_URL must be a postgres:// URL (unset it to use SQLite)');
+  }
+  return value;
+}
+
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const publicUrl = env.KINEFOLD_PUBLIC_URL ?? 'http://localhost:3000';
   return {
     port: parseInteger('PORT', env.PORT, 3000),
     storageDir: path.resolve(env.KINEFOLD_STORAGE_DIR ?? 'storage'),
+    databaseUrl: parseDatabaseUrl(env.KINEFOLD_DATABASE_URL),
     demo: parseDemo(env.KINEFOLD_DEMO),
     smtpUrl: env.SMTP_URL || null,
     publicUrl,
