@@ -47,3 +47,12 @@ export function larger(sequelize: Sequelize, a: string, b: string): string {
 export function positionOf(sequelize: Sequelize): 'instr' | 'strpos' {
   return isPostgres(sequelize) ? 'strpos' : 'instr';
 }
+
+/**
+ * The tail of a subquery that picks a row for an UPDATE to take (a job, a message to send). On PostgreSQL the row
+ * is locked as it is picked and rows another transaction is taking are passed over, so two takers never update the
+ * same row and neither waits for the other. SQLite's writers take turns, so its statement needs nothing.
+ */
+export function pickForUpdate(sequelize: Sequelize): string {
+  return isPostgres(sequelize) ? 'FOR UPDATE SKIP LOCKED' : '';
+}

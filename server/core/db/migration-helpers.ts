@@ -34,7 +34,8 @@ export function flagTriggers(sequelize: Sequelize, maskOf: FlagMaskSql) {
   return {
     assignments,
     create: triggers.map(
-      ([name, event]) => `CREATE TRIGGER ${name} ${event} BEGIN UPDATE clips SET ${assignments('NEW.')} WHERE id = NEW.id; END`,
+      ([name, event]) =>
+        `CREATE TRIGGER ${name} ${event} BEGIN UPDATE clips SET ${assignments('NEW.')} WHERE id = NEW.id; END`,
     ),
     drop: triggers.reverse().map(([name]) => `DROP TRIGGER ${name}`),
   };

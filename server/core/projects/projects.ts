@@ -20,8 +20,8 @@ export const PROJECT_DEFAULTS = {
 } as const;
 
 const USAGE_ATTRIBUTES: [ReturnType<typeof literal>, string][] = [
-  [literal('(SELECT COALESCE(SUM(storedBytes), 0) FROM clips WHERE clips.projectId = Project.id)'), 'usedBytes'],
-  [literal('(SELECT COUNT(*) FROM clips WHERE clips.projectId = Project.id)'), 'clipCount'],
+  [literal('(SELECT COALESCE(SUM("storedBytes"), 0) FROM clips WHERE clips."projectId" = "Project".id)'), 'usedBytes'],
+  [literal('(SELECT COUNT(*) FROM clips WHERE clips."projectId" = "Project".id)'), 'clipCount'],
 ];
 
 function toSummary(project: Project): ProjectSummary {

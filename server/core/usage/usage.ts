@@ -18,16 +18,16 @@ export async function usageReport(paths: StoragePaths): Promise<UsageReport> {
     usedBytes: number;
     quotaBytes: number | null;
   }>(
-    `SELECT p.id AS projectId, p.name AS name, p.quotaBytes AS quotaBytes,
-            COALESCE((SELECT SUM(storedBytes) FROM clips c WHERE c.projectId = p.id), 0) AS usedBytes
-     FROM projects p ORDER BY usedBytes DESC, p.name`,
+    `SELECT p.id AS "projectId", p.name AS name, p."quotaBytes" AS "quotaBytes",
+            COALESCE((SELECT SUM("storedBytes") FROM clips c WHERE c."projectId" = p.id), 0) AS "usedBytes"
+     FROM projects p ORDER BY "usedBytes" DESC, p.name`,
     { type: QueryTypes.SELECT },
   );
   const byUser = await sequelize.query<{ userId: number; name: string; usedBytes: number; quotaBytes: number | null }>(
-    `SELECT u.id AS userId, u.name AS name, u.quotaBytes AS quotaBytes,
-            COALESCE((SELECT SUM(storedBytes) FROM clips c WHERE c.uploaderId = u.id), 0)
-              + COALESCE((SELECT SUM(bytes) FROM pairsets s WHERE s.ownerId = u.id), 0) AS usedBytes
-     FROM users u ORDER BY usedBytes DESC, u.name`,
+    `SELECT u.id AS "userId", u.name AS name, u."quotaBytes" AS "quotaBytes",
+            COALESCE((SELECT SUM("storedBytes") FROM clips c WHERE c."uploaderId" = u.id), 0)
+              + COALESCE((SELECT SUM(bytes) FROM pairsets s WHERE s."ownerId" = u.id), 0) AS "usedBytes"
+     FROM users u ORDER BY "usedBytes" DESC, u.name`,
     { type: QueryTypes.SELECT },
   );
   const snapshots = await UsageSnapshot.findAll({ order: [['day', 'DESC']], limit: TREND_DAYS });

@@ -29,9 +29,9 @@ const SIGNAL_COLUMNS = {
 
 const FLAG_COLUMNS = ['flagMask', 'flagCount'];
 const flagMaskOf = (position: string, flags: string) =>
-  FLAG_BITS_AT_0006.map((flag, bit) => `(CASE WHEN ${position}(${flags}, '"${flag}"') > 0 THEN ${2 ** bit} ELSE 0 END)`).join(
-    ' + ',
-  );
+  FLAG_BITS_AT_0006.map(
+    (flag, bit) => `(CASE WHEN ${position}(${flags}, '"${flag}"') > 0 THEN ${2 ** bit} ELSE 0 END)`,
+  ).join(' + ');
 const FILTER_COLUMNS = ['projectId', 'uploaderId', 'site', 'capturedAt', 'flagMask'];
 const SORT_KEYS = [
   'createdAt',
