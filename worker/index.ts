@@ -11,6 +11,7 @@ import { storagePaths } from '../server/core/storage/paths';
 import { createFramePool } from './pool/frame-pool';
 import { startDailySchedule } from './runtime/daily-schedule';
 import { createJobRuntime } from './runtime/job-runtime';
+import { startPresence } from './runtime/presence';
 
 const config = loadConfig();
 // Set before the thread pool, ffmpeg and libuv's threads start, so they inherit it: the worker's CPU-heavy work
@@ -21,8 +22,9 @@ const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
 const sequelize = await openKinefoldDatabaseOrExit(config, { migrate: false });
 const pool = createFramePool();
 const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir), pool, owner });
+const presence = await startPresence({ name: owner, leaseS: config.jobLeaseS, jobsRunning: runtime.running });
 console.log(
-  `Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, ` +
+  `Kinefold worker ${owner} ready (storage: ${config.storageDir}, database: ${config.databaseUrl ? 'PostgreSQL' : 'SQLite'}, lease ${config.jobLeaseS} s, ` +
     `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`,
 );
 
@@ -39,6 +41,7 @@ function stop(signal: string): void {
   stopSchedule();
   runtime
     .stop()
+    .then(() => presence.stop())
     .then(() => pool.destroy())
     .then(() => sequelize.close())
     .then(
