@@ -49,7 +49,7 @@ describe('many uploads at once', () => {
   it('answers only 201 or 413 to 24 uploads from 4 sessions, stays within the quota, leaves nothing', async () => {
     const requestBytes = uploadBody(0, files[0]!).body.length;
     // Room for ten reservations (a reservation is the request's whole Content-Length), so fourteen must be refused.
-    const quotaBytes = FITTING * requestBytes + requestBytes / 2;
+    const quotaBytes = FITTING * requestBytes + Math.floor(requestBytes / 2);
     const project = await Project.create({
       name: 'Busy week',
       quotaBytes,

@@ -1,6 +1,6 @@
 import pg from 'pg';
 import { Sequelize } from 'sequelize';
-import { noteEveryWrite } from './write-notes';
+import { serializeTransactions } from './postgres-transactions';
 
 /**
  * PostgreSQL answers 64-bit integers (BIGINT byte counts, COUNT(*)) and NUMERIC (SUM over BIGINT) as strings so
@@ -17,10 +17,9 @@ const POOL_MAX = 10;
 export class DatabaseStartupError extends Error {}
 
 /**
- * Opens the PostgreSQL database named by KINEFOLD_DATABASE_URL through the `pg` driver. Unlike SQLite, PostgreSQL
- * takes concurrent writers itself, so writes are not queued in the process; they are only reported to the count
- * cache. The connection is tried at once, so a wrong URL stops the process at startup rather than at the first
- * request.
+ * Opens the PostgreSQL database named by KINEFOLD_DATABASE_URL through the `pg` driver, with managed transactions
+ * taking turns as on SQLite (postgres-transactions.ts). The connection is tried at once, so a wrong URL stops the
+ * process at startup rather than at the first request.
  */
 export async function openPostgresDatabase(url: string): Promise<Sequelize> {
   const sequelize = new Sequelize(url, {
@@ -38,7 +37,7 @@ export async function openPostgresDatabase(url: string): Promise<Sequelize> {
       `KINEFOLD_DATABASE_URL: cannot open the PostgreSQL database at ${where(url)}: ${reason(error)}`,
     );
   }
-  noteEveryWrite(sequelize);
+  serializeTransactions(sequelize);
   return sequelize;
 }
 
