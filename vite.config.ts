@@ -30,7 +30,7 @@ export default defineConfig({
         test: {
           name: 'pg',
           environment: 'node',
-          include: ['tests/{api,worker}/**/*.test.ts'],
+          include: ['tests/{api,worker}/**/*.test.ts', 'tests/unit/migrations.test.ts'],
           env: { KINEFOLD_TEST_POSTGRES_URL: process.env.KINEFOLD_TEST_POSTGRES_URL ?? POSTGRES_TEST_URL },
           testTimeout: 60_000,
           hookTimeout: 120_000,
