@@ -11,7 +11,7 @@ import * as admin from './migrations/0008-admin';
 import * as clipListOrder from './migrations/0009-clip-list-order';
 import * as motionScale from './migrations/0010-motion-scale';
 import * as cutMarks from './migrations/0011-cut-marks';
-import * as workerPresences from './migrations/0012-worker-presences';
+import * as workerPresences from './migrations/0014-worker-presences';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -31,7 +31,7 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0009-clip-list-order', clipListOrder],
   ['0010-motion-scale', motionScale],
   ['0011-cut-marks', cutMarks],
-  ['0012-worker-presences', workerPresences],
+  ['0014-worker-presences', workerPresences],
 ];
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */

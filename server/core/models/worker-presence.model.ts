@@ -7,7 +7,7 @@ import {
   type Sequelize,
 } from 'sequelize';
 
-/** A worker process as it announced itself, with its last heartbeat (migration 0012). */
+/** A worker process as it announced itself, with its last heartbeat (migration 0014). */
 export class WorkerPresence extends Model<InferAttributes<WorkerPresence>, InferCreationAttributes<WorkerPresence>> {
   declare name: string;
   declare host: string;
