@@ -3,6 +3,8 @@ import { defineConfig } from 'vitest/config';
 import vue from '@vitejs/plugin-vue';
 
 const apiPort = Number(process.env.PORT ?? 3000);
+/** The local PostgreSQL server the `pg` project creates its test databases on (`.ci/run` starts it). */
+const POSTGRES_TEST_URL = 'postgres://postgres@127.0.0.1:5432/test';
 
 export default defineConfig({
   plugins: [vue()],
@@ -17,6 +19,19 @@ export default defineConfig({
           name: 'node',
           environment: 'node',
           include: ['tests/{unit,api,worker,cli}/**/*.test.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+        },
+      },
+      {
+        // The same API and worker suites on PostgreSQL: each test file gets a database of its own on the local
+        // server (tests/helpers/test-database.ts). Tests that measure SQLite itself stay in `node` only.
+        extends: true,
+        test: {
+          name: 'pg',
+          environment: 'node',
+          include: ['tests/{api,worker}/**/*.test.ts', 'tests/unit/migrations.test.ts'],
+          env: { KINEFOLD_TEST_POSTGRES_URL: process.env.KINEFOLD_TEST_POSTGRES_URL ?? POSTGRES_TEST_URL },
           testTimeout: 60_000,
           hookTimeout: 120_000,
         },

@@ -3,7 +3,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createApp } from './app';
 import { loadConfig } from './core/config';
-import { openKinefoldDatabase } from './core/db/open';
+import { openKinefoldDatabaseOrExit } from './core/db/open';
 import { runDemoCampaign } from './demo/campaign';
 import { startMail } from './core/mail';
 import { cleanStaleUploads, expireResumableUploads } from './core/usage/storage-hygiene';
@@ -13,7 +13,7 @@ import { storagePaths } from './core/storage/paths';
 const RESUMABLE_SWEEP_MS = 15 * 60_000;
 
 const config = loadConfig();
-const sequelize = await openKinefoldDatabase(config);
+const sequelize = await openKinefoldDatabaseOrExit(config);
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
 const kinefold = createApp({ config, sequelize, clientDir });
 // Only the server receives uploads, one server per storage folder, and it has not listened yet: nothing begun

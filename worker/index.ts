@@ -6,12 +6,13 @@
 import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import { loadConfig } from '../server/core/config';
-import { openKinefoldDatabase } from '../server/core/db/open';
+import { openKinefoldDatabaseOrExit } from '../server/core/db/open';
 import { queueCompactionIfNeeded } from '../server/core/storage/compaction';
 import { storagePaths } from '../server/core/storage/paths';
 import { createFramePool } from './pool/frame-pool';
 import { startDailySchedule } from './runtime/daily-schedule';
 import { createJobRuntime } from './runtime/job-runtime';
+import { startPresence } from './runtime/presence';
 
 const config = loadConfig();
 // Set before the thread pool, ffmpeg and libuv's threads start, so they inherit it: the worker's CPU-heavy work
@@ -19,11 +20,12 @@ const config = loadConfig();
 // raise its own priority, and one started nicer than this stays so.
 if (os.getPriority() < config.workerNice) os.setPriority(config.workerNice);
 const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
-const sequelize = await openKinefoldDatabase(config, { migrate: false });
+const sequelize = await openKinefoldDatabaseOrExit(config, { migrate: false });
 const pool = createFramePool();
 const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir), pool, owner });
+const presence = await startPresence({ name: owner, leaseS: config.jobLeaseS, jobsRunning: runtime.running });
 console.log(
-  `Kinefold worker ${owner} ready (storage: ${config.storageDir}, lease ${config.jobLeaseS} s, ` +
+  `Kinefold worker ${owner} ready (storage: ${config.storageDir}, database: ${config.databaseUrl ? 'PostgreSQL' : 'SQLite'}, lease ${config.jobLeaseS} s, ` +
     `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`,
 );
 
@@ -43,6 +45,7 @@ function stop(signal: string): void {
   stopSchedule();
   runtime
     .stop()
+    .then(() => presence.stop())
     .then(() => pool.destroy())
     .then(() => sequelize.close())
     .then(

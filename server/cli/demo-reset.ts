@@ -1,11 +1,13 @@
 /**
- * `npm run demo:reset`: removes the database and every stored file under KINEFOLD_STORAGE_DIR, so the next
- * `npm start` creates the demo campaign afresh. Refuses while a Kinefold server answers on PORT: deleting the
+ * `npm run demo:reset`: removes the database (on PostgreSQL: every Kinefold table, by undoing each migration) and
+ * every stored file under KINEFOLD_STORAGE_DIR, so the next `npm start` creates the demo campaign afresh. Refuses while a Kinefold server answers on PORT: deleting the
  * database under a running server would leave it writing into files that are gone.
  */
 import fs from 'node:fs';
 import path from 'node:path';
 import { loadConfig } from '../core/config';
+import { createMigrator } from '../core/db/migrator';
+import { openKinefoldDatabaseOrExit } from '../core/db/open';
 
 const config = loadConfig();
 const KINEFOLD_FOLDERS = ['db', 'incoming', 'clips', 'pairsets'];
@@ -28,6 +30,12 @@ if (await kinefoldAnswers(config.port)) {
       'and run demo:reset again. Nothing was removed.',
   );
   process.exit(1);
+}
+if (config.databaseUrl) {
+  const sequelize = await openKinefoldDatabaseOrExit(config);
+  await createMigrator(sequelize).down({ to: 0 });
+  await sequelize.close();
+  console.log('demo:reset: removed every Kinefold table from the PostgreSQL database.');
 }
 for (const folder of KINEFOLD_FOLDERS) {
   fs.rmSync(path.join(config.storageDir, folder), { recursive: true, force: true });

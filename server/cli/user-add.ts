@@ -5,7 +5,7 @@
 import { parseArgs } from 'node:util';
 import { ROLES, type Role } from '../../shared/roles';
 import { loadConfig } from '../core/config';
-import { openKinefoldDatabase } from '../core/db/open';
+import { openKinefoldDatabaseOrExit } from '../core/db/open';
 import { AppError } from '../core/errors';
 import { createUser } from '../core/people/users';
 
@@ -35,7 +35,7 @@ if (!/^[^@\s]+@[^@\s]+$/.test(email)) fail(`"${email}" is not an e-mail address.
 if (!(ROLES as readonly string[]).includes(role)) fail(`role must be one of ${ROLES.join(', ')} (got "${role}").`);
 
 const config = loadConfig();
-const sequelize = await openKinefoldDatabase(config);
+const sequelize = await openKinefoldDatabaseOrExit(config);
 try {
   const user = await createUser(
     { email, role: role as Role, password, name: values.name ?? email.split('@')[0]! },

@@ -6,6 +6,8 @@ export type DemoMode = 'full' | 'accounts' | 'off';
 export interface Config {
   port: number;
   storageDir: string;
+  /** `postgres://…` from KINEFOLD_DATABASE_URL: PostgreSQL instead of the SQLite file under the storage root. */
+  databaseUrl: string | null;
   demo: DemoMode;
   smtpUrl: string | null;
   /** The base of every link Kinefold mails; by default this server on its own port. */
@@ -55,6 +57,14 @@ function parseInteger(name: string, value: string | undefined, fallback: number)
   return parsed;
 }
 
+function parseDatabaseUrl(value: string | undefined): string | null {
+  if (!value) return null;
+  if (!/^postgres(ql)?:\/\/[^/]/.test(value)) {
+    throw new Error('KINEFOLD_DATABASE_URL must be a postgres:// URL (unset it to use SQLite)');
+  }
+  return value;
+}
+
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const port = parseInteger('PORT', env.PORT, 3000);
   // Links must reach this server: without a configured address, the one it listens on is the best guess.
@@ -62,6 +72,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   return {
     port,
     storageDir: path.resolve(env.KINEFOLD_STORAGE_DIR ?? 'storage'),
+    databaseUrl: parseDatabaseUrl(env.KINEFOLD_DATABASE_URL),
     demo: parseDemo(env.KINEFOLD_DEMO),
     smtpUrl: env.SMTP_URL || null,
     publicUrl,

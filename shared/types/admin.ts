@@ -69,3 +69,20 @@ export interface PublicAddress {
   publicUrl: string;
   source: 'configured' | 'derived';
 }
+
+/** `active` beats on time; `stale` has missed its beats for a lease (its jobs pass to others); `stopped` said goodbye. */
+export type WorkerPresenceState = 'active' | 'stale' | 'stopped';
+
+/** A worker process as the Jobs screen lists it. */
+export interface WorkerSummary {
+  name: string;
+  host: string;
+  pid: number;
+  version: string;
+  /** Seconds of the worker's job leases; it beats every third of one. */
+  leaseS: number;
+  jobsRunning: number;
+  startedAt: string;
+  lastBeatAt: string;
+  state: WorkerPresenceState;
+}

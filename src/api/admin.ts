@@ -1,7 +1,14 @@
 import type { ListPage } from '../../shared/api-types';
 import type { Settings } from '../../shared/schemas/settings';
 import type { AuditListQuery, JobListQuery } from '../../shared/schemas/admin';
-import type { AuditEntry, JobSummary, PublicAddress, RetentionPreview, UsageReport } from '../../shared/types/admin';
+import type {
+  AuditEntry,
+  JobSummary,
+  PublicAddress,
+  RetentionPreview,
+  UsageReport,
+  WorkerSummary,
+} from '../../shared/types/admin';
 import { http } from './http';
 
 export const getUsage = () => http.get<UsageReport>('/admin/usage');
@@ -9,6 +16,7 @@ export const requestReconcile = () => http.post<{ jobId: number }>('/admin/recon
 export const listJobs = (query: Partial<JobListQuery>) => http.get<ListPage<JobSummary>>('/jobs', query);
 export const retryJob = (id: number) => http.post<JobSummary>(`/jobs/${id}/retry`);
 export const cancelJob = (id: number) => http.post<JobSummary>(`/jobs/${id}/cancel`);
+export const listWorkers = () => http.get<WorkerSummary[]>('/jobs/workers');
 export const listAudit = (query: Partial<AuditListQuery>) => http.get<ListPage<AuditEntry>>('/audit', query);
 
 /** The CSV export's address with the same filters as the screen (downloaded by the browser itself). */

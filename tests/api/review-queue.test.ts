@@ -213,7 +213,7 @@ describe('the flagMask column', () => {
     // FLAG_NAMES.
     for (const flag of FLAG_NAMES) {
       const row = await insertReviewClip({ ...idle, flags: [flag] });
-      const [stored] = (await server.sequelize.query('SELECT flagMask, flagCount FROM clips WHERE id = ?', {
+      const [stored] = (await server.sequelize.query('SELECT "flagMask", "flagCount" FROM clips WHERE id = ?', {
         replacements: [row.id],
         plain: false,
         raw: true,
@@ -223,7 +223,7 @@ describe('the flagMask column', () => {
     const all = await insertReviewClip({ ...idle, flags: [...FLAG_NAMES] });
     const maskOf = async (id: number) =>
       (
-        (await server.sequelize.query('SELECT flagMask, flagCount FROM clips WHERE id = ?', {
+        (await server.sequelize.query('SELECT "flagMask", "flagCount" FROM clips WHERE id = ?', {
           replacements: [id],
           raw: true,
         })) as [{ flagMask: number; flagCount: number }[], unknown]

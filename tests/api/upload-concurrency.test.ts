@@ -56,7 +56,7 @@ describe('many uploads at once', () => {
     const predicted = await predictDerivedBytesOf(files[0]!, probe, { sampleFps: 5, workingSize: 320 });
     const hold = fs.statSync(files[0]!).size + predicted;
     expect(predicted).toBeGreaterThan(uploadBody(0, files[0]!).body.length);
-    const quotaBytes = FITTING * hold + hold / 2;
+    const quotaBytes = FITTING * hold + Math.floor(hold / 2);
     const project = await Project.create({
       name: 'Busy week',
       quotaBytes,

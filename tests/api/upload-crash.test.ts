@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { storagePaths } from '../../server/core/storage/paths';
 import { startRunningApp, type RunningApp } from '../helpers/app-processes';
 import { makeTestClip } from '../helpers/media-fixtures';
+import { freshTestDatabase, type TestDatabase } from '../helpers/test-database';
 import { paddedCopy, uploadBody } from '../helpers/upload-over-http';
 
 /**
@@ -18,13 +19,16 @@ const storageDir = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-crash-'));
 const incoming = storagePaths(storageDir).incomingDir;
 let app: RunningApp | undefined;
 let file: string;
+let database: TestDatabase;
 
 beforeAll(async () => {
+  database = await freshTestDatabase();
   const base = await makeTestClip(storageDir, 'base.mp4', { seconds: 1 });
   file = paddedCopy(base, path.join(storageDir, 'creek-04.mp4'), 4 * 1024 * 1024, 7);
 }, 60_000);
 afterAll(async () => {
   await app?.stop();
+  await database.drop();
   fs.rmSync(storageDir, { recursive: true, force: true });
 });
 
@@ -50,7 +54,7 @@ async function halfUpload(baseUrl: string, session: { cookie: string; csrf: stri
 
 describe('a server killed mid-upload', () => {
   it('lets the same upload through at once after the restart, and leaves no partial file', async () => {
-    app = await startRunningApp(storageDir);
+    app = await startRunningApp(storageDir, { databaseUrl: database.url });
     const admin = await app.signIn('admin');
     const requestBytes = uploadBody(0, file).body.length;
     const created = await app.api(admin, 'POST', '/api/projects', {
@@ -68,7 +72,7 @@ describe('a server killed mid-upload', () => {
     cut.destroy();
     expect(fs.readdirSync(incoming).length).toBeGreaterThan(0);
 
-    app = await startRunningApp(storageDir);
+    app = await startRunningApp(storageDir, { databaseUrl: database.url });
     expect(fs.readdirSync(incoming)).toEqual([]);
     const again = await app.upload(await app.signIn('operator'), file, projectId);
     expect(again.status, again.body).toBe(201);

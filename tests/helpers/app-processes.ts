@@ -59,6 +59,8 @@ export interface AppOptions {
   worker?: boolean;
   /** KINEFOLD_DEMO; `accounts` (the default here) gives the demo accounts without the demo campaign. */
   demo?: 'full' | 'accounts';
+  /** KINEFOLD_DATABASE_URL for both processes (null: SQLite under the storage folder); absent: as in this process. */
+  databaseUrl?: string | null;
   /** Where the server's console goes (ignored unless given). */
   onServerOutput?: (line: string) => void;
 }
@@ -71,6 +73,7 @@ export async function startRunningApp(storageDir: string, options: AppOptions = 
     PORT: String(port),
     KINEFOLD_STORAGE_DIR: storageDir,
     KINEFOLD_DEMO: options.demo ?? 'accounts',
+    ...(options.databaseUrl === undefined ? {} : { KINEFOLD_DATABASE_URL: options.databaseUrl ?? '' }),
   };
   await promisify(execFile)(process.execPath, ['--import', 'tsx', 'server/cli/prepare.ts'], { env });
   const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env, stdio: 'pipe' });

@@ -31,7 +31,7 @@ export async function insertReviewClip(fields: ReviewClipFields): Promise<Clip> 
   const clip = await Clip.create(reviewClipRow(fields));
   if (fields.createdAt) {
     // Sequelize never writes createdAt on update, so the upload time is set with SQL.
-    await Clip.sequelize!.query('UPDATE clips SET createdAt = :at WHERE id = :id', {
+    await Clip.sequelize!.query('UPDATE clips SET "createdAt" = :at WHERE id = :id', {
       replacements: { at: fields.createdAt, id: clip.id },
     });
   }

@@ -8,26 +8,34 @@ import { loadConfig, type Config } from '../../server/core/config';
 import { openKinefoldDatabase } from '../../server/core/db/open';
 import type { Role } from '../../shared/roles';
 import { createUser } from '../../server/core/people/users';
+import { freshTestDatabase } from './test-database';
 
 export interface TestServer {
   app: ReturnType<typeof createApp>['app'];
   config: Config;
   sequelize: Sequelize;
   storageDir: string;
+  /** The environment a child process (a worker, the server) needs to share this storage folder and database. */
+  env: { KINEFOLD_STORAGE_DIR: string; KINEFOLD_DATABASE_URL: string };
   close(): Promise<void>;
 }
 
-/** A fresh storage folder and database per test file, and the same app `npm start` serves (`env` as it reads). */
+/**
+ * A fresh storage folder and database per test file, and the same app `npm start` serves. The database is SQLite in
+ * the storage folder, or a PostgreSQL database of its own in the matrix's `pg` project (test-database.ts).
+ */
 export async function startTestServer(
   overrides: Partial<Config> = {},
   { clientDir, env = {} }: { clientDir?: string; env?: NodeJS.ProcessEnv } = {},
 ): Promise<TestServer> {
   const storageDir = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-test-'));
+  const database = await freshTestDatabase();
   const config: Config = {
     ...loadConfig({ ...env, KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DEMO: 'off' }),
     bcryptCost: 10,
     signInLimitPerIp: 1000,
     signInLimitPerAccount: 1000,
+    databaseUrl: database.url,
     ...overrides,
   };
   const sequelize = await openKinefoldDatabase(config);
@@ -37,9 +45,11 @@ export async function startTestServer(
     config,
     sequelize,
     storageDir,
+    env: { KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DATABASE_URL: database.url ?? '' },
     async close() {
       kinefold.close();
       await sequelize.close();
+      await database.drop();
       fs.rmSync(storageDir, { recursive: true, force: true });
     },
   };

@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type { Sequelize } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openDatabase } from '../../server/core/db/connection';
+import { openSqliteDatabase as openDatabase } from '../../server/core/db/sqlite-connection';
 import { POOL_BUSY_WAIT_MS } from '../../server/core/db/write-queue';
 
 /**

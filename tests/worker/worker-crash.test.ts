@@ -43,7 +43,7 @@ afterAll(() => server.close());
 function startWorker(): ChildProcess {
   const child = spawn(process.execPath, ['--import', 'tsx', 'worker/index.ts'], {
     cwd: REPO,
-    env: { ...process.env, KINEFOLD_STORAGE_DIR: server.storageDir, KINEFOLD_JOB_LEASE_S: String(LEASE_S) },
+    env: { ...process.env, ...server.env, KINEFOLD_JOB_LEASE_S: String(LEASE_S) },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   child.stdout!.on('data', (chunk: Buffer) => output.push(chunk.toString()));

@@ -29,6 +29,8 @@ export interface JobRuntime {
   runOnce(): Promise<boolean>;
   /** Stops claiming, gives the jobs in hand back to the queue and waits until they are. */
   stop(): Promise<void>;
+  /** The jobs in hand at this moment. */
+  running(): number;
 }
 
 const DEFAULT_POLL_MS = 1000;
@@ -148,6 +150,7 @@ export function createJobRuntime(options: JobRuntimeOptions): JobRuntime {
       return looping;
     },
     runOnce,
+    running: () => inHand.size,
     async stop() {
       stopping = true;
       for (const controller of inHand) controller.abort(new ShutdownError());

@@ -13,6 +13,7 @@ import { recordAudit } from '../audit/audit';
 import { claimOf } from '../review/review-claims';
 import { verdictHistory } from '../review/review-history';
 import { containsText } from '../db/text-search';
+import { jsonArrayHasAny } from '../db/dialect';
 import type { Viewer } from '../people/viewer';
 
 const INCLUDE = [
@@ -34,13 +35,11 @@ export async function listClips(query: ClipListQuery): Promise<ListPage<ClipSumm
   if (query.tag) {
     conditions.push(
       literal(
-        `EXISTS (SELECT 1 FROM json_each(\`Clip\`.\`tags\`) WHERE value = ${sequelize.escape(
-          query.tag.toLowerCase(),
-        )})`,
+        jsonArrayHasAny(sequelize, '"Clip"."tags"', sequelize.escape(query.tag.toLowerCase())),
       ) as unknown as WhereOptions<Clip>,
     );
   }
-  if (query.q) conditions.push(containsText<Clip>(['Clip.originalName', 'Clip.notes'], query.q));
+  if (query.q) conditions.push(containsText<Clip>(sequelize, ['Clip.originalName', 'Clip.notes'], query.q));
   const order: Order = query.sort
     ? [
         [query.sort.replace(/^-/, ''), query.sort.startsWith('-') ? 'DESC' : 'ASC'],

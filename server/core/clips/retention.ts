@@ -19,9 +19,9 @@ interface RejectedRow {
 /** Rejected, unpurged clips of a project whose reject verdict in force was given at or before `cutoff`. */
 async function rejectedBy(projectId: number, cutoff: Date): Promise<RejectedRow[]> {
   const clips = await Project.sequelize!.query<RejectedRow>(
-    `SELECT c.id AS clipId, c.originalName AS originalName, v.at AS rejectedAt, c.storedBytes AS bytes
-     FROM clips c JOIN verdicts v ON v.clipId = c.id AND v.supersededAt IS NULL AND v.decision = 'reject'
-     WHERE c.projectId = :projectId AND c.state = 'rejected' AND c.purgedAt IS NULL AND v.at <= :cutoff
+    `SELECT c.id AS "clipId", c."originalName" AS "originalName", v.at AS "rejectedAt", c."storedBytes" AS bytes
+     FROM clips c JOIN verdicts v ON v."clipId" = c.id AND v."supersededAt" IS NULL AND v.decision = 'reject'
+     WHERE c."projectId" = :projectId AND c.state = 'rejected' AND c."purgedAt" IS NULL AND v.at <= :cutoff
      ORDER BY v.at, c.id`,
     {
       replacements: { projectId, cutoff: cutoff.toISOString().replace('T', ' ').replace('Z', ' +00:00') },

@@ -14,6 +14,7 @@ import * as cutMarks from './migrations/0011-cut-marks';
 import * as storageDiet from './migrations/0012-storage-diet';
 import * as diversity from './migrations/0013-diversity';
 import * as jobTiming from './migrations/0014-job-timing';
+import * as workerPresences from './migrations/0015-worker-presences';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -36,6 +37,7 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0012-storage-diet', storageDiet],
   ['0013-diversity', diversity],
   ['0014-job-timing', jobTiming],
+  ['0015-worker-presences', workerPresences],
 ];
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */

@@ -1,8 +1,9 @@
 import type { Sequelize } from 'sequelize';
-import { databasePath, type Config } from '../config';
+import type { Config } from '../config';
 import { initModels } from '../models';
 import { openDatabase } from './connection';
 import { createMigrator } from './migrator';
+import { DatabaseStartupError } from './postgres-connection';
 
 const SCHEMA_WAIT_MS = 500;
 
@@ -11,10 +12,10 @@ const SCHEMA_WAIT_MS = 500;
  * a worker waits until it is, so two processes never migrate at once.
  */
 export async function openKinefoldDatabase(
-  config: Pick<Config, 'storageDir'>,
+  config: Pick<Config, 'storageDir' | 'databaseUrl'>,
   { migrate }: { migrate: boolean } = { migrate: true },
 ): Promise<Sequelize> {
-  const sequelize = await openDatabase(databasePath(config));
+  const sequelize = await openDatabase(config);
   const migrator = createMigrator(sequelize);
   if (migrate) {
     await migrator.up();
@@ -23,4 +24,21 @@ export async function openKinefoldDatabase(
   }
   initModels(sequelize);
   return sequelize;
+}
+
+/**
+ * For a process's entry point: the database opened, or, when it cannot be reached, one line naming the setting
+ * and the host on stderr and exit code 1 (a stack trace would only hide the cause).
+ */
+export async function openKinefoldDatabaseOrExit(
+  config: Pick<Config, 'storageDir' | 'databaseUrl'>,
+  options?: { migrate: boolean },
+): Promise<Sequelize> {
+  try {
+    return await openKinefoldDatabase(config, options);
+  } catch (error) {
+    if (!(error instanceof DatabaseStartupError)) throw error;
+    console.error(`Kinefold: ${error.message}`);
+    process.exit(1);
+  }
 }

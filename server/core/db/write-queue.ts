@@ -77,7 +77,7 @@ export function queueWrites(sequelize: Sequelize): void {
   };
 }
 
-function isWrite(sql: unknown, options?: QueryOptions): boolean {
+export function isWrite(sql: unknown, options?: QueryOptions): boolean {
   if (options?.type && WRITE_TYPES.has(options.type)) return true;
   const text = typeof sql === 'string' ? sql : (sql as { query?: unknown } | null)?.query;
   return typeof text === 'string' && WRITE_SQL.test(text);

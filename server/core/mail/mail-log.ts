@@ -6,7 +6,7 @@ import { containsText } from '../db/text-search';
 
 /** What the fake SMTP server received, newest first unless another order is asked for. */
 export async function listMail(query: MailListQuery): Promise<ListPage<MailLogEntry>> {
-  const where = query.search ? containsText<MailMessage>(['to', 'subject'], query.search) : {};
+  const where = query.search ? containsText<MailMessage>(MailMessage.sequelize!, ['to', 'subject'], query.search) : {};
   const sort = query.sort ?? '-at';
   const order: Order = [
     [sort.replace(/^-/, ''), sort.startsWith('-') ? 'DESC' : 'ASC'],

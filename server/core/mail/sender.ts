@@ -1,5 +1,6 @@
 import type { Transporter } from 'nodemailer';
-import { QueryTypes } from 'sequelize';
+import { QueryTypes, type Sequelize } from 'sequelize';
+import { pickForUpdate } from '../db/dialect';
 import { MailOutbox } from '../models';
 
 export interface MailSenderOptions {
@@ -36,14 +37,14 @@ interface Claim {
  * One statement both picks and takes a row, so two senders (two server processes, or a restarted one) never
  * hold the same row: a due `pending` row, or a `sending` row whose sender died and whose lease ran out.
  */
-const CLAIM_SQL = `
+const claimSql = (sequelize: Sequelize) => `
   UPDATE mail_outbox
-  SET state = 'sending', attempts = attempts + 1, leaseExpiresAt = :leaseUntil, updatedAt = :now
+  SET state = 'sending', attempts = attempts + 1, "leaseExpiresAt" = :leaseUntil, "updatedAt" = :now
   WHERE id = (
     SELECT id FROM mail_outbox
-    WHERE (state = 'pending' AND nextAttemptAt <= :now) OR (state = 'sending' AND leaseExpiresAt <= :now)
+    WHERE (state = 'pending' AND "nextAttemptAt" <= :now) OR (state = 'sending' AND "leaseExpiresAt" <= :now)
     ORDER BY id
-    LIMIT 1
+    LIMIT 1 ${pickForUpdate(sequelize)}
   )
   RETURNING id, attempts`;
 
@@ -68,7 +69,7 @@ export function createMailSender(options: MailSenderOptions): MailSender {
 
   async function claimNext(): Promise<Claim | null> {
     const now = clock();
-    const rows = await MailOutbox.sequelize!.query<Claim>(CLAIM_SQL, {
+    const rows = await MailOutbox.sequelize!.query<Claim>(claimSql(MailOutbox.sequelize!), {
       replacements: { now, leaseUntil: new Date(now.getTime() + leaseMs) },
       type: QueryTypes.SELECT,
     });

@@ -59,13 +59,13 @@ export class Frame extends Model<InferAttributes<Frame>, InferCreationAttributes
     for (let after = 0; ;) {
       const ids = (
         await Frame.sequelize!.query<{ id: number }>(
-          `SELECT id FROM clips WHERE projectId = :projectId AND id <> :clipId AND id > :after ORDER BY id LIMIT :limit`,
+          `SELECT id FROM clips WHERE "projectId" = :projectId AND id <> :clipId AND id > :after ORDER BY id LIMIT :limit`,
           { replacements: { projectId, clipId, after, limit: clipsPerBatch }, type: QueryTypes.SELECT },
         )
       ).map((row) => row.id);
       if (ids.length === 0) return;
       const rows = await Frame.sequelize!.query<{ clipId: number; dhash: string }>(
-        `SELECT clipId, dhash FROM frames WHERE clipId IN (:ids) AND dhash IS NOT NULL ORDER BY clipId, \`index\``,
+        `SELECT "clipId", dhash FROM frames WHERE "clipId" IN (:ids) AND dhash IS NOT NULL ORDER BY "clipId", "index"`,
         { replacements: { ids }, type: QueryTypes.SELECT },
       );
       const byClip = new Map<number, string[]>();

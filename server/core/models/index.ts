@@ -24,6 +24,7 @@ import { UploadReservation } from './upload-reservation.model';
 import { UsageSnapshot } from './usage-snapshot.model';
 import { User } from './user.model';
 import { Verdict } from './verdict.model';
+import { WorkerPresence } from './worker-presence.model';
 
 /** Binds every model to the open database and declares the associations, in one place. */
 export function initModels(sequelize: Sequelize): void {
@@ -33,6 +34,7 @@ export function initModels(sequelize: Sequelize): void {
   Session.initModel(sequelize);
   Clip.initModel(sequelize);
   Job.initModel(sequelize);
+  WorkerPresence.initModel(sequelize);
   Frame.initModel(sequelize);
   MotionField.initModel(sequelize);
   UploadReservation.initModel(sequelize);
@@ -98,4 +100,5 @@ export {
   UsageSnapshot,
   User,
   Verdict,
+  WorkerPresence,
 };

@@ -3,6 +3,7 @@ import type { MomentFrame } from '../../../shared/pairing/pairing-graph';
 import type { PairsetDefinition } from '../../../shared/schemas/pairsets';
 import { Clip, Frame, MotionField, Project } from '../models';
 import type { DerivedFormat } from '../storage/paths';
+import { jsonArrayHasAny } from '../db/dialect';
 
 /** The field t→t+1 of a moment, with the estimator that made it. */
 export interface SourceMotion {
@@ -101,7 +102,7 @@ function clipWhere(selection: SourceSelection): WhereOptions<Clip> {
   if (selection.tags?.length) {
     const sequelize = Clip.sequelize!;
     const tags = selection.tags.map((tag) => sequelize.escape(tag)).join(', ');
-    and.push(literal(`EXISTS (SELECT 1 FROM json_each(\`Clip\`.\`tags\`) WHERE json_each.value IN (${tags}))`));
+    and.push(literal(jsonArrayHasAny(sequelize, '"Clip"."tags"', tags)));
   }
   return { [Op.and]: and };
 }

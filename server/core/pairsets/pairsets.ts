@@ -27,7 +27,7 @@ import { enqueueJob } from '../jobs/enqueue';
  * pairset's owner (and admins), since its bytes count against the owner's quota.
  */
 
-const SHARD_COUNT = literal('(SELECT COUNT(*) FROM shards WHERE shards.pairsetId = Pairset.id)');
+const SHARD_COUNT = literal('(SELECT COUNT(*) FROM shards WHERE shards."pairsetId" = "Pairset".id)');
 const OWNER = { model: User, as: 'owner', attributes: ['id', 'name'] };
 const REBUILDABLE: readonly PairsetState[] = ['draft', 'failed', 'cancelled'];
 

@@ -86,7 +86,7 @@ export async function listInvitations(query: InvitationListQuery): Promise<ListP
     [Op.and]: [
       query.state ? Invitation.stateCondition(query.state, now) : {},
       // Qualified: the inviter's row joined in has an email column too.
-      query.search ? containsText<Invitation>(['Invitation.email'], query.search) : {},
+      query.search ? containsText<Invitation>(Invitation.sequelize!, ['Invitation.email'], query.search) : {},
     ],
   };
   const sort = query.sort ?? '-createdAt';

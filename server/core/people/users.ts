@@ -46,7 +46,7 @@ function duplicateEmail(email: string) {
 
 export async function listUsers(query: UserListQuery): Promise<ListPage<UserSummary>> {
   const where: WhereOptions<User> = {
-    ...(query.search ? containsText<User>(['email', 'name'], query.search) : {}),
+    ...(query.search ? containsText<User>(User.sequelize!, ['email', 'name'], query.search) : {}),
     ...(query.role ? { role: query.role } : {}),
   };
   const order: Order = query.sort

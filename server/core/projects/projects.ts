@@ -20,14 +20,14 @@ export const PROJECT_DEFAULTS = {
 } as const;
 
 const USAGE_ATTRIBUTES: [ReturnType<typeof literal>, string][] = [
-  [literal('(SELECT COALESCE(SUM(storedBytes), 0) FROM clips WHERE clips.projectId = Project.id)'), 'usedBytes'],
+  [literal('(SELECT COALESCE(SUM("storedBytes"), 0) FROM clips WHERE clips."projectId" = "Project".id)'), 'usedBytes'],
   [
     literal(
-      '(SELECT COALESCE(SUM(sizeBytes), 0) FROM clips WHERE clips.projectId = Project.id AND clips.purgedAt IS NULL)',
+      '(SELECT COALESCE(SUM("sizeBytes"), 0) FROM clips WHERE clips."projectId" = "Project".id AND clips."purgedAt" IS NULL)',
     ),
     'sourceBytes',
   ],
-  [literal('(SELECT COUNT(*) FROM clips WHERE clips.projectId = Project.id)'), 'clipCount'],
+  [literal('(SELECT COUNT(*) FROM clips WHERE clips."projectId" = "Project".id)'), 'clipCount'],
 ];
 
 function toSummary(project: Project): ProjectSummary {

@@ -34,9 +34,9 @@ export async function claimClip(
 ): Promise<ClipClaim> {
   const expiresAt = new Date(now.getTime() + CLAIM_MINUTES * 60_000);
   const taken = await Clip.sequelize!.query(
-    `UPDATE clips SET claimedBy = :userId, claimExpiresAt = :expiresAt
+    `UPDATE clips SET "claimedBy" = :userId, "claimExpiresAt" = :expiresAt
      WHERE id = :clipId AND state IN (:states)
-       AND (claimedBy IS NULL OR claimedBy = :userId OR claimExpiresAt IS NULL OR claimExpiresAt <= :now)
+       AND ("claimedBy" IS NULL OR "claimedBy" = :userId OR "claimExpiresAt" IS NULL OR "claimExpiresAt" <= :now)
      RETURNING id`,
     { replacements: { clipId, userId: viewer.id, expiresAt, now, states: CLAIMABLE_STATES }, type: QueryTypes.SELECT },
   );

@@ -2,6 +2,7 @@ import { Op, literal, where, type Transaction } from 'sequelize';
 import { DIGEST_INTERVAL_MINUTES } from '../../../shared/review/rules';
 import { queueMail } from '../mail/outbox';
 import { Clip, Job, RejectionDigest, User, Verdict } from '../models';
+import { jsonInteger } from '../db/dialect';
 import { enqueueJob } from '../jobs/enqueue';
 
 /**
@@ -24,7 +25,7 @@ async function nextAllowedAt(uploaderId: number, now: Date, transaction: Transac
 /** Queues the uploader's digest job, in the caller's transaction, unless one is waiting already. */
 export async function scheduleRejectionDigest(uploaderId: number, transaction: Transaction, now = new Date()) {
   // A literal path: Sequelize would double the `$` of a JSON path given as a string value.
-  const payloadUploader = where(literal("json_extract(payload, '$.uploaderId')"), uploaderId);
+  const payloadUploader = where(literal(jsonInteger(Job.sequelize!, 'payload', 'uploaderId')), uploaderId);
   const waiting = await Job.findOne({
     where: { kind: JOB_KIND, state: 'queued', [Op.and]: [payloadUploader] },
     attributes: ['id'],

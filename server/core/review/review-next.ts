@@ -2,6 +2,7 @@ import { QueryTypes } from 'sequelize';
 import type { ReviewSortField } from '../../../shared/schemas/review';
 import type { ReviewNextQuery } from '../../../shared/schemas/review-flow';
 import type { ReviewQueueItem } from '../../../shared/types/review';
+import { indexedBy } from '../db/dialect';
 import { notFound } from '../errors';
 import { Clip } from '../models';
 import type { Viewer } from '../people/viewer';
@@ -10,6 +11,7 @@ import {
   filterConditions,
   ITEM_COLUMNS,
   ITEM_JOINS,
+  queueOrder,
   SORT_KEYS,
   toItem,
   type QueueRow,
@@ -20,7 +22,7 @@ import {
  * follows the anchor's, so "next" is the next row of the list the curator works in even once the anchor has been
  * decided and left the queue. Clips someone else holds are passed over. The walk is the queue's own: the covering
  * index of the sort key, sought from the anchor's key (a keyset, not an offset), stopping after `limit` clips.
- * SQLite orders NULL first going up and last going down, and so does the keyset below.
+ * NULL comes first going up and last going down (SQLite's rule, asked of PostgreSQL too), and so in the keyset below.
  */
 export async function clipsAfter(query: ReviewNextQuery, viewer: Viewer, now = new Date()): Promise<ReviewQueueItem[]> {
   const sort = query.sort ?? DEFAULT_SORT;
@@ -28,7 +30,7 @@ export async function clipsAfter(query: ReviewNextQuery, viewer: Viewer, now = n
   const key = SORT_KEYS[sort.replace(/^-/, '') as ReviewSortField];
   const sequelize = Clip.sequelize!;
   // The anchor's key as stored (dates are text in SQLite), so the comparison below is like with like.
-  const [anchor] = await sequelize.query<{ k: unknown }>(`SELECT ${key} AS k FROM clips WHERE id = :after`, {
+  const [anchor] = await sequelize.query<{ k: unknown }>(`SELECT "${key}" AS k FROM clips WHERE id = :after`, {
     replacements: { after: query.after },
     type: QueryTypes.SELECT,
   });
@@ -42,19 +44,18 @@ export async function clipsAfter(query: ReviewNextQuery, viewer: Viewer, now = n
     viewerId: viewer.id,
   };
   const conditions = filterConditions(query, replacements);
-  conditions.push(keyset(`c.${key}`, anchor.k === null, descending));
+  conditions.push(keyset(`c."${key}"`, anchor.k === null, descending));
   conditions.push(
-    '(c.claimedBy IS NULL OR c.claimedBy = :viewerId OR c.claimExpiresAt IS NULL ' + 'OR c.claimExpiresAt <= :now)',
+    '(c."claimedBy" IS NULL OR c."claimedBy" = :viewerId OR c."claimExpiresAt" IS NULL OR c."claimExpiresAt" <= :now)',
   );
-  const direction = descending ? 'DESC' : 'ASC';
-  const order = (alias: string) => `${alias}.${key} ${direction}, ${alias}.id ${direction}`;
+  const order = queueOrder(sequelize, 'c', key, descending ? 'DESC' : 'ASC');
   const rows = await sequelize.query<QueueRow>(
     `
     SELECT ${ITEM_COLUMNS}
-    FROM (SELECT c.id FROM clips c INDEXED BY clips_queue_by_${key} WHERE ${conditions.join(' AND ')}
-          ORDER BY ${order('c')} LIMIT :limit) chosen
+    FROM (SELECT c.id FROM clips c ${indexedBy(sequelize, `clips_queue_by_${key}`)} WHERE ${conditions.join(' AND ')}
+          ORDER BY ${order} LIMIT :limit) chosen
     ${ITEM_JOINS}
-    ORDER BY ${order('c')}`,
+    ORDER BY ${order}`,
     { replacements, type: QueryTypes.SELECT },
   );
   return rows.map(toItem);

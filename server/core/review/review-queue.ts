@@ -1,9 +1,10 @@
-import { QueryTypes, type Transaction } from 'sequelize';
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { ListPage } from '../../../shared/api-types';
 import { FLAG_NAMES, type FlagName } from '../../../shared/flag-thresholds';
 import type { ReviewFilter, ReviewQueueQuery, ReviewSortField } from '../../../shared/schemas/review';
 import type { ReviewFacets, ReviewQueueItem } from '../../../shared/types/review';
 import { reusedCount } from '../db/count-cache';
+import { indexedBy, orderTerm } from '../db/dialect';
 import { Clip } from '../models';
 
 /**
@@ -58,11 +59,11 @@ export interface QueueSql {
 export function filterConditions(filter: ReviewFilter, replacements: Record<string, unknown>): string[] {
   const conditions = ["c.state = 'awaiting_review'"];
   if (filter.projectId) {
-    conditions.push('c.projectId = :projectId');
+    conditions.push('c."projectId" = :projectId');
     replacements.projectId = filter.projectId;
   }
   if (filter.uploaderId) {
-    conditions.push('c.uploaderId = :uploaderId');
+    conditions.push('c."uploaderId" = :uploaderId');
     replacements.uploaderId = filter.uploaderId;
   }
   if (filter.site) {
@@ -70,16 +71,16 @@ export function filterConditions(filter: ReviewFilter, replacements: Record<stri
     replacements.site = filter.site;
   }
   if (filter.capturedFrom) {
-    conditions.push('c.capturedAt >= :capturedFrom');
+    conditions.push('c."capturedAt" >= :capturedFrom');
     replacements.capturedFrom = new Date(filter.capturedFrom);
   }
   if (filter.capturedTo) {
-    conditions.push('c.capturedAt <= :capturedTo');
+    conditions.push('c."capturedAt" <= :capturedTo');
     replacements.capturedTo = new Date(filter.capturedTo);
   }
   const masks = passingMasks(filter);
   // Whole numbers computed here, never input, so they go into the statement as they are.
-  if (masks) conditions.push(masks.length > 0 ? `c.flagMask IN (${masks.join(', ')})` : '0 = 1');
+  if (masks) conditions.push(masks.length > 0 ? `c."flagMask" IN (${masks.join(', ')})` : '0 = 1');
   return conditions;
 }
 
@@ -93,18 +94,23 @@ function countIndex(filter: ReviewFilter): string {
 }
 
 /** A queue row's columns and the joins they need, for the clips a subquery `chosen` picked (`:now` given). */
-export const ITEM_COLUMNS = `c.id, c.originalName, c.projectId, p.name AS projectName, c.site, c.uploaderId,
-      u.name AS uploaderName, c.durationS, c.capturedAt, c.createdAt, c.hasThumbnail, c.flags, c.frameCount,
-      c.medianSharpness, c.meanLuma, c.meanMotion, c.consistentShare, c.cutCount, c.usablePairs,
-      CASE WHEN c.claimExpiresAt > :now THEN c.claimedBy END AS claimHolderId, h.name AS claimHolderName,
-      c.claimExpiresAt`;
+export const ITEM_COLUMNS = `c.id, c."originalName", c."projectId", p.name AS "projectName", c.site, c."uploaderId",
+      u.name AS "uploaderName", c."durationS", c."capturedAt", c."createdAt", c."hasThumbnail", c.flags, c."frameCount",
+      c."medianSharpness", c."meanLuma", c."meanMotion", c."consistentShare", c."cutCount", c."usablePairs",
+      CASE WHEN c."claimExpiresAt" > :now THEN c."claimedBy" END AS "claimHolderId", h.name AS "claimHolderName",
+      c."claimExpiresAt"`;
 export const ITEM_JOINS = `JOIN clips c ON c.id = chosen.id
-    JOIN projects p ON p.id = c.projectId
-    JOIN users u ON u.id = c.uploaderId
-    LEFT JOIN users h ON h.id = c.claimedBy AND c.claimExpiresAt > :now`;
+    JOIN projects p ON p.id = c."projectId"
+    JOIN users u ON u.id = c."uploaderId"
+    LEFT JOIN users h ON h.id = c."claimedBy" AND c."claimExpiresAt" > :now`;
+
+/** The ORDER BY of a queue walk on sort column `key` of table alias `alias`, ties broken by id. */
+export function queueOrder(sequelize: Sequelize, alias: string, key: string, direction: 'ASC' | 'DESC'): string {
+  return `${orderTerm(sequelize, `${alias}."${key}"`, direction)}, ${alias}.id ${direction}`;
+}
 
 /** The page and count statements for a queue query (the benchmark times the same statements raw). */
-export function queueSql(query: ReviewQueueQuery, now: Date): QueueSql {
+export function queueSql(query: ReviewQueueQuery, now: Date, sequelize: Sequelize = Clip.sequelize!): QueueSql {
   const replacements: Record<string, unknown> = {
     now,
     limit: query.pageSize,
@@ -114,28 +120,33 @@ export function queueSql(query: ReviewQueueQuery, now: Date): QueueSql {
   const sort = query.sort ?? DEFAULT_SORT;
   const direction = sort.startsWith('-') ? 'DESC' : 'ASC';
   const key = SORT_KEYS[sort.replace(/^-/, '') as ReviewSortField];
-  const order = (alias: string) => `${alias}.${key} ${direction}, ${alias}.id ${direction}`;
+  const order = queueOrder(sequelize, 'c', key, direction);
   const page = `
     SELECT ${ITEM_COLUMNS}
-    FROM (SELECT c.id FROM clips c INDEXED BY clips_queue_by_${key} WHERE ${where}
-          ORDER BY ${order('c')} LIMIT :limit OFFSET :offset) chosen
+    FROM (SELECT c.id FROM clips c ${indexedBy(sequelize, `clips_queue_by_${key}`)} WHERE ${where}
+          ORDER BY ${order} LIMIT :limit OFFSET :offset) chosen
     ${ITEM_JOINS}
-    ORDER BY ${order('c')}`;
-  const count = `SELECT COUNT(*) AS total FROM clips c INDEXED BY ${countIndex(query)} WHERE ${where}`;
+    ORDER BY ${order}`;
+  const count = `SELECT COUNT(*) AS total FROM clips c ${indexedBy(sequelize, countIndex(query))} WHERE ${where}`;
   return { page, count, replacements };
 }
 
-/** A queue row as SQLite answers it: the item's fields, with the stored forms of those the API reshapes. */
-export type QueueRow = Omit<ReviewQueueItem, 'hasThumbnail' | 'flags' | 'claim'> & {
-  hasThumbnail: number;
-  /** JSON array of flag names. */
-  flags: string;
+/**
+ * A queue row as the database answers it: the item's fields, with the stored forms of those the API reshapes.
+ * SQLite gives 0/1, JSON text and dates as text; PostgreSQL gives booleans, parsed JSON and Date objects.
+ */
+export type QueueRow = Omit<ReviewQueueItem, 'hasThumbnail' | 'flags' | 'claim' | 'capturedAt' | 'createdAt'> & {
+  capturedAt: string | Date | null;
+  createdAt: string | Date;
+  hasThumbnail: number | boolean;
+  /** Flag names, or the JSON text of them. */
+  flags: string | FlagName[];
   claimHolderId: number | null;
   claimHolderName: string | null;
-  claimExpiresAt: string | null;
+  claimExpiresAt: string | Date | null;
 };
 
-const iso = (stored: string) => new Date(stored).toISOString();
+const iso = (stored: string | Date) => new Date(stored).toISOString();
 
 export function toItem(row: QueueRow): ReviewQueueItem {
   const { claimHolderId, claimHolderName, claimExpiresAt, ...fields } = row;
@@ -144,7 +155,7 @@ export function toItem(row: QueueRow): ReviewQueueItem {
     capturedAt: row.capturedAt ? iso(row.capturedAt) : null,
     createdAt: iso(row.createdAt),
     hasThumbnail: Boolean(row.hasThumbnail),
-    flags: JSON.parse(row.flags) as FlagName[],
+    flags: typeof row.flags === 'string' ? (JSON.parse(row.flags) as FlagName[]) : row.flags,
     claim:
       claimHolderId === null
         ? null
@@ -185,7 +196,7 @@ export async function matchingClipIds(
   const replacements: Record<string, unknown> = { limit };
   const where = filterConditions(filter, replacements).join(' AND ');
   const rows = await Clip.sequelize!.query<{ id: number }>(
-    `SELECT c.id FROM clips c INDEXED BY ${countIndex(filter)} WHERE ${where} ORDER BY c.id LIMIT :limit`,
+    `SELECT c.id FROM clips c ${indexedBy(Clip.sequelize!, countIndex(filter))} WHERE ${where} ORDER BY c.id LIMIT :limit`,
     { replacements, type: QueryTypes.SELECT, transaction },
   );
   return rows.map((row) => row.id);
@@ -196,9 +207,9 @@ export async function reviewFacets(): Promise<ReviewFacets> {
   const sequelize = Clip.sequelize!;
   const [uploaders, sites] = await Promise.all([
     sequelize.query<{ id: number; name: string; count: number }>(
-      `SELECT c.uploaderId AS id, u.name AS name, c.count AS count
-       FROM (SELECT uploaderId, COUNT(*) AS count FROM clips WHERE state = 'awaiting_review' GROUP BY uploaderId) c
-       JOIN users u ON u.id = c.uploaderId ORDER BY u.name`,
+      `SELECT c."uploaderId" AS id, u.name AS name, c.count AS count
+       FROM (SELECT "uploaderId", COUNT(*) AS count FROM clips WHERE state = 'awaiting_review' GROUP BY "uploaderId") c
+       JOIN users u ON u.id = c."uploaderId" ORDER BY u.name`,
       { type: QueryTypes.SELECT },
     ),
     sequelize.query<{ site: string; count: number }>(

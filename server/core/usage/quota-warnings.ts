@@ -33,7 +33,7 @@ export async function checkQuotaThresholds(
     where: {
       id: {
         [Op.in]: Clip.sequelize!.literal(
-          `(SELECT DISTINCT uploaderId FROM clips WHERE projectId = ${Number(projectId)})`,
+          `(SELECT DISTINCT "uploaderId" FROM clips WHERE "projectId" = ${Number(projectId)})`,
         ),
       },
       role: 'operator',

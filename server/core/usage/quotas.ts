@@ -11,8 +11,8 @@ export async function projectUsage(
   transaction?: Transaction,
 ): Promise<{ stored: number; reserved: number }> {
   const [row] = await Project.sequelize!.query<{ stored: number | null; reserved: number | null }>(
-    `SELECT (SELECT SUM(storedBytes) FROM clips WHERE projectId = :id) AS stored,
-            (SELECT SUM(bytes) FROM upload_reservations WHERE projectId = :id) AS reserved`,
+    `SELECT (SELECT SUM("storedBytes") FROM clips WHERE "projectId" = :id) AS stored,
+            (SELECT SUM(bytes) FROM upload_reservations WHERE "projectId" = :id) AS reserved`,
     { replacements: { id: projectId }, type: QueryTypes.SELECT, transaction },
   );
   return { stored: Number(row?.stored ?? 0), reserved: Number(row?.reserved ?? 0) };
@@ -24,9 +24,9 @@ export async function userUsage(
   transaction?: Transaction,
 ): Promise<{ stored: number; reserved: number }> {
   const [row] = await User.sequelize!.query<{ stored: number | null; reserved: number | null }>(
-    `SELECT COALESCE((SELECT SUM(storedBytes) FROM clips WHERE uploaderId = :id), 0)
-              + COALESCE((SELECT SUM(bytes) FROM pairsets WHERE ownerId = :id), 0) AS stored,
-            (SELECT SUM(bytes) FROM upload_reservations WHERE userId = :id) AS reserved`,
+    `SELECT COALESCE((SELECT SUM("storedBytes") FROM clips WHERE "uploaderId" = :id), 0)
+              + COALESCE((SELECT SUM(bytes) FROM pairsets WHERE "ownerId" = :id), 0) AS stored,
+            (SELECT SUM(bytes) FROM upload_reservations WHERE "userId" = :id) AS reserved`,
     { replacements: { id: userId }, type: QueryTypes.SELECT, transaction },
   );
   return { stored: Number(row?.stored ?? 0), reserved: Number(row?.reserved ?? 0) };

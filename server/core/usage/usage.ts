@@ -19,11 +19,11 @@ export async function usageReport(paths: StoragePaths): Promise<UsageReport> {
     sourceBytes: number;
     quotaBytes: number | null;
   }>(
-    `SELECT p.id AS projectId, p.name AS name, p.quotaBytes AS quotaBytes,
-            COALESCE((SELECT SUM(storedBytes) FROM clips c WHERE c.projectId = p.id), 0) AS usedBytes,
-            COALESCE((SELECT SUM(sizeBytes) FROM clips c WHERE c.projectId = p.id AND c.purgedAt IS NULL), 0)
-              AS sourceBytes
-     FROM projects p ORDER BY usedBytes DESC, p.name`,
+    `SELECT p.id AS "projectId", p.name AS name, p."quotaBytes" AS "quotaBytes",
+            COALESCE((SELECT SUM("storedBytes") FROM clips c WHERE c."projectId" = p.id), 0) AS "usedBytes",
+            COALESCE((SELECT SUM("sizeBytes") FROM clips c WHERE c."projectId" = p.id AND c."purgedAt" IS NULL), 0)
+              AS "sourceBytes"
+     FROM projects p ORDER BY "usedBytes" DESC, p.name`,
     { type: QueryTypes.SELECT },
   );
   const byUser = await sequelize.query<{
@@ -33,12 +33,12 @@ export async function usageReport(paths: StoragePaths): Promise<UsageReport> {
     sourceBytes: number;
     quotaBytes: number | null;
   }>(
-    `SELECT u.id AS userId, u.name AS name, u.quotaBytes AS quotaBytes,
-            COALESCE((SELECT SUM(sizeBytes) FROM clips c WHERE c.uploaderId = u.id AND c.purgedAt IS NULL), 0)
-              AS sourceBytes,
-            COALESCE((SELECT SUM(storedBytes) FROM clips c WHERE c.uploaderId = u.id), 0)
-              + COALESCE((SELECT SUM(bytes) FROM pairsets s WHERE s.ownerId = u.id), 0) AS usedBytes
-     FROM users u ORDER BY usedBytes DESC, u.name`,
+    `SELECT u.id AS "userId", u.name AS name, u."quotaBytes" AS "quotaBytes",
+            COALESCE((SELECT SUM("sizeBytes") FROM clips c WHERE c."uploaderId" = u.id AND c."purgedAt" IS NULL), 0)
+              AS "sourceBytes",
+            COALESCE((SELECT SUM("storedBytes") FROM clips c WHERE c."uploaderId" = u.id), 0)
+              + COALESCE((SELECT SUM(bytes) FROM pairsets s WHERE s."ownerId" = u.id), 0) AS "usedBytes"
+     FROM users u ORDER BY "usedBytes" DESC, u.name`,
     { type: QueryTypes.SELECT },
   );
   const snapshots = await UsageSnapshot.findAll({ order: [['day', 'DESC']], limit: TREND_DAYS });

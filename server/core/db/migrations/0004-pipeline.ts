@@ -50,6 +50,6 @@ export async function down(queryInterface: QueryInterface, transaction: Transact
   // SQLite's own DROP COLUMN: Sequelize's removeColumn rebuilds the table, and dropping the old clips table
   // would cascade into jobs with foreign keys on.
   for (const column of Object.keys(CLIP_COLUMNS).reverse()) {
-    await queryInterface.sequelize.query(`ALTER TABLE clips DROP COLUMN \`${column}\``, { transaction });
+    await queryInterface.sequelize.query(`ALTER TABLE clips DROP COLUMN "${column}"`, { transaction });
   }
 }

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface, type Transaction } from 'sequelize';
+import { flagTriggers } from '../migration-helpers';
 
 /**
  * Review: verdicts with their history, the hourly rejection digests, a key-value settings table (the reject-reasons
@@ -27,14 +28,10 @@ const SIGNAL_COLUMNS = {
 } as const;
 
 const FLAG_COLUMNS = ['flagMask', 'flagCount'];
-const flagMaskOf = (row: string) =>
-  FLAG_BITS_AT_0006.map((flag, bit) => `(instr(${row}flags, '"${flag}"') > 0) * ${2 ** bit}`).join(' + ');
-const flagSet = (row: string) => `flagMask = ${flagMaskOf(row)}, flagCount = json_array_length(${row}flags)`;
-const FLAG_TRIGGERS: [name: string, event: string][] = [
-  ['clips_flag_mask_insert', 'AFTER INSERT ON clips'],
-  ['clips_flag_mask_update', 'AFTER UPDATE OF flags ON clips'],
-];
-
+const flagMaskOf = (position: string, flags: string) =>
+  FLAG_BITS_AT_0006.map(
+    (flag, bit) => `(CASE WHEN ${position}(${flags}, '"${flag}"') > 0 THEN ${2 ** bit} ELSE 0 END)`,
+  ).join(' + ');
 const FILTER_COLUMNS = ['projectId', 'uploaderId', 'site', 'capturedAt', 'flagMask'];
 const SORT_KEYS = [
   'createdAt',
@@ -109,10 +106,10 @@ export async function up(queryInterface: QueryInterface, transaction: Transactio
   );
   await queryInterface.addIndex('verdicts', ['clipId', 'at'], { transaction });
   // At most one verdict in force per clip: a change supersedes the old one in the same transaction.
-  await sql('CREATE UNIQUE INDEX verdicts_in_force ON verdicts (clipId) WHERE supersededAt IS NULL');
+  await sql('CREATE UNIQUE INDEX verdicts_in_force ON verdicts ("clipId") WHERE "supersededAt" IS NULL');
   // Rejections in force that no digest has told the uploader about yet: what the next digest lists.
-  await sql(`CREATE INDEX verdicts_undigested ON verdicts (clipId)
-    WHERE decision = 'reject' AND supersededAt IS NULL AND digestId IS NULL`);
+  await sql(`CREATE INDEX verdicts_undigested ON verdicts ("clipId")
+    WHERE decision = 'reject' AND "supersededAt" IS NULL AND "digestId" IS NULL`);
 
   await queryInterface.createTable(
     'settings',
@@ -133,23 +130,22 @@ export async function up(queryInterface: QueryInterface, transaction: Transactio
   for (const [column, definition] of Object.entries(SIGNAL_COLUMNS)) {
     await queryInterface.addColumn('clips', column, definition, { transaction });
   }
-  for (const column of FLAG_COLUMNS) await sql(`ALTER TABLE clips ADD COLUMN ${column} INTEGER NOT NULL DEFAULT 0`);
-  await sql(`UPDATE clips SET ${flagSet('')}`);
-  for (const [name, event] of FLAG_TRIGGERS) {
-    await sql(`CREATE TRIGGER ${name} ${event} BEGIN UPDATE clips SET ${flagSet('NEW.')} WHERE id = NEW.id; END`);
-  }
+  for (const column of FLAG_COLUMNS) await sql(`ALTER TABLE clips ADD COLUMN "${column}" INTEGER NOT NULL DEFAULT 0`);
+  const triggers = flagTriggers(queryInterface.sequelize, flagMaskOf);
+  await sql(`UPDATE clips SET ${triggers.assignments('')}`);
+  for (const statement of triggers.create) await sql(statement);
   for (const [name, columns] of QUEUE_INDEXES) {
-    await sql(`CREATE INDEX ${name} ON clips (${columns.map((column) => `\`${column}\``).join(', ')})`);
+    await sql(`CREATE INDEX ${name} ON clips (${columns.map((column) => `"${column}"`).join(', ')})`);
   }
 }
 
 export async function down(queryInterface: QueryInterface, transaction: Transaction): Promise<void> {
   const sql = (statement: string) => queryInterface.sequelize.query(statement, { transaction });
   for (const [name] of [...QUEUE_INDEXES].reverse()) await sql(`DROP INDEX ${name}`);
-  for (const [name] of [...FLAG_TRIGGERS].reverse()) await sql(`DROP TRIGGER ${name}`);
+  for (const statement of flagTriggers(queryInterface.sequelize, flagMaskOf).drop) await sql(statement);
   // SQLite's own DROP COLUMN: a rebuild of clips would cascade into every table that references it.
   for (const column of [...FLAG_COLUMNS, ...Object.keys(SIGNAL_COLUMNS)].reverse()) {
-    await sql(`ALTER TABLE clips DROP COLUMN \`${column}\``);
+    await sql(`ALTER TABLE clips DROP COLUMN "${column}"`);
   }
   await queryInterface.dropTable('settings', { transaction });
   await queryInterface.dropTable('verdicts', { transaction });

@@ -15,5 +15,7 @@ export async function up(queryInterface: QueryInterface, transaction: Transactio
 
 /** DROP COLUMN rather than Sequelize's removeColumn, which rebuilds the table on SQLite. */
 export async function down(queryInterface: QueryInterface, transaction: Transaction): Promise<void> {
-  await queryInterface.sequelize.query('ALTER TABLE motion_fields DROP COLUMN consistentP95Magnitude', { transaction });
+  await queryInterface.sequelize.query('ALTER TABLE motion_fields DROP COLUMN "consistentP95Magnitude"', {
+    transaction,
+  });
 }

@@ -6,7 +6,7 @@ import { DataTypes, type QueryInterface, type Transaction } from 'sequelize';
  * `ALTER TABLE … ADD/DROP COLUMN` on frames, never a rebuild (README, Review: the table keeps its indexes).
  */
 export async function up(queryInterface: QueryInterface, transaction: Transaction): Promise<void> {
-  await queryInterface.sequelize.query('ALTER TABLE frames ADD COLUMN cutEvidence JSON', { transaction });
+  await queryInterface.sequelize.query('ALTER TABLE frames ADD COLUMN "cutEvidence" JSON', { transaction });
   await queryInterface.createTable(
     'cut_marks',
     {
@@ -29,5 +29,5 @@ export async function up(queryInterface: QueryInterface, transaction: Transactio
 
 export async function down(queryInterface: QueryInterface, transaction: Transaction): Promise<void> {
   await queryInterface.dropTable('cut_marks', { transaction });
-  await queryInterface.sequelize.query('ALTER TABLE frames DROP COLUMN cutEvidence', { transaction });
+  await queryInterface.sequelize.query('ALTER TABLE frames DROP COLUMN "cutEvidence"', { transaction });
 }

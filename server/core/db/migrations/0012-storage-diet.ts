@@ -23,6 +23,6 @@ export async function up(queryInterface: QueryInterface, transaction: Transactio
 
 /** `DROP COLUMN`, never Sequelize's removeColumn: on SQLite that rebuilds the table and drops its triggers. */
 export async function down(queryInterface: QueryInterface, transaction: Transaction): Promise<void> {
-  await queryInterface.sequelize.query('ALTER TABLE clips DROP COLUMN predictedDerivedBytes', { transaction });
-  await queryInterface.sequelize.query('ALTER TABLE clips DROP COLUMN derivedFormat', { transaction });
+  await queryInterface.sequelize.query('ALTER TABLE clips DROP COLUMN "predictedDerivedBytes"', { transaction });
+  await queryInterface.sequelize.query('ALTER TABLE clips DROP COLUMN "derivedFormat"', { transaction });
 }
