@@ -2,14 +2,16 @@ import { setTimeout as sleep } from 'node:timers/promises';
 import { Op } from 'sequelize';
 import { PAIRSET_DEFAULTS } from '../../shared/schemas/pairsets';
 import type { Config } from '../core/config';
-import { ApiToken, Clip, Invitation, Job, Pairset, Project, User } from '../core/models';
+import { ApiToken, Clip, Clustering, Invitation, Job, Pairset, Project, User } from '../core/models';
+import { createClustering } from '../core/diversity/clusterings';
+import { clusteringCreateSchema } from '../../shared/schemas/diversity';
 import { createApiToken } from '../core/people/api-tokens';
 import { createInvitation } from '../core/people/invitations';
 import { createPairset, startBuild } from '../core/pairsets/pairsets';
 import { requestReconcile } from '../core/usage/reconcile-requests';
 import { claimClip } from '../core/review/review-claims';
 import { decideClip } from '../core/review/review-verdicts';
-import { DEMO_INVITATION, DEMO_PAIRSET, DEMO_PROJECTS, DEMO_TOKEN_NAME, DEMO_VERDICTS } from './scenario';
+import { DEMO_BALANCE, DEMO_INVITATION, DEMO_PAIRSET, DEMO_PROJECTS, DEMO_TOKEN_NAME, DEMO_VERDICTS } from './scenario';
 
 const log = (message: string) => console.log(`Kinefold demo: ${message}`);
 
@@ -64,7 +66,7 @@ export async function curateDemoCampaign(config: Config, signal: AbortSignal): P
   }
 
   const defined = await Pairset.findOne({ where: { name: DEMO_PAIRSET.name } });
-  if (!defined) await buildDemoPairset(engineer);
+  if (!defined) await buildDemoPairset(engineer, signal);
   // A start stopped between defining the pairset and queuing its build.
   else if (defined.state === 'draft') await startBuild(defined.id, engineer);
   const built = await waitForPairset(signal);
@@ -92,9 +94,11 @@ async function addPaperwork(config: Config, engineer: User, admin: User): Promis
   }
 }
 
-async function buildDemoPairset(engineer: User): Promise<void> {
+async function buildDemoPairset(engineer: User, signal: AbortSignal): Promise<void> {
   const orchard = await Project.findOne({ where: { name: DEMO_PROJECTS[0].name } });
   if (!orchard) return;
+  const clustering = await demoClustering(orchard.id, engineer, signal);
+  if (!clustering) return;
   const pairset = await createPairset(
     {
       ...DEMO_PAIRSET,
@@ -102,11 +106,39 @@ async function buildDemoPairset(engineer: User): Promise<void> {
       projectIds: [orchard.id],
       motionFormat: PAIRSET_DEFAULTS.motionFormat,
       temperature: PAIRSET_DEFAULTS.temperature,
+      diversity: {
+        clusteringId: clustering.id,
+        capShare: DEMO_BALANCE.capShare,
+        mixClusters: DEMO_BALANCE.mixClusters,
+      },
     },
     engineer.id,
   );
   await startBuild(pairset.id, engineer);
   log(`${engineer.name} queued the build of pairset "${DEMO_PAIRSET.name}" v1 (${pairset.id}); the worker builds it.`);
+}
+
+/** The orchard's clustering (queued by the engineer, run by the worker) once done; null when it failed or stopped. */
+async function demoClustering(projectId: number, engineer: User, signal: AbortSignal): Promise<Clustering | null> {
+  const existing = (await Clustering.findAll({ order: [['id', 'DESC']] })).find(
+    (clustering) => clustering.projectIds.length === 1 && clustering.projectIds[0] === projectId,
+  );
+  const id =
+    existing?.id ??
+    (
+      await createClustering(
+        clusteringCreateSchema.parse({ projectIds: [projectId], seed: DEMO_BALANCE.clusteringSeed }),
+        engineer.id,
+      )
+    ).id;
+  if (!existing) log(`${engineer.name} queued a clustering of the orchard's moments to balance the pairset.`);
+  while (!signal.aborted) {
+    const clustering = await Clustering.findByPk(id);
+    if (!clustering || clustering.state === 'failed') return null;
+    if (clustering.state === 'done') return clustering;
+    await pause(POLL_MS, signal);
+  }
+  return null;
 }
 
 /** Waits for the demo pairset's build to end; null when the server stopped first. */

@@ -308,6 +308,12 @@ export const DEMO_PAIRSET = {
   shardMB: 8,
 };
 
+/**
+ * The engineer clusters the orchard's moments (k chosen by the silhouette) and balances the pairset so no one
+ * scene gives more than 40 % of its moments, with clusters taken in turn within each shard.
+ */
+export const DEMO_BALANCE = { clusteringSeed: 2026, capShare: 0.4, mixClusters: true } as const;
+
 /** A field hand the admin has invited but who has not joined yet, and the engineer's token for a training machine. */
 export const DEMO_INVITATION = { email: 'row-scout@kinefold.test', role: 'operator' as const };
 export const DEMO_TOKEN_NAME = 'training-rig-1';

@@ -4,6 +4,7 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
+  DEMO_BALANCE,
   DEMO_CLIPS,
   DEMO_INVITATION,
   DEMO_PAIRSET,
@@ -13,7 +14,7 @@ import {
 } from '../../server/demo/scenario';
 import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
 import type { ListPage } from '../../shared/api-types';
-import type { PairsetSummary } from '../../shared/types/pairsets';
+import type { PairsetDetail, PairsetSummary } from '../../shared/types/pairsets';
 import type { UsageReport } from '../../shared/types/admin';
 import type { ClipSummary } from '../../shared/types/clips';
 import { startRunningApp, type RunningApp, type Session } from '../helpers/app-processes';
@@ -92,12 +93,20 @@ beforeAll(async () => {
     const waiting = all.items.filter((clip) => clip.state === 'queued' || clip.state === 'processing');
     return all.total === DEMO_FILE_COUNT && waiting.length === 0 ? true : null;
   });
-  await until('the demo pairset built', async () => {
+  const pairset = await until('the demo pairset built', async () => {
     const list = await getJson<ListPage<PairsetSummary>>(engineer, '/api/pairsets');
-    const pairset = list.items.find((item) => item.name === DEMO_PAIRSET.name);
-    if (pairset?.state === 'failed') throw new Error('the demo pairset failed to build');
-    return pairset?.state === 'built' ? pairset : null;
+    const found = list.items.find((item) => item.name === DEMO_PAIRSET.name);
+    if (found?.state === 'failed') throw new Error('the demo pairset failed to build');
+    return found?.state === 'built' ? found : null;
   });
+  // The balanced demo pairset: no one cluster of the orchard's moments gives more than the cap's share.
+  const detail = await getJson<PairsetDetail>(engineer, `/api/pairsets/${pairset.id}`);
+  const clusters = detail.stats!.clusters!;
+  console.log(
+    `demo: ${clusters.clusters.length} clusters; largest share ${clusters.largestShareBefore.toFixed(2)} before ` +
+      `balancing, ${clusters.largestShareAfter.toFixed(2)} after (cap ${DEMO_BALANCE.capShare})`,
+  );
+  expect(clusters.largestShareAfter).toBeLessThanOrEqual(DEMO_BALANCE.capShare);
   await until('storage measured by kind', async () => {
     const usage = await getJson<UsageReport>(admin, '/api/admin/usage');
     return usage.byKind && usage.byKind.pairsets > 0 ? usage : null;
