@@ -19,7 +19,7 @@ export async function startS3Fake(bucket = 'kinefold-test'): Promise<S3Fake> {
     port: 0,
     directory,
     silent: true,
-    configureBuckets: [{ name: bucket }],
+    configureBuckets: [{ name: bucket, configs: [] }],
   });
   const { port } = await fake.run();
   const endpoint = `http://127.0.0.1:${port}`;

@@ -4,7 +4,7 @@ import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import type { Readable } from 'node:stream';
 import {
-  StoreUnreachable,
+  StoreNotUsable,
   type ByteRange,
   type ObjectHead,
   type ObjectRead,
@@ -80,7 +80,7 @@ export function createFolderStore(folder: string): ObjectStore {
         await fs.promises.mkdir(root, { recursive: true });
         await fs.promises.access(root, fs.constants.W_OK);
       } catch (error) {
-        throw new StoreUnreachable(`KINEFOLD_STORAGE_DIR: ${root} cannot be written (${(error as Error).message}).`);
+        throw new StoreNotUsable(`KINEFOLD_STORAGE_DIR: ${root} cannot be written (${(error as Error).message}).`);
       }
     },
     async putFile(key, file, options = {}) {

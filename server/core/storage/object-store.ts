@@ -10,7 +10,7 @@ export interface ObjectStore {
   readonly kind: 'folder' | 's3';
   /** Where the objects live, for logs: the folder, or `s3://bucket/prefix`. */
   readonly location: string;
-  /** Resolves once the store answers; otherwise rejects with a StoreUnreachable naming the setting to fix. */
+  /** Resolves once the store answers; otherwise rejects with a StoreNotUsable naming the setting to fix. */
   ready(): Promise<void>;
   /**
    * Stores a local file under `key`, streamed (never held in memory). With `move`, the file is gone afterwards:
@@ -35,6 +35,12 @@ export interface ObjectStore {
   delete(prefix: string): Promise<void>;
   /** Bytes of every object under `prefix/` (0 when there are none). */
   size(prefix: string): Promise<number>;
+}
+
+/** A stored object a request asks for, with what to call it in a 404 when it is not (or no longer) there. */
+export interface StoredRef {
+  key: string;
+  what: string;
 }
 
 export interface ByteRange {
@@ -71,9 +77,9 @@ export function joinKey(...parts: string[]): string {
 }
 
 /** A store that does not answer at startup: its message names the variable to fix and is shown without a stack. */
-export class StoreUnreachable extends Error {
+export class StoreNotUsable extends Error {
   constructor(message: string, cause?: unknown) {
     super(message, { cause });
-    this.name = 'StoreUnreachable';
+    this.name = 'StoreNotUsable';
   }
 }

@@ -14,7 +14,7 @@ import {
   type S3ServiceException,
 } from '@aws-sdk/client-s3';
 import { Upload } from '@aws-sdk/lib-storage';
-import { joinKey, StoreUnreachable, type ObjectHead, type ObjectStore, type StoredObject } from './object-store';
+import { joinKey, StoreNotUsable, type ObjectHead, type ObjectStore, type StoredObject } from './object-store';
 
 export interface S3Location {
   bucket: string;
@@ -73,7 +73,7 @@ export function createS3Store(client: S3Client, { bucket, prefix }: S3Location, 
       try {
         await client.send(new HeadBucketCommand({ Bucket: bucket }), { abortSignal: AbortSignal.timeout(READY_TIMEOUT_MS) });
       } catch (error) {
-        throw new StoreUnreachable(
+        throw new StoreNotUsable(
           `KINEFOLD_OBJECT_STORE: bucket "${bucket}" cannot be reached${endpoint ? ` at KINEFOLD_S3_ENDPOINT ${endpoint}` : ''} ` +
             `(${reasonOf(error)}). Check the bucket, the endpoint, and AWS_ACCESS_KEY_ID / AWS_SECRET_ACCESS_KEY / AWS_REGION.`,
           error,

@@ -4,7 +4,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { Readable } from 'node:stream';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { StoreUnreachable, type ObjectStore } from '../../../server/core/storage/object-store';
+import { StoreNotUsable, type ObjectStore } from '../../../server/core/storage/object-store';
 import { createObjectStore, parseObjectStoreUrl } from '../../../server/core/storage/open-store';
 import { startS3Fake, type S3Fake } from '../../helpers/s3-fake';
 
@@ -129,7 +129,7 @@ describe('opening the S3 store', () => {
 
   it('names the variable when the bucket is missing or the endpoint does not answer', async () => {
     const missing = createObjectStore({ storageDir: scratch, objectStore: 's3://no-such-bucket', s3Endpoint: fake.endpoint, s3Region: 'us-east-1' });
-    await expect(missing.ready()).rejects.toThrow(StoreUnreachable);
+    await expect(missing.ready()).rejects.toThrow(StoreNotUsable);
     await expect(missing.ready()).rejects.toThrow(/KINEFOLD_OBJECT_STORE: bucket "no-such-bucket".*no such bucket/);
 
     // Port 9 (discard) is closed on test machines: the connection is refused at once.
