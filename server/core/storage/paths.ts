@@ -37,13 +37,6 @@ export function storagePaths(root: string) {
 }
 export type StoragePaths = ReturnType<typeof storagePaths>;
 
-/**
- * The same layout as keys of the object store (object-store.ts): relative to its root, `/`-separated. Server and
- * worker name stored objects only through these; `storagePaths` remains for the local folders (incoming uploads,
- * the database, a worker's scratch).
- */
-export const objectKeys: StoragePaths = storagePaths('');
-
 /** The folder of resumable uploads inside `incoming/`: they outlive a restart, unlike the other partial files. */
 export const RESUMABLE_DIR = 'resumable';
 /** Work folders start with this, so leftovers of a crashed attempt are found and removed by name. */
@@ -91,3 +84,10 @@ export function derivedLayout(base: string, format: DerivedFormat = 'packed') {
   };
 }
 export type DerivedLayout = ReturnType<typeof derivedLayout>;
+
+/**
+ * The same layout as keys of the object store (object-store.ts): relative to its root, `/`-separated. Server and
+ * worker name stored objects only through these; `storagePaths` remains for the local folders (incoming uploads,
+ * the database, a worker's scratch).
+ */
+export const objectKeys: StoragePaths = storagePaths('');
