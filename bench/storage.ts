@@ -26,6 +26,7 @@ import { floByteLength } from '../shared/motion/formats/flo';
 import type { ClipSummary } from '../shared/types/clips';
 import { startRunningApp } from '../tests/helpers/app-processes';
 import { renderRowPassClip } from './row-pass-clip';
+import { createFolderStore } from '../server/core/storage/folder-store';
 
 const { values } = parseArgs({ options: { seconds: { type: 'string', default: '60' } } });
 const SECONDS = Math.max(5, Number(values.seconds));
@@ -123,7 +124,7 @@ async function measure(clip: Clip, group: string): Promise<Measured> {
   for (const name of fs.readdirSync(layout.motionDir)) {
     const index = Number(name.slice(0, 6));
     const { width, height } = await readRgbImage(layout.frame(index));
-    const picture = await motionFieldFile(clip.id, index, 'picture', paths);
+    const picture = await motionFieldFile(clip.id, index, 'picture', createFolderStore(paths.root));
     motion += 2 * floByteLength(width, height) + picture.length;
   }
   return {

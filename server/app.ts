@@ -15,11 +15,15 @@ import { createSignInLimits } from './middlewares/sign-in-limits';
 import { createApiRouter } from './routes';
 import { deriveKey, loadServerSecret } from './core/people/secrets';
 import { sessionMaxAgeMs } from './core/settings/settings';
+import type { ObjectStore } from './core/storage/object-store';
+import { createObjectStore } from './core/storage/open-store';
 import { storagePaths } from './core/storage/paths';
 
 export interface AppContext {
   config: Config;
   sequelize: Sequelize;
+  /** Where sources, derived files and shards live; by default the one the configuration names. */
+  store?: ObjectStore;
   /** Where the built client lives; served with an SPA fallback when present. */
   clientDir?: string;
 }
@@ -73,6 +77,7 @@ export function createApp(context: AppContext): KinefoldApp {
     createApiRouter({
       auth: { signInLimits: createSignInLimits(config), issueCsrfToken: csrf.issueToken },
       paths: storagePaths(config.storageDir),
+      store: context.store ?? createObjectStore(config),
       uploadLimitBytes: config.uploadLimitBytes,
       config,
     }),

@@ -7,20 +7,24 @@ import { openKinefoldDatabaseOrExit } from './core/db/open';
 import { runDemoCampaign } from './demo/campaign';
 import { startMail } from './core/mail';
 import { cleanStaleUploads, expireResumableUploads } from './core/usage/storage-hygiene';
-import { storagePaths } from './core/storage/paths';
+import { objectKeys, storagePaths } from './core/storage/paths';
+import { openStoreOrExit } from './core/storage/open-store';
 
 /** How often idle resumable uploads are looked for; their expiry is measured in hours. */
 const RESUMABLE_SWEEP_MS = 15 * 60_000;
 
 const config = loadConfig();
+const store = await openStoreOrExit(config, 'server');
 const sequelize = await openKinefoldDatabaseOrExit(config);
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'dist');
-const kinefold = createApp({ config, sequelize, clientDir });
+const kinefold = createApp({ config, sequelize, clientDir, store });
 // Only the server receives uploads, one server per storage folder, and it has not listened yet: nothing begun
 // before this moment can still be in flight, so a crash mid-upload holds no quota past the restart.
 // Resumable uploads are the exception: they wait for their sender until idle for config.resumableIdleMs.
 const paths = storagePaths(config.storageDir);
 const cleaned = await cleanStaleUploads(paths, { before: Date.now() });
+// In a bucket, incoming/ holds only uploads staged for admission (the local folder's files were counted above).
+if (store.kind === 's3') await store.delete(objectKeys.incomingDir);
 if (cleaned.files + cleaned.reservations > 0) {
   console.log(
     `Kinefold server: removed ${cleaned.files} stale partial uploads, released ${cleaned.reservations} reservations.`,
@@ -46,7 +50,7 @@ console.log(
 
 const demoStop = new AbortController();
 const server = kinefold.app.listen(config.port, () => {
-  console.log(`Kinefold server listening on http://localhost:${config.port} (storage: ${config.storageDir})`);
+  console.log(`Kinefold server listening on http://localhost:${config.port} (storage: ${store.location})`);
   // The demo footage is rendered by ffmpeg child processes, so the server answers requests meanwhile.
   if (config.demo === 'full') {
     runDemoCampaign(config, demoStop.signal).catch((error: unknown) =>

@@ -8,6 +8,7 @@ import os from 'node:os';
 import { loadConfig } from '../server/core/config';
 import { openKinefoldDatabaseOrExit } from '../server/core/db/open';
 import { queueCompactionIfNeeded } from '../server/core/storage/compaction';
+import { openStoreOrExit } from '../server/core/storage/open-store';
 import { storagePaths } from '../server/core/storage/paths';
 import { createFramePool } from './pool/frame-pool';
 import { startDailySchedule } from './runtime/daily-schedule';
@@ -15,6 +16,16 @@ import { createJobRuntime } from './runtime/job-runtime';
 import { startPresence } from './runtime/presence';
 
 const config = loadConfig();
+const store = await openStoreOrExit(config, 'worker');
+if (store.kind !== 'folder') {
+  // The stages still read and write clip folders under KINEFOLD_STORAGE_DIR; running them beside a bucket would
+  // process files the server never sees.
+  console.error(
+    `Kinefold worker cannot start: KINEFOLD_OBJECT_STORE is set (${store.location}), and workers do not yet ` +
+      'process clips held in an object store. Unset it to process from KINEFOLD_STORAGE_DIR.',
+  );
+  process.exit(1);
+}
 // Set before the thread pool, ffmpeg and libuv's threads start, so they inherit it: the worker's CPU-heavy work
 // yields to the server, which must keep answering people while clips process. Only ever lowered: a process may not
 // raise its own priority, and one started nicer than this stays so.

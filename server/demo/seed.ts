@@ -11,6 +11,7 @@ import { reserveUpload } from '../core/usage/quotas';
 import { storagePaths } from '../core/storage/paths';
 import { renderDemoClip, renderDuplicate, writeNotAVideo } from './footage';
 import { DEMO_CLIPS, DEMO_DUPLICATE, DEMO_PROJECTS, type DemoClipRecipe } from './scenario';
+import { createObjectStore } from '../core/storage/open-store';
 
 const log = (message: string) => console.log(`Kinefold demo: ${message}`);
 
@@ -106,7 +107,7 @@ async function ingest(
       },
       path.basename(file),
       uploaderId,
-      { paths, publicUrl: config.publicUrl },
+      { store: createObjectStore(config), publicUrl: config.publicUrl },
     );
     log(`clip ${clip.id} ${recipe.file}${recipe.expect ? ` (made to raise "${recipe.expect}")` : ''} queued`);
   } catch (error) {

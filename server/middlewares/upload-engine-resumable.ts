@@ -11,6 +11,7 @@ import {
   resumableUploader,
   type ResumableMetadata,
 } from '../core/clips/resumable-upload';
+import type { ObjectStore } from '../core/storage/object-store';
 import type { StoragePaths } from '../core/storage/paths';
 import { releaseUpload } from '../core/usage/quotas';
 import { tooLarge } from './upload';
@@ -40,6 +41,7 @@ class ReservedFileStore extends FileStore {
 
 export interface ResumableUploadOptions {
   paths: StoragePaths;
+  store: ObjectStore;
   limitBytes: number;
   publicUrl: string;
   /** Where the uploads live in the API, for the Location of a new upload. */
@@ -53,7 +55,13 @@ export interface ResumableUploadOptions {
  * reserves Content-Length; the last byte triggers the same admission (duplicate, probe), and the clip comes back
  * as JSON in the answer to the final PATCH. Refusals answer `{ error: { code, message } }` like every other route.
  */
-export function resumableUploadEngine({ paths, limitBytes, publicUrl, route }: ResumableUploadOptions): RequestHandler {
+export function resumableUploadEngine({
+  paths,
+  store,
+  limitBytes,
+  publicUrl,
+  route,
+}: ResumableUploadOptions): RequestHandler {
   /** Uploads whose last byte is in and whose admission runs: asked about meanwhile, they answer 423 (retry). */
   const admitting = new Set<string>();
 
@@ -93,7 +101,7 @@ export function resumableUploadEngine({ paths, limitBytes, publicUrl, route }: R
           const clip = await admitResumableUpload(
             { id: upload.id, size: upload.size!, metadata: upload.metadata as ResumableMetadata },
             uploaderOf(req),
-            { paths, publicUrl },
+            { paths, store, publicUrl },
           );
           return {
             status_code: HttpStatus.OK,

@@ -7,30 +7,31 @@ import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { validated } from '../middlewares/validate';
 import {
   clipProgress,
-  framePath,
+  frameObject,
   listFrames,
-  previewPath,
+  previewObject,
   reprocessClip,
-  thumbnailPath,
+  thumbnailObject,
   viewImage,
 } from '../core/clips/clip-media';
 import { motionFieldFile, type MotionFile } from '../core/clips/clip-motion';
-import type { StoragePaths } from '../core/storage/paths';
+import type { ObjectStore, StoredRef } from '../core/storage/object-store';
+import { sendStored } from './send-stored';
 
 /**
- * What processing made of a clip, under /api/clips. Stored files stream with Range support (sendFile answers 206);
+ * What processing made of a clip, under /api/clips. Stored files stream with Range support (send-stored.ts);
  * views, .flo files and motion pictures are made when asked and answered whole, with an ETag.
  */
-export function createClipMediaRouter(paths: StoragePaths): Router {
+export function createClipMediaRouter(store: ObjectStore): Router {
   const router = Router();
   const byId = { params: idParamSchema };
   router.get('/:id/frames', requireSignIn, validated(byId, getFrames));
-  router.get('/:id/frames/:index', requireSignIn, validated({ params: frameParamSchema }, getFrameImage(paths)));
-  router.get('/:id/views/:index/:view', requireSignIn, validated({ params: viewParamSchema }, getViewImage(paths)));
-  router.get('/:id/motion/:index', requireSignIn, validated({ params: frameParamSchema }, getMotion(paths, 'picture')));
-  router.get('/:id/motion/:index/flo', requireSignIn, validated({ params: frameParamSchema }, getMotion(paths, 'flo')));
-  router.get('/:id/thumbnail', requireSignIn, validated(byId, getThumbnail(paths)));
-  router.get('/:id/preview', requireSignIn, validated(byId, getPreview(paths)));
+  router.get('/:id/frames/:index', requireSignIn, validated({ params: frameParamSchema }, getFrameImage(store)));
+  router.get('/:id/views/:index/:view', requireSignIn, validated({ params: viewParamSchema }, getViewImage(store)));
+  router.get('/:id/motion/:index', requireSignIn, validated({ params: frameParamSchema }, getMotion(store, 'picture')));
+  router.get('/:id/motion/:index/flo', requireSignIn, validated({ params: frameParamSchema }, getMotion(store, 'flo')));
+  router.get('/:id/thumbnail', requireSignIn, validated(byId, getThumbnail(store)));
+  router.get('/:id/preview', requireSignIn, validated(byId, getPreview(store)));
   router.get('/:id/progress', requireSignIn, validated(byId, getProgress));
   router.post('/:id/reprocess', requireRole('admin'), validated(byId, postReprocess));
   return router;
@@ -40,25 +41,25 @@ async function getFrames({ params }: { params: IdParam }, _req: Request, res: Re
   res.json(await listFrames(params.id));
 }
 
-function getFrameImage(paths: StoragePaths) {
-  return async ({ params }: { params: FrameParam }, _req: Request, res: Response) => {
+function getFrameImage(store: ObjectStore) {
+  return async ({ params }: { params: FrameParam }, req: Request, res: Response) => {
     const { id, index } = params;
-    sendDerived(res, await framePath(id, index, paths));
+    await sendDerived(req, res, store, await frameObject(id, index));
   };
 }
 
-function getViewImage(paths: StoragePaths) {
+function getViewImage(store: ObjectStore) {
   return async ({ params }: { params: ViewParam }, req: Request, res: Response) => {
     const { id, index, view } = params;
-    sendMade(req, res, await viewImage(id, index, view, paths), 'image/png');
+    sendMade(req, res, await viewImage(id, index, view, store), 'image/png');
   };
 }
 
 /** The forward field from frame index to index + 1: its colour picture, or the field as a Middlebury .flo file. */
-function getMotion(paths: StoragePaths, file: MotionFile) {
+function getMotion(store: ObjectStore, file: MotionFile) {
   return async ({ params }: { params: FrameParam }, req: Request, res: Response) => {
     const { id, index } = params;
-    const bytes = await motionFieldFile(id, index, file, paths);
+    const bytes = await motionFieldFile(id, index, file, store);
     if (file === 'picture') return sendMade(req, res, bytes, 'image/png');
     // .flo has no registered media type; a download name saves scripts from guessing one.
     res.set('Content-Disposition', `attachment; filename="clip-${id}-motion-${index}.flo"`);
@@ -66,15 +67,15 @@ function getMotion(paths: StoragePaths, file: MotionFile) {
   };
 }
 
-function getThumbnail(paths: StoragePaths) {
-  return async ({ params }: { params: IdParam }, _req: Request, res: Response) => {
-    sendDerived(res, await thumbnailPath(params.id, paths));
+function getThumbnail(store: ObjectStore) {
+  return async ({ params }: { params: IdParam }, req: Request, res: Response) => {
+    await sendDerived(req, res, store, await thumbnailObject(params.id));
   };
 }
 
-function getPreview(paths: StoragePaths) {
-  return async ({ params }: { params: IdParam }, _req: Request, res: Response) => {
-    sendDerived(res, await previewPath(params.id, paths));
+function getPreview(store: ObjectStore) {
+  return async ({ params }: { params: IdParam }, req: Request, res: Response) => {
+    await sendDerived(req, res, store, await previewObject(params.id));
   };
 }
 
@@ -111,11 +112,6 @@ function sendMade(req: Request, res: Response, bytes: Buffer, type: string): voi
 }
 
 /** Derived files change when a clip is processed again, so the browser asks each time (ETag makes that cheap). */
-function sendDerived(res: Response, file: string, headers: Record<string, string> = {}): void {
-  res.sendFile(file, {
-    acceptRanges: true,
-    dotfiles: 'deny',
-    cacheControl: false,
-    headers: { 'Cache-Control': 'private, no-cache', ...headers },
-  });
+function sendDerived(req: Request, res: Response, store: ObjectStore, ref: StoredRef): Promise<void> {
+  return sendStored(req, res, store, ref, { 'Cache-Control': 'private, no-cache' });
 }

@@ -8,24 +8,30 @@ import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
 import { receiveClipUpload } from '../middlewares/upload';
 import { validated } from '../middlewares/validate';
 import { admitUpload } from '../core/clips/clip-admission';
-import { clipSourcePath, getClipDetail, listClips, removeClip, updateClipMetadata } from '../core/clips/clips';
+import { clipSourceObject, getClipDetail, listClips, removeClip, updateClipMetadata } from '../core/clips/clips';
+import type { ObjectStore } from '../core/storage/object-store';
 import type { StoragePaths } from '../core/storage/paths';
+import { sendStored } from './send-stored';
 
-export function createClipsRouter(paths: StoragePaths, uploadLimitBytes: number, publicUrl: string): Router {
+export function createClipsRouter(
+  { paths, store }: { paths: StoragePaths; store: ObjectStore },
+  uploadLimitBytes: number,
+  publicUrl: string,
+): Router {
   const router = Router();
-  router.post('/', requireRole('operator'), receiveClipUpload(paths, uploadLimitBytes), postClip(paths, publicUrl));
+  router.post('/', requireRole('operator'), receiveClipUpload(paths, uploadLimitBytes), postClip(store, publicUrl));
   router.get('/', requireSignIn, validated({ query: clipListQuerySchema }, getClips));
   router.get('/:id', requireSignIn, validated({ params: idParamSchema }, getClip));
   router.patch('/:id', requireSignIn, validated({ params: idParamSchema, body: clipPatchSchema }, patchClip));
-  router.delete('/:id', requireSignIn, validated({ params: idParamSchema }, deleteClip(paths)));
-  router.get('/:id/source', requireSignIn, validated({ params: idParamSchema }, getClipSource(paths)));
+  router.delete('/:id', requireSignIn, validated({ params: idParamSchema }, deleteClip(store)));
+  router.get('/:id/source', requireSignIn, validated({ params: idParamSchema }, getClipSource(store)));
   return router;
 }
 
-function postClip(paths: StoragePaths, publicUrl: string) {
+function postClip(store: ObjectStore, publicUrl: string) {
   return async (req: Request, res: Response<ClipSummary>) => {
     const clip = await admitUpload(req.file!.received!, req.file!.originalname, currentUser(req).id, {
-      paths,
+      store,
       publicUrl,
     });
     res.status(HttpStatus.CREATED).json(clip);
@@ -52,17 +58,16 @@ async function patchClip(
   res.json(await updateClipMetadata(params.id, body, currentUser(req)));
 }
 
-function deleteClip(paths: StoragePaths) {
+function deleteClip(store: ObjectStore) {
   return async ({ params }: { params: IdParam }, req: Request, res: Response) => {
-    await removeClip(params.id, currentUser(req), paths);
+    await removeClip(params.id, currentUser(req), store);
     res.status(HttpStatus.NO_CONTENT).end();
   };
 }
 
-/** The source file, typed by its stored extension, with HTTP Range support (sendFile answers 206 to a Range). */
-function getClipSource(paths: StoragePaths) {
-  return async ({ params }: { params: IdParam }, _req: Request, res: Response) => {
-    const source = await clipSourcePath(params.id, paths);
-    res.sendFile(source.path, { acceptRanges: true, dotfiles: 'deny' });
+/** The source file, typed by its stored extension, with HTTP Range support (206 to one range). */
+function getClipSource(store: ObjectStore) {
+  return async ({ params }: { params: IdParam }, req: Request, res: Response) => {
+    await sendStored(req, res, store, await clipSourceObject(params.id));
   };
 }

@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import type { Config } from '../core/config';
 import { apiNotFound } from '../middlewares/errors';
+import type { ObjectStore } from '../core/storage/object-store';
 import type { StoragePaths } from '../core/storage/paths';
 import { createAdminRouter } from './admin';
 import { createSettingsRouter } from './settings';
@@ -26,7 +27,10 @@ import { createUsersRouter } from './users';
 /** Every API route under /api, then a JSON 404 for anything else there. */
 export interface ApiDeps {
   auth: AuthRouterDeps;
+  /** Local folders: incoming uploads (received here before they go to the store). */
   paths: StoragePaths;
+  /** Sources, derived files and shards. */
+  store: ObjectStore;
   uploadLimitBytes: number;
   /** Mail links, password hashing and the reset-request limits read the settings. */
   config: Config;
@@ -46,12 +50,13 @@ export function createApiRouter(deps: ApiDeps): Router {
     '/clips/resumable',
     createResumableUploadsRouter({
       paths: deps.paths,
+      store: deps.store,
       limitBytes: deps.uploadLimitBytes,
       publicUrl: deps.config.publicUrl,
     }),
   );
-  api.use('/clips', createClipsRouter(deps.paths, deps.uploadLimitBytes, deps.config.publicUrl));
-  api.use('/clips', createClipMediaRouter(deps.paths));
+  api.use('/clips', createClipsRouter(deps, deps.uploadLimitBytes, deps.config.publicUrl));
+  api.use('/clips', createClipMediaRouter(deps.store));
   api.use('/clips', createClipCutsRouter());
   api.use('/clips', createClipReviewRouter());
   api.use('/clips', createSimilarClipsRouter());
@@ -60,7 +65,7 @@ export function createApiRouter(deps: ApiDeps): Router {
   api.use('/settings', createSettingsRouter(deps.config));
   api.use('/admin', createAdminRouter(deps.paths));
   api.use('/jobs', jobsRouter);
-  api.use('/pairsets', createPairsetsRouter(deps.paths));
+  api.use('/pairsets', createPairsetsRouter(deps.store));
   api.use('/clusterings', createClusteringsRouter());
   api.use('/tokens', tokensRouter);
   api.use(auditRouter);

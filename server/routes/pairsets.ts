@@ -21,17 +21,18 @@ import {
   deletePairset,
   getPairsetDetail,
   listPairsets,
-  manifestPath,
+  manifestObject,
   newPairsetVersion,
   pairsetDifficulty,
   previewPairset,
   shardFile,
   startBuild,
 } from '../core/pairsets/pairsets';
-import type { StoragePaths } from '../core/storage/paths';
+import type { ObjectStore } from '../core/storage/object-store';
+import { sendStored } from './send-stored';
 
 /** Pairsets under /api/pairsets, for engineers (admins pass). Reads and downloads also take an API token. */
-export function createPairsetsRouter(paths: StoragePaths): Router {
+export function createPairsetsRouter(store: ObjectStore): Router {
   const router = Router();
   const engineer = requireRole('engineer');
   const byId = { params: idParamSchema };
@@ -42,9 +43,9 @@ export function createPairsetsRouter(paths: StoragePaths): Router {
   router.post('/:id/build', engineer, validated(byId, postBuild));
   router.post('/:id/cancel', engineer, validated(byId, postCancel));
   router.post('/:id/new-version', engineer, validated(byId, postNewVersion));
-  router.delete('/:id', engineer, validated(byId, removePairset(paths)));
-  router.get('/:id/manifest', engineer, validated(byId, getManifest(paths)));
-  router.get('/:id/shards/:index', engineer, validated({ params: shardParamSchema }, getShard(paths)));
+  router.delete('/:id', engineer, validated(byId, removePairset(store)));
+  router.get('/:id/manifest', engineer, validated(byId, getManifest(store)));
+  router.get('/:id/shards/:index', engineer, validated({ params: shardParamSchema }, getShard(store)));
   router.get('/:id/difficulty', engineer, validated(byId, getDifficulty));
   return router;
 }
@@ -95,31 +96,26 @@ async function postNewVersion(
   res.status(HttpStatus.CREATED).json(created);
 }
 
-function removePairset(paths: StoragePaths) {
+function removePairset(store: ObjectStore) {
   return async ({ params }: { params: IdParam }, req: Request, res: Response) => {
-    await deletePairset(params.id, currentUser(req), paths);
+    await deletePairset(params.id, currentUser(req), store);
     res.status(HttpStatus.NO_CONTENT).end();
   };
 }
 
-/** Built files never change, so they may be cached; sendFile answers a Range with 206 (resumable downloads). */
-function getManifest(paths: StoragePaths) {
-  return async ({ params }: { params: IdParam }, _req: Request, res: Response) => {
-    const file = await manifestPath(params.id, paths);
-    res.sendFile(file, { acceptRanges: true, dotfiles: 'deny', headers: { 'Content-Type': 'application/json' } });
+/** Built files never change, so they may be cached; a Range is answered 206 (resumable downloads). */
+function getManifest(store: ObjectStore) {
+  return async ({ params }: { params: IdParam }, req: Request, res: Response) => {
+    await sendStored(req, res, store, await manifestObject(params.id), { 'Content-Type': 'application/json' });
   };
 }
 
-function getShard(paths: StoragePaths) {
-  return async ({ params }: { params: ShardParam }, _req: Request, res: Response) => {
+function getShard(store: ObjectStore) {
+  return async ({ params }: { params: ShardParam }, req: Request, res: Response) => {
     const { id, index } = params;
-    const shard = await shardFile(id, index, paths);
+    const shard = await shardFile(id, index);
     res.attachment(shard.file);
-    res.sendFile(shard.path, {
-      acceptRanges: true,
-      dotfiles: 'deny',
-      headers: { 'Content-Type': 'application/x-tar' },
-    });
+    await sendStored(req, res, store, shard, { 'Content-Type': 'application/x-tar' });
   };
 }
 

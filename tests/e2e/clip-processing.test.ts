@@ -13,6 +13,7 @@ import { launchBrowser, screenshot, signInThroughForm } from '../helpers/browser
 import { makeTestClip } from '../helpers/media-fixtures';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { startRunningServer, type RunningServer } from '../helpers/running-server';
+import { createFolderStore } from '../../server/core/storage/folder-store';
 
 let server: RunningServer;
 let browser: Browser;
@@ -50,7 +51,7 @@ beforeAll(async () => {
     },
     'creek-pass.mp4',
     operator.id,
-    { paths: storagePaths(server.storageDir), publicUrl: server.config.publicUrl },
+    { store: createFolderStore(server.storageDir), publicUrl: server.config.publicUrl },
   );
   clipId = clip.id;
   expect(await runtime.drain()).toBe(1);

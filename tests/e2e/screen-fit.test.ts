@@ -6,6 +6,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { admitUpload } from '../../server/core/clips/clip-admission';
 import { Project, User } from '../../server/core/models';
+import { createFolderStore } from '../../server/core/storage/folder-store';
 import { storagePaths } from '../../server/core/storage/paths';
 import { reserveUpload } from '../../server/core/usage/quotas';
 import type { Role } from '../../shared/roles';
@@ -43,7 +44,7 @@ async function admit(projectId: number, uploaderId: number, name: string, seed: 
     },
     name,
     uploaderId,
-    { paths: storagePaths(server.storageDir), publicUrl: server.config.publicUrl },
+    { store: createFolderStore(server.storageDir), publicUrl: server.config.publicUrl },
   );
   return clip.id;
 }

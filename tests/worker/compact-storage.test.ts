@@ -16,6 +16,7 @@ import { addPairsetClip } from '../helpers/pairset-clips';
 import { addProject, workFolders } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
+import { createFolderStore } from '../../server/core/storage/folder-store';
 
 /**
  * An installation whose clips are stored in the original format (PNG frames, .flo fields both ways, stored views)
@@ -63,13 +64,13 @@ beforeAll(async () => {
     for (let index = 0; index < 24; index += 1) {
       frames.push(await sharp(layout.frame(index)).removeAlpha().raw().toBuffer());
       if (fs.existsSync(layout.motionField(index)))
-        fields.push((await readStoredField(layout.motionField(index))).flow);
+        fields.push(readStoredField(fs.readFileSync(layout.motionField(index)), layout.motionField(index)).flow);
     }
     snapshot.set(clip.id, { frames, fields });
     // The views served now, derived from the frame, are the views the original format stored, pixel for pixel.
     for (const view of ['luma', 'chroma'] as const) {
       const stored = path.join(paths().clipDir(clip.id), 'views', view, '000005.png');
-      const served = await viewImage(clip.id, 5, view, paths());
+      const served = await viewImage(clip.id, 5, view, createFolderStore(paths().root));
       const depth = view === 'chroma' ? 'ushort' : 'uchar';
       const pixels = (image: string | Buffer) => sharp(image).raw({ depth }).toBuffer();
       expect((await pixels(served)).equals(await pixels(stored))).toBe(true);
@@ -162,7 +163,7 @@ describe('the compact-storage job', () => {
       const fields = fs.readdirSync(layout.motionDir).sort();
       expect(fields).toHaveLength(stored.fields.length);
       for (const [k, name] of fields.entries()) {
-        const { flow, consistent } = await readStoredField(path.join(layout.motionDir, name));
+        const { flow, consistent } = readStoredField(fs.readFileSync(path.join(layout.motionDir, name)), name);
         // Each component within 1/128 px of the .flo's (the 1/64 px step of the KITTI 2015 encoding, rounded).
         const worst = flow.reduce((max, value, i) => Math.max(max, Math.abs(value - stored.fields[k]![i]!)), 0);
         expect(worst).toBeLessThanOrEqual(1 / 128);

@@ -26,6 +26,7 @@ import {
   textureFileIn,
 } from '../helpers/motion-clips';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
+import { createFolderStore } from '../../server/core/storage/folder-store';
 
 const WORKING_SIZE = 320;
 const SAMPLE_FPS = 5;
@@ -156,7 +157,7 @@ describe('a pan of known speed', () => {
     const smallest = forward.reduce((a, b) => (a.consistentP95Magnitude! < b.consistentP95Magnitude! ? a : b));
     expect(smallest.consistentP95Magnitude).toBeLessThan(scale);
     const { flow } = decodePackedField(fs.readFileSync(layout.motionField(smallest.fromIndex)));
-    const png = await motionFieldFile(clip.id, smallest.fromIndex, 'picture', paths());
+    const png = await motionFieldFile(clip.id, smallest.fromIndex, 'picture', createFolderStore(paths().root));
     const picture = await sharp(png).raw().toBuffer({ resolveWithObject: true });
     expect(picture.info).toMatchObject({ width: WORKING_SIZE, height: 180, channels: 3 });
     // The colour wheel of flow-code's color_flow.cpp (CHECK-VALUES §2), with maxmotion given.

@@ -19,6 +19,7 @@ import {
 } from '../helpers/pipeline-clips';
 import { closePipelineBed, startPipelineBed, type TestRuntime } from '../helpers/pipeline-runtime';
 import type { TestServer } from '../helpers/test-server';
+import { createFolderStore } from '../../server/core/storage/folder-store';
 
 const probe = promisify(execFile);
 const CLIP_S = 4;
@@ -93,14 +94,16 @@ describe('process-clip on a clean clip', () => {
     expect(fs.readdirSync(layout.framesDir)).toHaveLength(clip.frameCount!);
     expect(await sharp(layout.frame(0)).metadata()).toMatchObject({ format: 'webp', width: 320, height: 240 });
     expect(fs.existsSync(path.join(paths().clipDir(clip.id), 'views'))).toBe(false);
-    expect(await sharp(await viewImage(clip.id, 0, 'luma', paths())).metadata()).toMatchObject({
+    expect(await sharp(await viewImage(clip.id, 0, 'luma', createFolderStore(paths().root))).metadata()).toMatchObject({
       format: 'png',
       width: 320,
       height: 240,
       channels: 1,
       depth: 'uchar',
     });
-    expect(await sharp(await viewImage(clip.id, 0, 'chroma', paths())).metadata()).toMatchObject({
+    expect(
+      await sharp(await viewImage(clip.id, 0, 'chroma', createFolderStore(paths().root))).metadata(),
+    ).toMatchObject({
       format: 'png',
       width: 320,
       height: 240,
@@ -168,12 +171,12 @@ describe('views of a known colour', () => {
     ]) {
       expect(Math.abs(rgb[centre * 3 + channel]! - pure!)).toBeLessThanOrEqual(MAX_CODE_DEVIATION);
     }
-    const lumaBytes = await sharp(await viewImage(clip.id, 0, 'luma', paths()))
+    const lumaBytes = await sharp(await viewImage(clip.id, 0, 'luma', createFolderStore(paths().root)))
       .extractChannel(0)
       .raw()
       .toBuffer();
     const l = decodeLuma(new Uint8Array(lumaBytes.buffer, lumaBytes.byteOffset, lumaBytes.length));
-    const chromaBytes = await sharp(await viewImage(clip.id, 0, 'chroma', paths()))
+    const chromaBytes = await sharp(await viewImage(clip.id, 0, 'chroma', createFolderStore(paths().root)))
       .toColourspace('rgb16')
       .raw({ depth: 'ushort' })
       .toBuffer();

@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import { readRgbImage, type RgbImage } from '../../server/core/media/frame-images';
 import { viewCodes, type ViewCodes } from '../../server/core/media/frame-views';
 import { readStoredField } from '../../server/core/media/stored-field';
@@ -48,6 +49,9 @@ export function createViewReader(
       entry.views ??= viewCodes(await entry.image);
       return entry.views;
     },
-    field: (clipId, index) => readStoredField(layout(clipId).motionField(index)),
+    async field(clipId, index) {
+      const file = layout(clipId).motionField(index);
+      return readStoredField(await fs.promises.readFile(file), file);
+    },
   };
 }

@@ -1,10 +1,10 @@
-import fs from 'node:fs';
 import { UniqueConstraintError } from 'sequelize';
 import { HttpStatus } from '../../../shared/http-status';
 import type { ClipSummary } from '../../../shared/types/clips';
 import { AppError, conflict } from '../errors';
 import { Clip, Project, User } from '../models';
-import type { StoragePaths } from '../storage/paths';
+import type { ObjectStore } from '../storage/object-store';
+import { objectKeys } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
 import { probeUpload } from '../media/clip-probe';
 import { checkQuotaThresholds } from '../usage/quota-warnings';
@@ -29,26 +29,31 @@ export function cleanOriginalName(name: string | undefined): string {
 
 /**
  * Turns a received file into a clip: refuses empty files, exact duplicates and anything ffprobe cannot use, then
- * moves the file into the clip's folder and writes the Clip and its process-clip Job in one transaction.
- * On any refusal or failure the file is deleted and its reserved bytes released.
+ * moves the file into the store under the clip's keys and writes the Clip and its process-clip Job in one
+ * transaction. On any refusal or failure the file is deleted and its reserved bytes released.
  */
 export async function admitUpload(
   upload: ReceivedUpload,
   uploadedName: string | undefined,
   uploaderId: number,
-  { paths, publicUrl }: { paths: StoragePaths; publicUrl: string },
+  { store, publicUrl }: { store: ObjectStore; publicUrl: string },
 ): Promise<ClipSummary> {
   const originalName = cleanOriginalName(uploadedName);
+  const staged = objectKeys.incomingFile(`admitted-${upload.reservationId}`);
   try {
     if (upload.size === 0) {
       throw new AppError(HttpStatus.UNPROCESSABLE_ENTITY, 'not_a_usable_video', `${originalName} is empty (0 bytes).`);
     }
     await refuseDuplicate(upload, originalName);
     const { probe, ext } = await probeUpload(upload.path, originalName);
-    const clip = await commitClip(upload, { originalName, uploaderId, probe, ext }, paths, publicUrl);
+    // Into the store before the transaction: to S3 that is a streamed upload, far too long to hold the database's
+    // write lock for; the commit then only moves it (a rename, or a server-side copy).
+    await store.putFile(staged, upload.path, { move: true });
+    const clip = await commitClip(upload, { originalName, uploaderId, probe, ext }, { store, staged }, publicUrl);
     return clip.toApi();
   } catch (error) {
     await discardUpload(upload);
+    await store.delete(staged);
     if (error instanceof UniqueConstraintError) {
       await refuseDuplicate(upload, originalName);
     }
@@ -85,7 +90,7 @@ async function predictedDerivedBytes(file: string, projectId: number, probe: Cli
 async function commitClip(
   upload: ReceivedUpload,
   facts: ClipFacts,
-  paths: StoragePaths,
+  { store, staged }: { store: ObjectStore; staged: string },
   publicUrl: string,
 ): Promise<Clip> {
   const { fields } = upload;
@@ -136,14 +141,13 @@ async function commitClip(
     );
     await releaseUpload(upload.reservationId, transaction);
     await checkQuotaThresholds(fields.projectId, facts.uploaderId, publicUrl, transaction);
-    // The rename is one metadata operation on the same volume: done last inside the transaction, so the row
-    // commits only once the file is in place, and a failed rename rolls the rows back.
-    await fs.promises.mkdir(paths.clipDir(created.id), { recursive: true });
-    await fs.promises.rename(upload.path, paths.clipSource(created.id, facts.ext));
+    // The move is one rename (or one server-side copy): done last inside the transaction, so the row commits only
+    // once the source is in place, and a failed move rolls the rows back.
+    await store.move(staged, objectKeys.clipSource(created.id, facts.ext));
     return created;
   }).catch(async (error: unknown) => {
-    // The commit itself failed after the move: take the folder away so no file outlives its missing row.
-    if (clipId !== null) await fs.promises.rm(paths.clipDir(clipId), { recursive: true, force: true });
+    // The commit itself failed after the move: take the clip's objects away so none outlives its missing row.
+    if (clipId !== null) await store.delete(objectKeys.clipDir(clipId));
     throw error;
   });
   await clip.reload({

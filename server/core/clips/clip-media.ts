@@ -1,4 +1,3 @@
-import fs from 'node:fs';
 import { Op } from 'sequelize';
 import { HttpStatus } from '../../../shared/http-status';
 import { clipMotionScale } from '../../../shared/motion/motion-scale';
@@ -7,14 +6,15 @@ import { viewPng } from '../media/frame-views';
 import type { ClipFrameList, ClipProgress } from '../../../shared/types/frames';
 import { AppError, conflict, notFound } from '../errors';
 import { Clip, Frame, Job, MotionField } from '../models';
-import type { StoragePaths } from '../storage/paths';
+import type { ObjectStore, StoredRef } from '../storage/object-store';
+import { objectKeys } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
 import { enqueueJob } from '../jobs/enqueue';
 
 /**
  * What processing made of a clip (frames, signals, views, preview, thumbnail, progress) and starting it again.
  * Motion field files: clip-motion.ts.
- * Stored files are answered as paths for the route to stream; a path is always built from ids (storage/paths.ts).
+ * Stored files are answered as object keys for the route to stream; a key is always built from ids (storage/paths.ts).
  * Views are derived from the frame for each request (media/frame-views.ts) and answered as bytes.
  */
 
@@ -33,24 +33,27 @@ export async function listFrames(clipId: number): Promise<ClipFrameList> {
   };
 }
 
-export async function framePath(clipId: number, index: number, paths: StoragePaths): Promise<string> {
+export async function frameObject(clipId: number, index: number): Promise<StoredRef> {
   const clip = await existingFrame(clipId, index);
-  return existingFile(paths.clipDerived(clipId, clip.derivedFormat).frame(index), `Frame ${index} of clip ${clipId}`);
+  return {
+    key: objectKeys.clipDerived(clipId, clip.derivedFormat).frame(index),
+    what: `Frame ${index} of clip ${clipId}`,
+  };
 }
 
 /** The luma or chroma view of a frame as PNG, derived from the stored frame. */
-export async function viewImage(clipId: number, index: number, view: FrameView, paths: StoragePaths): Promise<Buffer> {
-  return viewPng(await framePath(clipId, index, paths), view);
+export async function viewImage(clipId: number, index: number, view: FrameView, store: ObjectStore): Promise<Buffer> {
+  return viewPng(await storedBytes(store, await frameObject(clipId, index)), view);
 }
 
-export async function thumbnailPath(clipId: number, paths: StoragePaths): Promise<string> {
+export async function thumbnailObject(clipId: number): Promise<StoredRef> {
   await existingClip(clipId);
-  return existingFile(paths.clipDerived(clipId).thumbnail, `The thumbnail of clip ${clipId}`);
+  return { key: objectKeys.clipDerived(clipId).thumbnail, what: `The thumbnail of clip ${clipId}` };
 }
 
-export async function previewPath(clipId: number, paths: StoragePaths): Promise<string> {
+export async function previewObject(clipId: number): Promise<StoredRef> {
   await existingClip(clipId);
-  return existingFile(paths.clipDerived(clipId).preview, `The preview of clip ${clipId}`);
+  return { key: objectKeys.clipDerived(clipId).preview, what: `The preview of clip ${clipId}` };
 }
 
 /** The clip's state, the stage running or failed, and the share of that stage done (its latest job's). */
@@ -113,12 +116,9 @@ async function existingFrame(clipId: number, index: number): Promise<Clip> {
   return clip;
 }
 
-/** The file, or a 404 saying what is missing (not made yet, or removed). */
-export async function existingFile(file: string, what: string): Promise<string> {
-  try {
-    await fs.promises.access(file, fs.constants.R_OK);
-    return file;
-  } catch {
-    throw notFound(what);
-  }
+/** A small stored object's bytes, or a 404 saying what is missing (not made yet, or removed). */
+export async function storedBytes(store: ObjectStore, { key, what }: StoredRef): Promise<Buffer> {
+  const bytes = await store.getBytes(key);
+  if (!bytes) throw notFound(what);
+  return bytes;
 }

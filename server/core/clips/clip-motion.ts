@@ -5,8 +5,9 @@ import { clipMotionScale } from '../../../shared/motion/motion-scale';
 import { AppError, notFound } from '../errors';
 import { motionPicturePng, readStoredField } from '../media/stored-field';
 import { Frame, MotionField } from '../models';
-import type { StoragePaths } from '../storage/paths';
-import { existingClip, existingFile } from './clip-media';
+import type { ObjectStore, StoredRef } from '../storage/object-store';
+import { objectKeys } from '../storage/paths';
+import { existingClip, storedBytes } from './clip-media';
 
 /** A stored forward motion field as a file: its colour picture (PNG) or the field itself (Middlebury .flo). */
 export type MotionFile = 'picture' | 'flo';
@@ -17,8 +18,9 @@ export type MotionFile = 'picture' | 'flo';
  * pictures compare within the clip. Where no field can exist, the 404 says why: the frame is the clip's last, or a
  * cut follows it (no field spans a cut); or the fields are not made yet.
  */
-export async function motionFieldFile(clipId: number, index: number, file: MotionFile, paths: StoragePaths) {
-  const field = await readStoredField(await storedFieldPath(clipId, index, paths));
+export async function motionFieldFile(clipId: number, index: number, file: MotionFile, store: ObjectStore) {
+  const stored = await storedFieldObject(clipId, index);
+  const field = readStoredField(await storedBytes(store, stored), stored.key);
   if (file === 'flo') return Buffer.from(encodeFlo(field.flow, field.width, field.height));
   return motionPicturePng(field, await clipMotionScalePx(clipId));
 }
@@ -29,7 +31,7 @@ async function clipMotionScalePx(clipId: number): Promise<number> {
   return clipMotionScale(fields, new Set(cuts.map((frame) => frame.index)))?.pxPerStep ?? 0;
 }
 
-async function storedFieldPath(clipId: number, index: number, paths: StoragePaths): Promise<string> {
+async function storedFieldObject(clipId: number, index: number): Promise<StoredRef> {
   const clip = await existingClip(clipId);
   const frames = await Frame.findAll({
     where: { clipId, index: { [Op.in]: [index, index + 1] } },
@@ -49,7 +51,7 @@ async function storedFieldPath(clipId: number, index: number, paths: StoragePath
   if (!(await MotionField.findOne({ where: { clipId, fromIndex: index, direction: 'forward' }, attributes: ['id'] }))) {
     throw notFound(what);
   }
-  return existingFile(paths.clipDerived(clipId, clip.derivedFormat).motionField(index), what);
+  return { key: objectKeys.clipDerived(clipId, clip.derivedFormat).motionField(index), what };
 }
 
 function noField(message: string): AppError {

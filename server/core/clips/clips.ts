@@ -7,8 +7,8 @@ import type { ClipDetail, ClipSummary } from '../../../shared/types/clips';
 import { reusedCount } from '../db/count-cache';
 import { AppError, notFound } from '../errors';
 import { AuditEvent, Clip, Project, User, Verdict } from '../models';
-import type { StoragePaths } from '../storage/paths';
-import { removeFolder } from '../storage/remove-folder';
+import type { ObjectStore, StoredRef } from '../storage/object-store';
+import { objectKeys } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
 import { claimOf } from '../review/review-claims';
 import { verdictHistory } from '../review/review-history';
@@ -167,7 +167,7 @@ export async function updateClipMetadata(id: number, patch: ClipPatch, viewer: V
  * Withdraws (uploader, before review) or deletes (admin) a clip: its rows go in one transaction, then its folder.
  * The audit event outlives the clip, so the trail still says who removed what.
  */
-export async function removeClip(id: number, viewer: Viewer, paths: StoragePaths): Promise<void> {
+export async function removeClip(id: number, viewer: Viewer, store: ObjectStore): Promise<void> {
   const clip = await findClip(id);
   const can = permissions(clip, viewer);
   if (!can.delete && !can.withdraw) {
@@ -192,14 +192,14 @@ export async function removeClip(id: number, viewer: Viewer, paths: StoragePaths
     );
     await clip.destroy({ transaction });
   });
-  await removeFolder(paths.clipDir(id));
+  await store.delete(objectKeys.clipDir(id));
 }
 
 /** The stored source file of a clip, for streaming with Range support. */
-export async function clipSourcePath(id: number, paths: StoragePaths): Promise<{ path: string }> {
+export async function clipSourceObject(id: number): Promise<StoredRef> {
   const clip = await findClip(id);
   if (clip.purgedAt) {
     throw new AppError(HttpStatus.GONE, 'purged', `Clip ${id}'s footage was purged on ${clip.purgedAt.toISOString()}.`);
   }
-  return { path: paths.clipSource(id, clip.sourceExt) };
+  return { key: objectKeys.clipSource(id, clip.sourceExt), what: `The source of clip ${id}` };
 }

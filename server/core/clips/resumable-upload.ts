@@ -5,6 +5,7 @@ import { uploadFieldsSchema, type UploadFields } from '../../../shared/schemas/c
 import type { ClipSummary } from '../../../shared/types/clips';
 import { AppError, invalidInput } from '../errors';
 import { UploadReservation } from '../models';
+import type { ObjectStore } from '../storage/object-store';
 import type { StoragePaths } from '../storage/paths';
 import { reserveUpload } from '../usage/quotas';
 import { admitUpload } from './clip-admission';
@@ -60,7 +61,7 @@ export async function resumableUploader(uploadId: string): Promise<number | null
 export async function admitResumableUpload(
   upload: { id: string; size: number; metadata: ResumableMetadata },
   uploaderId: number,
-  context: { paths: StoragePaths; publicUrl: string },
+  context: { paths: StoragePaths; store: ObjectStore; publicUrl: string },
 ): Promise<ClipSummary> {
   const path = context.paths.resumableFile(upload.id);
   try {

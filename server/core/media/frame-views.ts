@@ -26,8 +26,8 @@ export function viewCodes({ rgb, width, height }: RgbImage): ViewCodes {
   return { width, height, luma: encodeLuma(lab.l), chroma: encodeChroma(lab.a, lab.b) };
 }
 
-/** One view of a frame file as the PNG a shard or the clip page gets. */
-export async function viewPng(frameFile: string, view: FrameView): Promise<Buffer> {
+/** One view of a frame (its stored bytes or a file) as the PNG a shard or the clip page gets. */
+export async function viewPng(frameFile: string | Buffer, view: FrameView): Promise<Buffer> {
   return viewCodesPng(viewCodes(await readRgbImage(frameFile)), view);
 }
 

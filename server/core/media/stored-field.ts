@@ -1,4 +1,3 @@
-import fs from 'node:fs';
 import { decodeFlo } from '../../../shared/motion/formats/flo';
 import { motionToColour } from '../../../shared/motion/colour-wheel';
 import { rgbPng } from './frame-images';
@@ -8,9 +7,8 @@ import { decodePackedField, type PackedFieldContent } from './packed-field';
  * Reads a clip's stored forward field whichever format holds it: a packed field (`.field`, with its consistency
  * plane) or, in clips not yet converted by the compact-storage job, a Middlebury `.flo` (no consistency stored).
  */
-export async function readStoredField(file: string): Promise<PackedFieldContent> {
-  const bytes = await fs.promises.readFile(file);
-  if (file.endsWith('.flo')) return { ...decodeFlo(bytes), consistent: null };
+export function readStoredField(bytes: Uint8Array, name: string): PackedFieldContent {
+  if (name.endsWith('.flo')) return { ...decodeFlo(bytes), consistent: null };
   return decodePackedField(bytes);
 }
 

@@ -1,4 +1,3 @@
-import fs from 'node:fs';
 import { literal, Op, type Order, type Transaction, type WhereOptions } from 'sequelize';
 import type { ListPage } from '../../../shared/api-types';
 import { formatBytes } from '../../../shared/format-bytes';
@@ -13,7 +12,8 @@ import {
 import type { PairsetDetail, PairsetDifficulty, PairsetPreview, PairsetSummary } from '../../../shared/types/pairsets';
 import { AppError, conflict, notFound } from '../errors';
 import { Job, Pairset, Project, Shard, User } from '../models';
-import type { StoragePaths } from '../storage/paths';
+import type { ObjectStore, StoredRef } from '../storage/object-store';
+import { objectKeys } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
 import { loadPairsetSources } from './pairset-sources';
 import { planDefinition } from './pairset-plan';
@@ -208,7 +208,7 @@ export async function cancelBuild(id: number, actor: User): Promise<PairsetDetai
 }
 
 /** Deletes the pairset, its shard rows and files; its bytes leave the owner's usage with the row. */
-export async function deletePairset(id: number, actor: User, paths: StoragePaths): Promise<void> {
+export async function deletePairset(id: number, actor: User, store: ObjectStore): Promise<void> {
   await Pairset.sequelize!.transaction(async (transaction) => {
     const pairset = await ownedPairset(id, actor, transaction);
     if (pairset.state === 'building') {
@@ -231,25 +231,25 @@ export async function deletePairset(id: number, actor: User, paths: StoragePaths
       transaction,
     );
   });
-  await fs.promises.rm(paths.pairsetDir(id), { recursive: true, force: true });
+  await store.delete(objectKeys.pairsetDir(id));
 }
 
 /** pairset.json of a built pairset. */
-export async function manifestPath(id: number, paths: StoragePaths): Promise<string> {
+export async function manifestObject(id: number): Promise<StoredRef> {
   await builtPairset(id);
-  return paths.pairsetManifest(id);
+  return { key: objectKeys.pairsetManifest(id), what: `pairset.json of pairset ${id}` };
 }
 
 /** The shard file at `index` of a built pairset, with the name a download should take. */
-export async function shardFile(
-  id: number,
-  index: number,
-  paths: StoragePaths,
-): Promise<{ path: string; file: string }> {
+export async function shardFile(id: number, index: number): Promise<StoredRef & { file: string }> {
   await builtPairset(id);
   const shard = await Shard.findOne({ where: { pairsetId: id, index } });
   if (!shard) throw notFound(`Shard ${index} of pairset ${id}`);
-  return { path: paths.pairsetShard(id, shard.split, index), file: shard.fileName() };
+  return {
+    key: objectKeys.pairsetShard(id, shard.split, index),
+    what: `Shard ${index} of pairset ${id}`,
+    file: shard.fileName(),
+  };
 }
 
 export async function pairsetDifficulty(id: number): Promise<PairsetDifficulty> {

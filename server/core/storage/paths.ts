@@ -84,3 +84,10 @@ export function derivedLayout(base: string, format: DerivedFormat = 'packed') {
   };
 }
 export type DerivedLayout = ReturnType<typeof derivedLayout>;
+
+/**
+ * The same layout as keys of the object store (object-store.ts): relative to its root, `/`-separated. Server and
+ * worker name stored objects only through these; `storagePaths` remains for the local folders (incoming uploads,
+ * the database, a worker's scratch).
+ */
+export const objectKeys: StoragePaths = storagePaths('');
