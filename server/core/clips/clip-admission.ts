@@ -46,10 +46,13 @@ export async function admitUpload(
     }
     await refuseDuplicate(upload, originalName);
     const { probe, ext } = await probeUpload(upload.path, originalName);
+    // Sampled from the received file while it is still on this machine's disk.
+    const predicted = await predictedDerivedBytes(upload.path, upload.fields.projectId, probe);
     // Into the store before the transaction: to S3 that is a streamed upload, far too long to hold the database's
     // write lock for; the commit then only moves it (a rename, or a server-side copy).
     await store.putFile(staged, upload.path, { move: true });
-    const clip = await commitClip(upload, { originalName, uploaderId, probe, ext }, { store, staged }, publicUrl);
+    const facts = { originalName, uploaderId, probe, ext, predicted };
+    const clip = await commitClip(upload, facts, { store, staged }, publicUrl);
     return clip.toApi();
   } catch (error) {
     await discardUpload(upload);
@@ -77,6 +80,8 @@ interface ClipFacts {
   uploaderId: number;
   probe: Awaited<ReturnType<typeof probeUpload>>['probe'];
   ext: string;
+  /** Derived bytes predicted from the file and the project's settings (usage/derived-bytes.ts). */
+  predicted: number;
 }
 
 /** The project's sampling rate and working size applied to the file and its probe (usage/derived-bytes.ts). */
@@ -95,7 +100,7 @@ async function commitClip(
 ): Promise<Clip> {
   const { fields } = upload;
   let clipId: number | null = null;
-  const predicted = await predictedDerivedBytes(upload.path, fields.projectId, facts.probe);
+  const { predicted } = facts;
   const clip = await Clip.sequelize!.transaction(async (transaction) => {
     await holdClipBytes(
       {
