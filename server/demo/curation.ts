@@ -127,7 +127,7 @@ async function demoClustering(projectId: number, engineer: User, signal: AbortSi
     existing?.id ??
     (
       await createClustering(
-        clusteringCreateSchema.parse({ projectIds: [projectId], seed: DEMO_BALANCE.clusteringSeed }),
+        clusteringCreateSchema.parse({ projectIds: [projectId], k: DEMO_BALANCE.k, seed: DEMO_BALANCE.clusteringSeed }),
         engineer.id,
       )
     ).id;

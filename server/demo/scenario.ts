@@ -309,10 +309,11 @@ export const DEMO_PAIRSET = {
 };
 
 /**
- * The engineer clusters the orchard's moments (k chosen by the silhouette) and balances the pairset so no one
- * scene gives more than 40 % of its moments, with clusters taken in turn within each shard.
+ * The engineer clusters the orchard's moments into five scenes and balances the pairset so no one scene gives more
+ * than 40 % of its moments, with clusters taken in turn within each shard. (A share cap needs more clusters than
+ * one over the share: with two, each would be half.)
  */
-export const DEMO_BALANCE = { clusteringSeed: 2026, capShare: 0.4, mixClusters: true } as const;
+export const DEMO_BALANCE = { clusteringSeed: 2026, k: 5, capShare: 0.4, mixClusters: true } as const;
 
 /** A field hand the admin has invited but who has not joined yet, and the engineer's token for a training machine. */
 export const DEMO_INVITATION = { email: 'row-scout@kinefold.test', role: 'operator' as const };

@@ -96,7 +96,7 @@ beforeAll(async () => {
   const pairset = await until('the demo pairset built', async () => {
     const list = await getJson<ListPage<PairsetSummary>>(engineer, '/api/pairsets');
     const found = list.items.find((item) => item.name === DEMO_PAIRSET.name);
-    if (found?.state === 'failed') throw new Error('the demo pairset failed to build');
+    if (found?.state === 'failed') throw new Error(`the demo pairset failed to build: ${found.error}`);
     return found?.state === 'built' ? found : null;
   });
   // The balanced demo pairset: no one cluster of the orchard's moments gives more than the cap's share.

@@ -49,6 +49,10 @@ export interface AxeFinding {
 export async function seriousAxeFindings(page: Page): Promise<AxeFinding[]> {
   // Evaluated through the debugging protocol: the app's Content-Security-Policy (rightly) refuses inline script tags.
   if (!(await page.evaluate(() => 'axe' in window))) await page.evaluate(AXE_SOURCE);
+  // Colours are judged as people see them once boxes have faded in, not half-way through an enter transition.
+  await page.evaluate(() =>
+    Promise.all(document.getAnimations().map((animation) => animation.finished.catch(() => null))),
+  );
   return page.evaluate(async () => {
     const axe = (window as unknown as { axe: typeof import('axe-core') }).axe;
     const result = await axe.run(document, {

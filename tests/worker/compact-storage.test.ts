@@ -94,7 +94,7 @@ afterAll(async () => {
 function startWorker(): ChildProcess {
   const child = spawn(process.execPath, ['--import', 'tsx', 'worker/index.ts'], {
     cwd: REPO,
-    env: { ...process.env, KINEFOLD_STORAGE_DIR: server.storageDir, KINEFOLD_JOB_LEASE_S: String(LEASE_S) },
+    env: { ...process.env, ...server.env, KINEFOLD_JOB_LEASE_S: String(LEASE_S) },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   child.stdout!.on('data', (chunk: Buffer) => output.push(chunk.toString()));
@@ -171,7 +171,7 @@ describe('the compact-storage job', () => {
         expect(consistent).not.toBeNull();
       }
     }
-  });
+  }, 300_000);
 
   it('gives byte-identical shards for the same definition built before and after the conversion', async () => {
     const again = await newPairsetVersion(before.id, engineer.id);

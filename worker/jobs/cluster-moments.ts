@@ -1,3 +1,4 @@
+import { setMaxListeners } from 'node:events';
 import { DESCRIPTOR_DIMS } from '../../shared/diversity/descriptor-layout';
 import { ClipCluster, Clustering } from '../../server/core/models';
 import { NO_CLUSTER } from '../../server/core/models/clip-cluster.model';
@@ -25,6 +26,8 @@ export const clusterMomentsJob: Handler<'cluster-moments'> = {
           `clustering needs at least ${Math.max(3, clustering.requestedK ?? 0)}.`,
       );
     }
+    // Every restart and candidate k is a pool task listening to the job's one signal: dozens at once, on purpose.
+    setMaxListeners(Infinity, context.signal);
     const result = await clusterMoments(
       points,
       DESCRIPTOR_DIMS,

@@ -106,7 +106,6 @@ async function commitClip(
       {
         projectId: fields.projectId,
         userId: facts.uploaderId,
-        reservationId: upload.reservationId,
         sourceBytes: upload.size,
         predictedBytes: predicted,
       },

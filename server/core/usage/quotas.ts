@@ -78,15 +78,15 @@ export async function reserveUpload(
 
 /**
  * At admission, once the probe is known: the clip's source plus the derived bytes predicted for it must fit both
- * quotas beside everything stored and every other upload in flight (this upload's own reservation is replaced by
- * the clip). Inside the transaction that creates the clip, so concurrent admissions see each other's holds.
+ * quotas beside everything already stored (and held by the predictions of clips not processed yet). Uploads still
+ * arriving are not counted here: their reservations only refuse early what cannot fit, and each of them passes this
+ * same check at its own admission, so the first to finish is the first admitted and the quota still holds. Inside
+ * the transaction that creates the clip, so concurrent admissions take turns.
  */
 export async function holdClipBytes(
-  hold: { projectId: number; userId: number; reservationId: string; sourceBytes: number; predictedBytes: number },
+  hold: { projectId: number; userId: number; sourceBytes: number; predictedBytes: number },
   transaction: Transaction,
 ): Promise<void> {
-  const own = await UploadReservation.findByPk(hold.reservationId, { transaction });
-  const ownBytes = Number(own?.bytes ?? 0);
   const needed = hold.sourceBytes + hold.predictedBytes;
   const refuse = (what: string, quota: number, used: number) => {
     const left = Math.max(0, quota - used);
@@ -101,16 +101,14 @@ export async function holdClipBytes(
   };
   const project = await Project.findByPk(hold.projectId, { transaction, lock: transaction.LOCK.UPDATE });
   if (project && project.quotaBytes !== null) {
-    const usage = await projectUsage(hold.projectId, transaction);
-    const used = usage.stored + usage.reserved - ownBytes;
+    const used = (await projectUsage(hold.projectId, transaction)).stored;
     if (used + needed > Number(project.quotaBytes)) {
       throw refuse(`Project "${project.name}"'s`, Number(project.quotaBytes), used);
     }
   }
   const user = await User.findByPk(hold.userId, { transaction, lock: transaction.LOCK.UPDATE });
   if (user && user.quotaBytes !== null) {
-    const usage = await userUsage(hold.userId, transaction);
-    const used = usage.stored + usage.reserved - ownBytes;
+    const used = (await userUsage(hold.userId, transaction)).stored;
     if (used + needed > Number(user.quotaBytes)) throw refuse('Your', Number(user.quotaBytes), used);
   }
 }
