@@ -1,4 +1,3 @@
-import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { Op } from 'sequelize';
@@ -16,6 +15,7 @@ import { addPairsetClip } from '../helpers/pairset-clips';
 import { addProject, workFolders } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
+import { exited, workerProcesses } from '../helpers/worker-processes';
 import { createFolderStore } from '../../server/core/storage/folder-store';
 
 /**
@@ -26,22 +26,22 @@ import { createFolderStore } from '../../server/core/storage/folder-store';
  * conversion comes out byte-identical when built again after it.
  */
 
-const REPO = path.resolve(import.meta.dirname, '../..');
 const LEASE_S = 2;
 const KILLS = 4;
 const CLIPS = 8;
 const MAX_DELAY_MS = 700;
 
 let server: TestServer;
+let workers: ReturnType<typeof workerProcesses>;
 let runtime: TestRuntime;
 let engineer: User;
 let before: PairsetDetail;
-const output: string[] = [];
 const snapshot = new Map<number, { frames: Buffer[]; fields: Float32Array[] }>();
 const paths = () => storagePaths(server.storageDir);
 
 beforeAll(async () => {
   server = await startTestServer();
+  workers = workerProcesses(server, LEASE_S, 60_000);
   runtime = startTestRuntime(server);
   const admin = await addUser(server, 'admin');
   engineer = await addUser(server, 'engineer');
@@ -91,41 +91,14 @@ afterAll(async () => {
   await server.close();
 });
 
-function startWorker(): ChildProcess {
-  const child = spawn(process.execPath, ['--import', 'tsx', 'worker/index.ts'], {
-    cwd: REPO,
-    env: { ...process.env, ...server.env, KINEFOLD_JOB_LEASE_S: String(LEASE_S) },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  child.stdout!.on('data', (chunk: Buffer) => output.push(chunk.toString()));
-  child.stderr!.on('data', (chunk: Buffer) => output.push(chunk.toString()));
-  return child;
-}
-
-function exited(child: ChildProcess): Promise<void> {
-  return child.exitCode !== null || child.signalCode !== null
-    ? Promise.resolve()
-    : new Promise((done) => child.once('exit', () => done()));
-}
-
-async function until<T>(find: () => Promise<T | null | undefined | false>, timeoutMs = 60_000): Promise<T> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const found = await find();
-    if (found) return found;
-    if (Date.now() > deadline) throw new Error(`gave up waiting; worker output:\n${output.join('')}`);
-    await new Promise((done) => setTimeout(done, 25));
-  }
-}
-
 const packedClips = () => Clip.count({ where: { derivedFormat: 'packed' } });
 
 describe('the compact-storage job', () => {
   it(`converts every clip, losing nothing over ${KILLS} kills of the worker`, async () => {
     const kills: string[] = [];
     for (let attempt = 0; attempt < KILLS && (await packedClips()) < CLIPS; attempt += 1) {
-      const child = startWorker();
-      const job = await until(() =>
+      const child = workers.start();
+      const job = await workers.until(() =>
         Job.findOne({
           where: { kind: 'compact-storage', state: 'running', leaseOwner: { [Op.like]: `%:${child.pid}:%` } },
         }),
@@ -133,7 +106,7 @@ describe('the compact-storage job', () => {
       // Kill k waits until k − 1 clips of the run are converted (or the job is done), then a random time, so the
       // kills land in the writing, the switch and the removal of different clips.
       const target = (await packedClips()) + attempt;
-      await until(async () => (await job.reload()).state !== 'running' || (await packedClips()) >= target);
+      await workers.until(async () => (await job.reload()).state !== 'running' || (await packedClips()) >= target);
       await new Promise((done) => setTimeout(done, Math.random() * MAX_DELAY_MS));
       child.kill('SIGKILL');
       await exited(child);
@@ -141,8 +114,10 @@ describe('the compact-storage job', () => {
       kills.push(`${job.stage ?? 'start'} at ${Math.round(job.progress * 100)}% (${await packedClips()} packed)`);
     }
     console.log(`compact-storage killed in: ${kills.join(', ')}`);
-    const last = startWorker();
-    await until(async () => (await Job.findOne({ where: { kind: 'compact-storage', state: 'done' } })) !== null);
+    const last = workers.start();
+    await workers.until(
+      async () => (await Job.findOne({ where: { kind: 'compact-storage', state: 'done' } })) !== null,
+    );
     last.kill('SIGTERM');
     await exited(last);
 

@@ -1,4 +1,3 @@
-import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -8,6 +7,7 @@ import { AuditEvent, Clip, Frame, Job, MotionField } from '../../server/core/mod
 import { storagePaths } from '../../server/core/storage/paths';
 import { addProject, insertClip, makePatternClip, workFolders } from '../helpers/pipeline-clips';
 import { addUser, startTestServer, type TestServer } from '../helpers/test-server';
+import { exited, workerProcesses } from '../helpers/worker-processes';
 
 /**
  * A real worker process (`node --import tsx worker/index.ts`, as `npm run worker` starts it) is killed with SIGKILL
@@ -17,7 +17,6 @@ import { addUser, startTestServer, type TestServer } from '../helpers/test-serve
  * its commit included, gets its share of kills.
  */
 
-const REPO = path.resolve(import.meta.dirname, '../..');
 const KILLS = 10;
 const LEASE_S = 2;
 const STAGES = ['sample', 'signals', 'motion', 'flags'];
@@ -25,13 +24,14 @@ const MAX_DELAY_IN_STAGE_MS = 600;
 const CLIP_S = 5;
 
 let server: TestServer;
+let workers: ReturnType<typeof workerProcesses>;
 let adminId: number;
 let projectId: number;
 let source: string;
-const output: string[] = [];
 
 beforeAll(async () => {
   server = await startTestServer();
+  workers = workerProcesses(server, LEASE_S);
   adminId = (await addUser(server, 'admin')).id;
   projectId = (await addProject(adminId, 'crashes')).id;
   const gen = path.join(server.storageDir, 'generated');
@@ -39,33 +39,6 @@ beforeAll(async () => {
   source = await makePatternClip(path.join(gen, 'clip.mp4'), CLIP_S);
 });
 afterAll(() => server.close());
-
-function startWorker(): ChildProcess {
-  const child = spawn(process.execPath, ['--import', 'tsx', 'worker/index.ts'], {
-    cwd: REPO,
-    env: { ...process.env, ...server.env, KINEFOLD_JOB_LEASE_S: String(LEASE_S) },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  child.stdout!.on('data', (chunk: Buffer) => output.push(chunk.toString()));
-  child.stderr!.on('data', (chunk: Buffer) => output.push(chunk.toString()));
-  return child;
-}
-
-function exited(child: ChildProcess): Promise<number | null> {
-  return child.exitCode !== null || child.signalCode !== null
-    ? Promise.resolve(child.exitCode)
-    : new Promise((done) => child.once('exit', (code) => done(code)));
-}
-
-async function until<T>(find: () => Promise<T | null | undefined | false>, timeoutMs = 30_000): Promise<T> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const found = await find();
-    if (found) return found;
-    if (Date.now() > deadline) throw new Error(`gave up waiting; worker output:\n${output.join('')}`);
-    await new Promise((done) => setTimeout(done, 25));
-  }
-}
 
 /** The CPU niceness of a process's main thread, field 19 of /proc/<pid>/stat (proc(5)). */
 function niceOf(pid: number): number {
@@ -86,13 +59,15 @@ describe('a worker killed at random moments', () => {
     const killedIn: string[] = [];
     for (let attempt = 0; killedIn.length < KILLS; attempt += 1) {
       const target = STAGES.indexOf(STAGES[attempt % STAGES.length]!);
-      const child = startWorker();
-      const job = await until(() =>
+      const child = workers.start();
+      const job = await workers.until(() =>
         Job.findOne({
           where: { state: 'running', leaseOwner: { [Op.like]: `%:${child.pid}:%` } },
         }),
       );
-      await until(async () => (await job.reload()).state !== 'running' || STAGES.indexOf(job.stage ?? '') >= target);
+      await workers.until(
+        async () => (await job.reload()).state !== 'running' || STAGES.indexOf(job.stage ?? '') >= target,
+      );
       await new Promise((done) => setTimeout(done, Math.random() * MAX_DELAY_IN_STAGE_MS));
       child.kill('SIGKILL');
       await exited(child);
@@ -103,8 +78,8 @@ describe('a worker killed at random moments', () => {
     }
     console.log(`killed ${KILLS} times mid-processing, in: ${killedIn.join(', ')}; clips: ${clips.length}`);
 
-    const last = startWorker();
-    await until(
+    const last = workers.start();
+    await workers.until(
       async () => (await Clip.count({ where: { projectId, state: 'awaiting_review' } })) === clips.length,
       60_000,
     );
