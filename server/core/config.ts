@@ -14,8 +14,6 @@ export interface Config {
   s3Endpoint: string | null;
   /** AWS_REGION or AWS_DEFAULT_REGION; other S3-compatible services accept any, so one is always given. */
   s3Region: string;
-  /** A worker's own folder for the files a stage works on (KINEFOLD_SCRATCH_DIR); never shared between machines. */
-  scratchDir: string;
   demo: DemoMode;
   smtpUrl: string | null;
   /** The base of every link Kinefold mails; by default this server on its own port. */
@@ -84,7 +82,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     objectStore: env.KINEFOLD_OBJECT_STORE || null,
     s3Endpoint: env.KINEFOLD_S3_ENDPOINT || null,
     s3Region: env.AWS_REGION || env.AWS_DEFAULT_REGION || 'us-east-1',
-    scratchDir: path.resolve(env.KINEFOLD_SCRATCH_DIR ?? path.join(env.KINEFOLD_STORAGE_DIR ?? 'storage', 'scratch')),
     demo: parseDemo(env.KINEFOLD_DEMO),
     smtpUrl: env.SMTP_URL || null,
     publicUrl,
