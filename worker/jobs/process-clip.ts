@@ -11,6 +11,7 @@ import { signalsStage } from '../pipeline/signals-stage';
 import type { PipelineStage } from '../pipeline/stage';
 import { openWorkDir, removeLeftoverWorkDirs, type WorkDir } from '../pipeline/work-dir';
 import { clipFolderUsage } from '../../server/core/storage/disk-usage';
+import { heldBytes } from '../../server/core/usage/derived-bytes';
 import { enterJobStage, finishJob, reportJobProgress, type Lease } from '../../server/core/jobs/claim';
 import type { Handler, JobContext } from './handler';
 import { LeaseLostError } from './job-errors';
@@ -87,7 +88,7 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
         // The same measure the reconcile-usage job uses, so the two never disagree; until the last stage the
         // admission's prediction of the derived bytes still holds the quota if it is the larger.
         const measured = (await clipFolderUsage(clipDir)).total;
-        const storedBytes = next ? Math.max(measured, heldAtAdmission(clip)) : measured;
+        const storedBytes = heldBytes(clip, measured, next === null);
         await Clip.sequelize!.transaction(async (transaction) => {
           const held = next
             ? await enterJobStage(context.lease, next.name, transaction)
@@ -103,10 +104,6 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
     await (work as WorkDir | null)?.remove();
   }
   return true;
-}
-
-function heldAtAdmission(clip: Clip): number {
-  return Number(clip.sizeBytes) + Number(clip.predictedDerivedBytes ?? 0);
 }
 
 /** Shows the stage on the job and the clip; a clip not yet reviewed is `processing` meanwhile. */

@@ -3,6 +3,7 @@ import path from 'node:path';
 import { Clip, UsageSnapshot } from '../../server/core/models';
 import { recordAudit } from '../../server/core/audit/audit';
 import { clipFolderUsage, emptyUsage, folderBytes } from '../../server/core/storage/disk-usage';
+import { heldBytes } from '../../server/core/usage/derived-bytes';
 import { REMOVING_PREFIX } from '../../server/core/storage/remove-folder';
 import type { Handler } from './handler';
 
@@ -16,12 +17,6 @@ export interface UsageDrift {
 /** Today's date in UTC, the key of the daily snapshot. */
 export function utcDay(now = new Date()): string {
   return now.toISOString().slice(0, 10);
-}
-
-/** What a clip holds against the quotas: its files, or while it waits for processing, its admission's prediction. */
-function heldBytes(clip: Clip, onDisk: number): number {
-  if (clip.state !== 'queued' && clip.state !== 'processing') return onDisk;
-  return Math.max(onDisk, Number(clip.sizeBytes) + Number(clip.predictedDerivedBytes ?? 0));
 }
 
 /**
@@ -45,7 +40,7 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
     for (const clip of clips) {
       const usage = await clipFolderUsage(paths.clipDir(clip.id));
       for (const [kind, bytes] of Object.entries(usage.byKind)) byKind[kind as keyof typeof byKind] += bytes;
-      const held = heldBytes(clip, usage.total);
+      const held = heldBytes(clip, usage.total, clip.state !== 'queued' && clip.state !== 'processing');
       if (held !== Number(clip.storedBytes)) {
         drift.clips.push({ clipId: clip.id, recordedBytes: Number(clip.storedBytes), actualBytes: usage.total });
         fixes.push({ id: clip.id, recorded: Number(clip.storedBytes), bytes: held });

@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import type { ClipProbe } from '../../../shared/types/clips';
 import { storedFrameBytes } from '../media/ffmpeg';
 import { workingFrameSize } from '../media/frame-size';
@@ -30,6 +31,19 @@ export interface DerivedBytesSettings {
 
 type SizedProbe = Pick<ClipProbe, 'durationS' | 'width' | 'height' | 'rotation'>;
 
+/**
+ * What a clip holds against the quotas while its processing is unfinished: its files so far, or its source plus the
+ * derived bytes predicted at admission, whichever is more; once processed, its files alone.
+ */
+export function heldBytes(
+  clip: { sizeBytes: number; predictedDerivedBytes?: number | null },
+  onDisk: number,
+  processed: boolean,
+): number {
+  if (processed) return onDisk;
+  return Math.max(onDisk, Number(clip.sizeBytes) + Number(clip.predictedDerivedBytes ?? 0));
+}
+
 /** Pure arithmetic of the prediction, given the sampled frames' bytes (empty: the per-pixel fallback). */
 export function predictDerivedBytes(
   probe: SizedProbe,
@@ -57,9 +71,18 @@ export async function predictDerivedBytesOf(
   probe: SizedProbe,
   settings: DerivedBytesSettings,
 ): Promise<number> {
+  // The file must be here: without it every sample fails and the prediction would quietly fall back to the rough
+  // per-pixel estimate.
+  await fs.promises.access(file, fs.constants.R_OK);
   const size = workingFrameSize(probe.width, probe.height, probe.rotation, settings.workingSize);
   const samples = await Promise.all(
-    SAMPLE_AT.map((share) => storedFrameBytes(file, share * probe.durationS, size, SAMPLE_TIMEOUT_MS).catch(() => 0)),
+    SAMPLE_AT.map((share) =>
+      storedFrameBytes(file, share * probe.durationS, size, SAMPLE_TIMEOUT_MS).catch((error: unknown) => {
+        // A seek that decodes nothing (a damaged middle, say) leaves this sample out; the others still count.
+        console.warn(`Kinefold: no frame sampled at ${Math.round(share * 100)} % for the prediction: ${error}`);
+        return 0;
+      }),
+    ),
   );
   return predictDerivedBytes(
     probe,
