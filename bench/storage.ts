@@ -78,7 +78,7 @@ async function uploadAll(phases: Phase[]): Promise<Uploaded> {
         : null;
       const created = await app.api(session, 'POST', '/api/projects', { name: `Storage: ${phase.group}`, quotaBytes });
       const project = (await created.json()) as { id: number; settings: Record<string, unknown> };
-      if (!phase.quotaShareOfDemo) console.log(`project defaults: ${JSON.stringify(project.settings)}`);
+      if (phase === phases[0]) console.log(`project defaults: ${JSON.stringify(project.settings)}`);
       let refused = 0;
       for (const file of phase.files) {
         const answer = await app.upload(session, file, project.id);
