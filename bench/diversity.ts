@@ -19,7 +19,8 @@ import { floatBlob } from '../server/core/models/moment-descriptor.model';
 import { createClustering } from '../server/core/diversity/clusterings';
 import { clusteredClipIds, loadMomentDescriptors } from '../server/core/diversity/moment-descriptors';
 import { createUser } from '../server/core/people/users';
-import { storagePaths } from '../server/core/storage/paths';
+import { createObjectStore } from '../server/core/storage/open-store';
+import { workerStorage } from '../worker/storage/worker-storage';
 import { APPEARANCE_DIMS, DESCRIPTOR_DIMS, MOTION_DIMS } from '../shared/diversity/descriptor-layout';
 import { mulberry32, standardNormal } from '../shared/pairing/seeded-random';
 import { clusteringCreateSchema } from '../shared/schemas/diversity';
@@ -42,7 +43,6 @@ const RESTARTS = Number(values.restarts);
 const SCENES = 12;
 const work = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-bench-diversity-'));
 const config = loadConfig({ KINEFOLD_STORAGE_DIR: path.join(work, 'storage'), KINEFOLD_DEMO: 'off' });
-const paths = storagePaths(config.storageDir);
 
 /** Scene centres in descriptor space; scene s takes a share ∝ 1/(s+1)² of the clips (one dominant scene). */
 function sceneOf(clip: number, random: () => number): number {
@@ -104,7 +104,12 @@ async function makeDescriptors(projectId: number, uploaderId: number): Promise<v
 
 async function timedJob(k: number | undefined, userId: number, projectId: number) {
   const pool = createFramePool();
-  const runtime = createJobRuntime({ config, paths, pool, owner: 'bench' });
+  const runtime = createJobRuntime({
+    config,
+    storage: workerStorage(config, createObjectStore(config)),
+    pool,
+    owner: 'bench',
+  });
   const created = await createClustering(
     clusteringCreateSchema.parse({ projectIds: [projectId], k, seed: 1, restarts: RESTARTS }),
     userId,

@@ -22,6 +22,9 @@ import { loadPairsetSources } from '../server/core/pairsets/pairset-sources';
 import { createPairset, startBuild } from '../server/core/pairsets/pairsets';
 import { createUser } from '../server/core/people/users';
 import { storagePaths } from '../server/core/storage/paths';
+import { createFolderStore } from '../server/core/storage/folder-store';
+import { createObjectStore } from '../server/core/storage/open-store';
+import { workerStorage } from '../worker/storage/worker-storage';
 import { planPairs } from '../shared/pairing/pair-plan';
 import { definitionViews, pairsetDefinitionSchema } from '../shared/schemas/pairsets';
 import { viewFrame } from '../worker/pairsets/pair-members';
@@ -183,7 +186,10 @@ try {
           shardMB: definition.shardMB,
           clips: new Map(sources.map((clip) => [clip.id, clip])),
           member: {
-            reader: createViewReader(paths, new Map(sources.map((clip) => [clip.id, clip]))),
+            reader: createViewReader(
+              createFolderStore(config.storageDir),
+              new Map(sources.map((clip) => [clip.id, clip])),
+            ),
             motionFormat: definition.motionFormat,
           },
           progress: async () => undefined,
@@ -201,7 +207,12 @@ try {
   const created = await createPairset(definition, user.id);
   await startBuild(created.id, user);
   const pool = createFramePool();
-  const runtime = createJobRuntime({ config, paths, pool, owner: 'bench' });
+  const runtime = createJobRuntime({
+    config,
+    storage: workerStorage(config, createObjectStore(config)),
+    pool,
+    owner: 'bench',
+  });
   const jobStart = performance.now();
   await runtime.runOnce();
   const jobS = (performance.now() - jobStart) / 1000;

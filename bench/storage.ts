@@ -18,7 +18,7 @@ import { openKinefoldDatabase } from '../server/core/db/open';
 import { readRgbImage, rgbPng } from '../server/core/media/frame-images';
 import { viewCodes, viewCodesPng } from '../server/core/media/frame-views';
 import { Clip } from '../server/core/models';
-import { clipFolderUsage } from '../server/core/storage/disk-usage';
+import { clipStoredUsage } from '../server/core/storage/stored-usage';
 import { storagePaths } from '../server/core/storage/paths';
 import { renderDemoClip } from '../server/demo/footage';
 import { DEMO_CLIPS } from '../server/demo/scenario';
@@ -111,7 +111,7 @@ async function uploadAll(phases: Phase[]): Promise<Uploaded> {
 async function measure(clip: Clip, group: string): Promise<Measured> {
   const paths = storagePaths(storageDir);
   const layout = paths.clipDerived(clip.id);
-  const usage = await clipFolderUsage(paths.clipDir(clip.id));
+  const usage = await clipStoredUsage(createFolderStore(storageDir), clip.id);
   let framesPng = 0;
   let views = 0;
   for (let index = 0; index < clip.frameCount!; index += 1) {

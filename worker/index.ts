@@ -9,23 +9,17 @@ import { loadConfig } from '../server/core/config';
 import { openKinefoldDatabaseOrExit } from '../server/core/db/open';
 import { queueCompactionIfNeeded } from '../server/core/storage/compaction';
 import { openStoreOrExit } from '../server/core/storage/open-store';
-import { storagePaths } from '../server/core/storage/paths';
 import { createFramePool } from './pool/frame-pool';
 import { startDailySchedule } from './runtime/daily-schedule';
 import { createJobRuntime } from './runtime/job-runtime';
 import { startPresence } from './runtime/presence';
+import { sweepScratch, workerStorage } from './storage/worker-storage';
 
 const config = loadConfig();
 const store = await openStoreOrExit(config, 'worker');
-if (store.kind !== 'folder') {
-  // The stages still read and write clip folders under KINEFOLD_STORAGE_DIR; running them beside a bucket would
-  // process files the server never sees.
-  console.error(
-    `Kinefold worker cannot start: KINEFOLD_OBJECT_STORE is set (${store.location}), and workers do not yet ` +
-      'process clips held in an object store. Unset it to process from KINEFOLD_STORAGE_DIR.',
-  );
-  process.exit(1);
-}
+const storage = workerStorage(config, store);
+// Beside a bucket the stages work on copies in this machine's scratch folder; a killed worker's copies go here.
+if (store.kind !== 'folder') await sweepScratch(config.scratchDir);
 // Set before the thread pool, ffmpeg and libuv's threads start, so they inherit it: the worker's CPU-heavy work
 // yields to the server, which must keep answering people while clips process. Only ever lowered: a process may not
 // raise its own priority, and one started nicer than this stays so.
@@ -33,10 +27,12 @@ if (os.getPriority() < config.workerNice) os.setPriority(config.workerNice);
 const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
 const sequelize = await openKinefoldDatabaseOrExit(config, { migrate: false });
 const pool = createFramePool();
-const runtime = createJobRuntime({ config, paths: storagePaths(config.storageDir), pool, owner });
+const runtime = createJobRuntime({ config, storage, pool, owner });
 const presence = await startPresence({ name: owner, leaseS: config.jobLeaseS, jobsRunning: runtime.running });
+const scratch = store.kind === 'folder' ? '' : `, scratch: ${storage.paths.root}`;
 console.log(
-  `Kinefold worker ${owner} ready (storage: ${config.storageDir}, database: ${config.databaseUrl ? 'PostgreSQL' : 'SQLite'}, lease ${config.jobLeaseS} s, ` +
+  `Kinefold worker ${owner} ready (storage: ${store.location}${scratch}, ` +
+    `database: ${config.databaseUrl ? 'PostgreSQL' : 'SQLite'}, lease ${config.jobLeaseS} s, ` +
     `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`,
 );
 

@@ -10,6 +10,11 @@ export interface Config {
   databaseUrl: string | null;
   /** `s3://bucket/prefix` (KINEFOLD_OBJECT_STORE): sources, derived files and shards go there; null keeps storageDir. */
   objectStore: string | null;
+  /**
+   * A worker's local folder beside a bucket (KINEFOLD_SCRATCH_DIR, default `<storageDir>/scratch`): stages copy a
+   * clip's stored files here, work on them and publish their outputs to the bucket. Unused with the storage folder.
+   */
+  scratchDir: string;
   /** An S3-compatible service other than AWS (KINEFOLD_S3_ENDPOINT); null lets the SDK pick AWS's. */
   s3Endpoint: string | null;
   /** AWS_REGION or AWS_DEFAULT_REGION; other S3-compatible services accept any, so one is always given. */
@@ -75,11 +80,13 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const port = parseInteger('PORT', env.PORT, 3000);
   // Links must reach this server: without a configured address, the one it listens on is the best guess.
   const publicUrl = env.KINEFOLD_PUBLIC_URL || `http://localhost:${port}`;
+  const storageDir = path.resolve(env.KINEFOLD_STORAGE_DIR ?? 'storage');
   return {
     port,
-    storageDir: path.resolve(env.KINEFOLD_STORAGE_DIR ?? 'storage'),
+    storageDir,
     databaseUrl: parseDatabaseUrl(env.KINEFOLD_DATABASE_URL),
     objectStore: env.KINEFOLD_OBJECT_STORE || null,
+    scratchDir: path.resolve(env.KINEFOLD_SCRATCH_DIR || path.join(storageDir, 'scratch')),
     s3Endpoint: env.KINEFOLD_S3_ENDPOINT || null,
     s3Region: env.AWS_REGION || env.AWS_DEFAULT_REGION || 'us-east-1',
     demo: parseDemo(env.KINEFOLD_DEMO),

@@ -145,7 +145,7 @@ describe('jobs', () => {
 });
 
 describe('usage and reconciliation', () => {
-  it('finds and fixes planted drift: a file deleted behind its back, a stray folder, a half-removed folder', async () => {
+  it('finds and fixes planted drift: a file deleted behind its back, an old stray folder, a half-removed folder', async () => {
     const paths = storagePaths(server.storageDir);
     const before = Number((await Clip.findByPk(clipId))!.storedBytes);
     const frame = path.join(
@@ -158,6 +158,12 @@ describe('usage and reconciliation', () => {
     const stray = paths.clipDir(9999);
     fs.mkdirSync(stray, { recursive: true });
     fs.writeFileSync(path.join(stray, 'source.mp4'), Buffer.alloc(1234));
+    // Left an hour ago: a folder written to lately may be a clip whose admission has not committed yet.
+    const anHourAgo = new Date(Date.now() - 3600_000);
+    fs.utimesSync(path.join(stray, 'source.mp4'), anHourAgo, anHourAgo);
+    const admitting = paths.clipDir(9997);
+    fs.mkdirSync(admitting, { recursive: true });
+    fs.writeFileSync(path.join(admitting, 'source.mp4'), Buffer.alloc(77));
     // What a clip delete leaves when the process dies between renaming the folder and removing it.
     const halfRemoved = path.join(paths.clipsDir, `${REMOVING_PREFIX}9998-0badf00d`);
     fs.mkdirSync(path.join(halfRemoved, 'frames'), { recursive: true });
@@ -171,6 +177,7 @@ describe('usage and reconciliation', () => {
 
     expect(Number((await Clip.findByPk(clipId))!.storedBytes)).toBe(before - frameBytes);
     expect(fs.existsSync(stray)).toBe(false);
+    expect(fs.existsSync(admitting)).toBe(true);
     expect(fs.existsSync(halfRemoved)).toBe(false);
     const snapshot = await UsageSnapshot.findOne();
     expect(snapshot!.drift).toMatchObject({

@@ -6,6 +6,7 @@ import { Clip, Job } from '../../server/core/models';
 import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
 import { startTestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+import { binary } from '../helpers/binary-body';
 
 let server: TestServer;
 /** A clip the real pipeline processed, and one still queued (nothing derived yet). */
@@ -35,13 +36,6 @@ beforeAll(async () => {
 afterAll(() => server.close());
 
 const curator = () => signedInAgent(server, 'curator@example.test');
-
-/** Binary bodies as a Buffer, whatever their content type. */
-function binary(res: request.Response, done: (error: Error | null, body: Buffer) => void) {
-  const chunks: Buffer[] = [];
-  res.on('data', (chunk: Buffer) => chunks.push(chunk));
-  res.on('end', () => done(null, Buffer.concat(chunks)));
-}
 
 describe.each([
   ['frames', (id: number | string) => `/api/clips/${id}/frames`],

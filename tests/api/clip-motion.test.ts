@@ -10,6 +10,7 @@ import { CROP, cropFilter, makeCutClip, makeTexture, textureFileIn } from '../he
 import { addProject, insertClip } from '../helpers/pipeline-clips';
 import { startTestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+import { binary } from '../helpers/binary-body';
 
 let server: TestServer;
 /** A clip with two cuts that the real pipeline processed, and one still queued. */
@@ -42,13 +43,6 @@ beforeAll(async () => {
 afterAll(() => server.close());
 
 const agentOf = async (role: string) => (await signedInAgent(server, `${role}@example.test`)).agent;
-
-/** Binary bodies as a Buffer, whatever their content type. */
-function binary(res: request.Response, done: (error: Error | null, body: Buffer) => void) {
-  const chunks: Buffer[] = [];
-  res.on('data', (chunk: Buffer) => chunks.push(chunk));
-  res.on('end', () => done(null, Buffer.concat(chunks)));
-}
 
 describe.each([
   ['motion picture', (id: number | string, index: number | string = 0) => `/api/clips/${id}/motion/${index}`],

@@ -7,6 +7,7 @@ import { AuditEvent, Clip, Job, Project } from '../../server/core/models';
 import { storagePaths } from '../../server/core/storage/paths';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+import { binary } from '../helpers/binary-body';
 
 type SignedIn = Awaited<ReturnType<typeof signedInAgent>>;
 let server: TestServer;
@@ -188,11 +189,3 @@ describe('DELETE /api/clips/:id', () => {
     expect(await AuditEvent.count({ where: { action: 'clip.delete' } })).toBe(1);
   });
 });
-
-/** Collects a response body as bytes (supertest's parser callback). */
-function binary(res: request.Response, done: (error: Error | null, body: Buffer) => void): void {
-  const chunks: Buffer[] = [];
-  const stream = res as unknown as NodeJS.ReadableStream;
-  stream.on('data', (chunk: Buffer) => chunks.push(chunk));
-  stream.on('end', () => done(null, Buffer.concat(chunks)));
-}

@@ -1,5 +1,4 @@
 import fs from 'node:fs';
-import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, Job, Pairset, Shard, User } from '../../server/core/models';
 import { storagePaths } from '../../server/core/storage/paths';
@@ -7,6 +6,7 @@ import { addPairsetClip } from '../helpers/pairset-clips';
 import { addProject } from '../helpers/pipeline-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
 import { addUser, agentWithCsrf, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
+import { binary } from '../helpers/binary-body';
 
 let server: TestServer;
 let runtime: TestRuntime;
@@ -27,12 +27,6 @@ const definition = (fields: Record<string, unknown> = {}) => ({
   split: { val: 0.3, seed: 5 },
   ...fields,
 });
-
-function binary(res: request.Response, done: (error: Error | null, body: Buffer) => void) {
-  const chunks: Buffer[] = [];
-  res.on('data', (chunk: Buffer) => chunks.push(chunk));
-  res.on('end', () => done(null, Buffer.concat(chunks)));
-}
 
 function post(who: Agent, url: string, body?: object) {
   return who.agent.post(url).set('x-csrf-token', who.csrf).send(body);

@@ -14,6 +14,7 @@ import {
   TEST_PASSWORD,
   type TestServer,
 } from '../helpers/test-server';
+import { binary } from '../helpers/binary-body';
 
 let server: TestServer;
 let runtime: TestRuntime;
@@ -22,12 +23,6 @@ type Agent = Awaited<ReturnType<typeof signedInAgent>>;
 let engineer: Agent;
 
 const TOKEN_SHAPE = /^kft_[0-9a-f]{8}_[A-Za-z0-9_-]{43}$/;
-
-function binary(res: request.Response, done: (error: Error | null, body: Buffer) => void) {
-  const chunks: Buffer[] = [];
-  res.on('data', (chunk: Buffer) => chunks.push(chunk));
-  res.on('end', () => done(null, Buffer.concat(chunks)));
-}
 
 async function newToken(who: Agent, name: string): Promise<{ id: number; token: string; prefix: string }> {
   return (await who.agent.post('/api/tokens').set('x-csrf-token', who.csrf).send({ name }).expect(201)).body;

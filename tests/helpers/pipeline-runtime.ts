@@ -1,9 +1,10 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { storagePaths } from '../../server/core/storage/paths';
+import { createObjectStore } from '../../server/core/storage/open-store';
 import type { Handlers } from '../../worker/jobs/handler';
 import { createFramePool, type FramePool } from '../../worker/pool/frame-pool';
 import { createJobRuntime, type JobRuntime } from '../../worker/runtime/job-runtime';
+import { workerStorage } from '../../worker/storage/worker-storage';
 import { addUser, startTestServer, type TestServer } from './test-server';
 
 export interface TestRuntime {
@@ -22,7 +23,7 @@ export function startTestRuntime(
   const pool = createFramePool();
   const runtime = createJobRuntime({
     config: server.config,
-    paths: storagePaths(server.storageDir),
+    storage: workerStorage(server.config, createObjectStore(server.config)),
     pool,
     owner,
     handlers,

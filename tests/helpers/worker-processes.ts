@@ -13,10 +13,11 @@ export function workerProcesses(server: TestServer, leaseS: number, waitMs = 30_
   const output: string[] = [];
   return {
     output,
-    start(): ChildProcess {
+    /** Starts one more worker; `env` adds to or overrides the server's settings (its own scratch folder, say). */
+    start(env: NodeJS.ProcessEnv = {}): ChildProcess {
       const child = spawn(process.execPath, ['--import', 'tsx', 'worker/index.ts'], {
         cwd: REPO,
-        env: { ...process.env, ...server.env, KINEFOLD_JOB_LEASE_S: String(leaseS) },
+        env: { ...process.env, ...server.env, KINEFOLD_JOB_LEASE_S: String(leaseS), ...env },
         stdio: ['ignore', 'pipe', 'pipe'],
       });
       child.stdout!.on('data', (chunk: Buffer) => output.push(chunk.toString()));

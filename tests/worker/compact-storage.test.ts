@@ -7,7 +7,7 @@ import { viewImage } from '../../server/core/clips/clip-media';
 import { readStoredField } from '../../server/core/media/stored-field';
 import { Clip, Job, type User } from '../../server/core/models';
 import { newPairsetVersion, startBuild, getPairsetDetail } from '../../server/core/pairsets/pairsets';
-import { clipFolderUsage } from '../../server/core/storage/disk-usage';
+import { clipStoredUsage } from '../../server/core/storage/stored-usage';
 import { storagePaths } from '../../server/core/storage/paths';
 import type { PairsetDetail } from '../../shared/types/pairsets';
 import { buildPairsetNow } from '../helpers/pairset-build';
@@ -131,7 +131,7 @@ describe('the compact-storage job', () => {
       expect(fs.readdirSync(layout.motionDir).every((name) => name.endsWith('.field'))).toBe(true);
       expect(fs.existsSync(path.join(clipDir, 'views'))).toBe(false);
       expect(workFolders(server, clipId)).toEqual([]);
-      expect(Number(clip.storedBytes)).toBe((await clipFolderUsage(clipDir)).total);
+      expect(Number(clip.storedBytes)).toBe((await clipStoredUsage(createFolderStore(paths().root), clipId)).total);
       for (const [index, pixels] of stored.frames.entries()) {
         expect((await sharp(layout.frame(index)).removeAlpha().raw().toBuffer()).equals(pixels)).toBe(true);
       }

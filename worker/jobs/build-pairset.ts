@@ -8,7 +8,8 @@ import { loadPairsetSources } from '../../server/core/pairsets/pairset-sources';
 import { planDefinition } from '../../server/core/pairsets/pairset-plan';
 import { pairsetStatistics } from '../../server/core/pairsets/pairset-statistics';
 import { checkUserQuotaThresholds } from '../../server/core/usage/quota-warnings';
-import { PAIRSET_MANIFEST, pairsetWorkPrefix, type StoragePaths } from '../../server/core/storage/paths';
+import { objectKeys, PAIRSET_MANIFEST, pairsetWorkPrefix, type StoragePaths } from '../../server/core/storage/paths';
+import { joinKey, type ObjectStore } from '../../server/core/storage/object-store';
 import { BUILD_STAGE, BuildStoppedError, watchBuild } from '../pairsets/build-watch';
 import { difficultyReport } from '../pairsets/difficulty-report';
 import { stableJson } from '../pairsets/stable-json';
@@ -24,7 +25,7 @@ const SHARDS_SHARE = 0.85;
 
 /**
  * build-pairset: plans the pairs of the definition over the accepted clips, writes the shards and pairset.json
- * into a work folder, measures pair difficulty on a sample, renames the folder into place and records shards,
+ * into a work folder, measures pair difficulty on a sample, moves them to the pairset's keys in the store and records shards,
  * statistics and bytes in one short transaction. Between pairs it watches for a cancel; a cancelled, deleted or
  * failed build leaves no files. Every attempt starts from scratch: the output depends only on the definition and
  * the clips, so a retried or repeated build gives the same bytes.
@@ -61,7 +62,7 @@ export const buildPairset: Handler<'build-pairset'> = {
 
 /** Builds into `work` and moves the result into place; false when the pairset stopped being built meanwhile. */
 async function build(pairset: Pairset, work: string, context: JobContext): Promise<boolean> {
-  const { paths, lease, signal } = context;
+  const { store, lease, signal } = context;
   const { definition } = pairset;
   const outDir = path.join(work, 'out');
   const stagingDir = path.join(work, 'staging');
@@ -79,7 +80,7 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
     );
   }
   const clips = new Map(sources.map((clip) => [clip.id, clip]));
-  const reader = createViewReader(paths, clips);
+  const reader = createViewReader(store, clips);
   const shards = await writeShards(planned, {
     outDir,
     stagingDir,
@@ -111,18 +112,30 @@ async function build(pairset: Pairset, work: string, context: JobContext): Promi
   await fs.promises.writeFile(path.join(outDir, PAIRSET_MANIFEST), manifestBytes);
   await progress(1);
 
-  const target = paths.pairsetDir(pairset.id);
-  await fs.promises.rm(target, { recursive: true, force: true });
-  await fs.promises.rename(outDir, target);
+  await publishBuild(store, outDir, pairset.id);
+  const target = objectKeys.pairsetDir(pairset.id);
   const bytes = shards.reduce((sum, shard) => sum + shard.bytes, manifestBytes.length);
   try {
     const committed = await commit(pairset.id, shards, { stats: statistics, difficulty, bytes }, context);
-    if (!committed) await fs.promises.rm(target, { recursive: true, force: true });
+    if (!committed) await store.delete(target);
     return committed;
   } catch (error) {
-    await fs.promises.rm(target, { recursive: true, force: true });
+    await store.delete(target);
     throw error;
   }
+}
+
+/**
+ * Moves the built files to the pairset's keys, replacing an earlier build's, with pairset.json last: until the
+ * commit marks the pairset built nobody is given them, and a reader that sees the manifest sees every shard.
+ */
+async function publishBuild(store: ObjectStore, outDir: string, pairsetId: number): Promise<void> {
+  const target = objectKeys.pairsetDir(pairsetId);
+  await store.delete(target);
+  const names = (await fs.promises.readdir(outDir)).sort(
+    (a, b) => Number(a === PAIRSET_MANIFEST) - Number(b === PAIRSET_MANIFEST) || a.localeCompare(b),
+  );
+  for (const name of names) await store.putFile(joinKey(target, name), path.join(outDir, name), { move: true });
 }
 
 /** Records the built pairset and finishes the job in one transaction, if the pairset is still being built. */

@@ -1,7 +1,7 @@
 import { Op } from 'sequelize';
 import { Clip, Job } from '../../server/core/models';
 import { enterJobStage, finishJob, reportJobProgress, type Lease } from '../../server/core/jobs/claim';
-import { clipFolderUsage } from '../../server/core/storage/disk-usage';
+import { clipStoredUsage } from '../../server/core/storage/stored-usage';
 import { removeOriginalFiles, writePackedFiles } from '../storage/compact-clip';
 import type { Handler, JobContext } from './handler';
 import { LeaseLostError } from './job-errors';
@@ -34,7 +34,7 @@ export const compactStorage: Handler<'compact-storage'> = {
       if (!clip) break;
       after = clip.id;
       if (!(await beingProcessed(clip.id))) {
-        await writePackedFiles(context.paths, clip.id, context.signal);
+        await onLocalCopy(clip.id, context, () => writePackedFiles(context.paths, clip.id, context.signal));
         if (await switchFormat(clip.id, context.lease)) await finishRemoval(clip.id, context);
       }
       done += 1;
@@ -74,11 +74,26 @@ async function switchFormat(clipId: number, lease: Lease): Promise<boolean> {
 }
 
 /** Removes a switched clip's original files and records its size now; the job goes back to converting. */
-async function finishRemoval(clipId: number, { paths, lease }: JobContext): Promise<void> {
-  await removeOriginalFiles(paths, clipId);
-  const storedBytes = (await clipFolderUsage(paths.clipDir(clipId))).total;
+async function finishRemoval(clipId: number, context: JobContext): Promise<void> {
+  const { paths, store, lease } = context;
+  await onLocalCopy(clipId, context, () => removeOriginalFiles(paths, clipId));
+  const storedBytes = (await clipStoredUsage(store, clipId)).total;
   await Clip.sequelize!.transaction(async (transaction) => {
     await Clip.update({ storedBytes }, { where: { id: clipId }, transaction, silent: true });
     if (!(await enterJobStage(lease, CONVERTING, transaction))) throw new LeaseLostError(lease.jobId);
   });
+}
+
+/**
+ * Runs `change` on the clip's files where the stages work on them and publishes the result: beside a bucket, on a
+ * copy of the clip's derived files in the worker's scratch folder (worker/storage/clip-mirror.ts).
+ */
+async function onLocalCopy(clipId: number, { mirror }: JobContext, change: () => Promise<void>): Promise<void> {
+  try {
+    await mirror.pull(clipId, { source: false });
+    await change();
+    await mirror.push(clipId);
+  } finally {
+    await mirror.release(clipId);
+  }
 }

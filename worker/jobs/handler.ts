@@ -2,14 +2,13 @@ import type { Transaction } from 'sequelize';
 import type { JobKind, JobPayloads } from '../../shared/jobs';
 import type { Config } from '../../server/core/config';
 import type { Job } from '../../server/core/models';
-import type { StoragePaths } from '../../server/core/storage/paths';
 import type { FramePool } from '../pool/frame-pool';
+import type { WorkerStorage } from '../storage/worker-storage';
 import type { Lease } from '../../server/core/jobs/claim';
 
-/** What every handler gets besides its job: where things are, the frame pool, and its lease. */
-export interface JobContext {
+/** What every handler gets besides its job: where things are (store, local paths, mirror), the pool, its lease. */
+export interface JobContext extends WorkerStorage {
   config: Config;
-  paths: StoragePaths;
   pool: FramePool;
   lease: Lease;
   /** Aborted when the worker stops or the lease is lost; handlers pass it on to ffmpeg and the pool. */

@@ -10,7 +10,8 @@ import { sampleStage } from '../pipeline/sample-stage';
 import { signalsStage } from '../pipeline/signals-stage';
 import type { PipelineStage } from '../pipeline/stage';
 import { openWorkDir, removeLeftoverWorkDirs, type WorkDir } from '../pipeline/work-dir';
-import { clipFolderUsage } from '../../server/core/storage/disk-usage';
+import { clipStoredUsage } from '../../server/core/storage/stored-usage';
+import { objectKeys } from '../../server/core/storage/paths';
 import { heldBytes } from '../../server/core/usage/derived-bytes';
 import { enterJobStage, finishJob, reportJobProgress, type Lease } from '../../server/core/jobs/claim';
 import type { Handler, JobContext } from './handler';
@@ -34,17 +35,21 @@ const PROGRESS_INTERVAL_MS = 500;
  */
 export const processClip: Handler<'process-clip'> = {
   async run({ job, payload }, context) {
-    const clipDir = context.paths.clipDir(payload.clipId);
-    if (!(await Clip.findByPk(payload.clipId))) return;
-    await removeLeftoverWorkDirs(clipDir);
-    const first = await firstStage(payload.clipId, job.stage);
+    const { clipId } = payload;
+    if (!(await Clip.findByPk(clipId))) return;
+    await removeLeftoverWorkDirs(context.paths.clipDir(clipId));
+    const first = await firstStage(clipId, job.stage);
     try {
+      // Beside a bucket: the stored files this attempt reads, the source only if it starts at sample.
+      await context.mirror.pull(clipId, { source: first === 0 });
       for (let i = first; i < STAGES.length; i += 1) {
-        if (!(await runStage(STAGES[i]!, STAGES[i + 1] ?? null, payload.clipId, context))) return;
+        if (!(await runStage(STAGES[i]!, STAGES[i + 1] ?? null, clipId, context))) return;
       }
     } catch (error) {
-      if (await removeIfClipDeleted(payload.clipId, clipDir)) return;
+      if (await removeIfClipDeleted(clipId, context)) return;
       throw error;
+    } finally {
+      await context.mirror.release(clipId);
     }
   },
   recordFailure: recordClipFailure,
@@ -85,9 +90,11 @@ async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId
       workDir: async () => (work ??= await openWorkDir(clipDir, stage.name)),
       async commit(write) {
         await progress.settled();
+        // The outputs are in the store before the stage counts as done, so a worker that resumes the clip finds them.
+        await context.mirror.push(clipId);
         // The same measure the reconcile-usage job uses, so the two never disagree; until the last stage the
         // admission's prediction of the derived bytes still holds the quota if it is the larger.
-        const measured = (await clipFolderUsage(clipDir)).total;
+        const measured = (await clipStoredUsage(context.store, clipId)).total;
         const storedBytes = heldBytes(clip, measured, next === null);
         await Clip.sequelize!.transaction(async (transaction) => {
           const held = next
@@ -142,11 +149,12 @@ function progressWriter(lease: Lease, stage: string) {
 }
 
 /**
- * The clip was deleted while we worked (its job row went with it): the server removed its folder, but files we
- * wrote since may have brought it back. Remove it again and stop quietly.
+ * The clip was deleted while we worked (its job row went with it): the server removed its stored files, but files
+ * we wrote or published since may have brought some back. Remove them again and stop quietly.
  */
-async function removeIfClipDeleted(clipId: number, clipDir: string): Promise<boolean> {
+async function removeIfClipDeleted(clipId: number, { store, paths }: JobContext): Promise<boolean> {
   if (await Clip.findByPk(clipId)) return false;
-  await fs.promises.rm(clipDir, { recursive: true, force: true });
+  await fs.promises.rm(paths.clipDir(clipId), { recursive: true, force: true });
+  await store.delete(objectKeys.clipDir(clipId));
   return true;
 }

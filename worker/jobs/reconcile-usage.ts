@@ -1,16 +1,22 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import { Clip, UsageSnapshot } from '../../server/core/models';
 import { recordAudit } from '../../server/core/audit/audit';
-import { clipFolderUsage, emptyUsage, folderBytes } from '../../server/core/storage/disk-usage';
-import { heldBytes } from '../../server/core/usage/derived-bytes';
+import { joinKey } from '../../server/core/storage/object-store';
+import { objectKeys } from '../../server/core/storage/paths';
 import { REMOVING_PREFIX } from '../../server/core/storage/remove-folder';
+import { emptyUsage, storedUsageByClip, type StoredFolder } from '../../server/core/storage/stored-usage';
+import { heldBytes } from '../../server/core/usage/derived-bytes';
 import type { Handler } from './handler';
 
+/** A stored clip folder without a clip row is removed once nothing was written to it for this long. */
+const STRAY_AFTER_MS = 15 * 60_000;
+
 export interface UsageDrift {
-  /** Clips whose recorded bytes differed from the disk, with both figures. */
+  /** Clips whose recorded bytes differed from the store, with both figures. */
   clips: { clipId: number; recordedBytes: number; actualBytes: number }[];
-  /** Clip folders with no clip row (left by a crash between a delete's commit and its file removal): removed. */
+  /**
+   * Stored clip folders with no clip row (left by a crash between a delete's commit and its file removal, or by a
+   * worker that published a deleted clip's outputs) and folders a crash left half removed: removed.
+   */
   strayFolders: { folder: string; bytes: number }[];
 }
 
@@ -20,25 +26,25 @@ export function utcDay(now = new Date()): string {
 }
 
 /**
- * Compares the bytes the database records per clip with the files on disk: fixes each clip's `storedBytes`,
- * removes clip folders that have no clip (and folders a crash left half-removed), and records today's usage by kind. Files are measured before the one
- * short transaction that writes the results.
+ * Compares the bytes the database records per clip with what the store holds (the storage folder or a bucket):
+ * fixes each clip's `storedBytes`, removes stored clip folders that have no clip, and records today's usage by
+ * kind. The store is measured before the one short transaction that writes the results.
  */
 export const reconcileUsage: Handler<'reconcile-usage'> = {
-  async run({ payload }, { paths }) {
-    const entries = await fs.promises.readdir(paths.clipsDir).catch(() => [] as string[]);
-    const folders = entries.filter((name) => /^\d+$/.test(name));
-    // A clip delete renames the folder before removing it; a crash in between leaves the renamed folder behind.
-    const halfRemoved = entries.filter((name) => name.startsWith(REMOVING_PREFIX));
+  async run({ payload }, { store }) {
+    const stored = await storedUsageByClip(store);
     const clips = await Clip.findAll({
       attributes: ['id', 'storedBytes', 'state', 'sizeBytes', 'predictedDerivedBytes'],
     });
     const known = new Set(clips.map((clip) => clip.id));
+    // An admission moves the source under the clip's id before its row commits: a folder written to lately may be
+    // such a clip, and waits for the next run.
+    const settled = (folder: StoredFolder) => folder.newestMs < Date.now() - STRAY_AFTER_MS;
     const byKind = emptyUsage();
     const drift: UsageDrift = { clips: [], strayFolders: [] };
     const fixes: { id: number; recorded: number; bytes: number }[] = [];
     for (const clip of clips) {
-      const usage = await clipFolderUsage(paths.clipDir(clip.id));
+      const usage = stored.clips.get(clip.id) ?? { byKind: emptyUsage(), total: 0 };
       for (const [kind, bytes] of Object.entries(usage.byKind)) byKind[kind as keyof typeof byKind] += bytes;
       const held = heldBytes(clip, usage.total, clip.state !== 'queued' && clip.state !== 'processing');
       if (held !== Number(clip.storedBytes)) {
@@ -46,17 +52,18 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
         fixes.push({ id: clip.id, recorded: Number(clip.storedBytes), bytes: held });
       }
     }
-    for (const folder of folders.filter((name) => !known.has(Number(name)))) {
-      const dir = paths.clipDir(Number(folder));
-      drift.strayFolders.push({ folder: `clips/${folder}`, bytes: await folderBytes(dir) });
-      await fs.promises.rm(dir, { recursive: true, force: true });
+    const strays = [
+      ...[...stored.clips]
+        .filter(([clipId, folder]) => !known.has(clipId) && settled(folder))
+        .map(([clipId, folder]) => [String(clipId), folder] as const),
+      // A clip delete renames the folder before removing it; a crash in between leaves the renamed folder behind.
+      ...[...stored.others].filter(([name]) => name.startsWith(REMOVING_PREFIX)),
+    ];
+    for (const [folder, { total: bytes }] of strays) {
+      drift.strayFolders.push({ folder: `clips/${folder}`, bytes });
+      await store.delete(joinKey(objectKeys.clipsDir, folder));
     }
-    for (const name of halfRemoved) {
-      const dir = path.join(paths.clipsDir, name);
-      drift.strayFolders.push({ folder: `clips/${name}`, bytes: await folderBytes(dir) });
-      await fs.promises.rm(dir, { recursive: true, force: true });
-    }
-    byKind.pairsets = await folderBytes(paths.pairsetsDir);
+    byKind.pairsets = await store.size(objectKeys.pairsetsDir);
     const totalBytes = Object.values(byKind).reduce((sum, bytes) => sum + bytes, 0);
     await Clip.sequelize!.transaction(async (transaction) => {
       // Only where nothing recorded a new size since it was read: processing or compaction may have changed the

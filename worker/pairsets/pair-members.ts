@@ -67,10 +67,14 @@ export async function viewMember(
   stagingFile: string,
 ): Promise<MemberFile> {
   const frame = viewFrame(view, moment);
-  const source = view === 'motion' ? options.reader.fieldFile(clipId, moment) : options.reader.frameFile(clipId, frame);
-  if (!(await fs.promises.stat(source).catch(() => null))) {
+  const stored = await options.reader.stored(
+    clipId,
+    view === 'motion' ? 'field' : 'frame',
+    view === 'motion' ? moment : frame,
+  );
+  if (!stored) {
     throw new Error(
-      `The ${view} view of clip ${clipId} at frame ${frame} is missing (${source}); ` +
+      `The ${view} view of clip ${clipId} at frame ${frame} is missing from the store; ` +
         'the clip may have been reprocessed or purged since the build started. Build again once it is processed.',
     );
   }

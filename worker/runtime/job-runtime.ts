@@ -2,18 +2,18 @@ import PQueue from 'p-queue';
 import type { JobKind } from '../../shared/jobs';
 import type { Config } from '../../server/core/config';
 import type { Job } from '../../server/core/models';
-import type { StoragePaths } from '../../server/core/storage/paths';
 import { claimJob, failJob, finishJob, releaseJob, retryJob, type Lease } from '../../server/core/jobs/claim';
 import type { ClaimedJob, Handler, Handlers, JobContext } from '../jobs/handler';
 import { HANDLERS } from '../jobs/handlers';
 import { FinalJobError, LeaseLostError, ShutdownError } from '../jobs/job-errors';
 import { RETRY_POLICIES, retryAt } from '../jobs/retry-policy';
 import type { FramePool } from '../pool/frame-pool';
+import type { WorkerStorage } from '../storage/worker-storage';
 import { startHeartbeat } from './heartbeat';
 
 export interface JobRuntimeOptions {
   config: Config;
-  paths: StoragePaths;
+  storage: WorkerStorage;
   pool: FramePool;
   /** This worker's name on the leases it holds. */
   owner: string;
@@ -42,7 +42,7 @@ const DEFAULT_POLL_MS = 1000;
  * lease was lost (another worker has it, or it was deleted).
  */
 export function createJobRuntime(options: JobRuntimeOptions): JobRuntime {
-  const { config, paths, pool, owner, handlers = HANDLERS, pollMs = DEFAULT_POLL_MS } = options;
+  const { config, storage, pool, owner, handlers = HANDLERS, pollMs = DEFAULT_POLL_MS } = options;
   const leaseMs = config.jobLeaseS * 1000;
   const queue = new PQueue({ concurrency: config.jobConcurrency });
   const inHand = new Set<AbortController>();
@@ -55,7 +55,7 @@ export function createJobRuntime(options: JobRuntimeOptions): JobRuntime {
     const controller = new AbortController();
     inHand.add(controller);
     const heartbeat = startHeartbeat(lease, leaseMs, () => controller.abort(new LeaseLostError(job.id)));
-    const context: JobContext = { config, paths, pool, lease, signal: controller.signal };
+    const context: JobContext = { config, ...storage, pool, lease, signal: controller.signal };
     const claimed = { job, payload: job.payload } as ClaimedJob<JobKind>;
     try {
       const policy = RETRY_POLICIES[job.kind];
