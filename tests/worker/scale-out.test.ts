@@ -125,7 +125,7 @@ describe('three workers, three scratch folders, one bucket', () => {
     for (const clipId of clipIds) {
       const clip = (await Clip.findByPk(clipId))!;
       expect(clip.state).toBe('awaiting_review');
-      const processed = await AuditEvent.count({ where: { action: 'clip.processed', targetId: clipId } });
+      const processed = await AuditEvent.count({ where: { action: 'clip.processed', targetId: String(clipId) } });
       expect(processed).toBe(1);
     }
     // The killed worker's job was taken over after its lease and finished by another worker.
