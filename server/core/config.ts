@@ -8,6 +8,11 @@ export interface Config {
   storageDir: string;
   /** `postgres://…` from KINEFOLD_DATABASE_URL: PostgreSQL instead of the SQLite file under the storage root. */
   databaseUrl: string | null;
+  /**
+   * A CA certificate file (PEM) for TLS to PostgreSQL (KINEFOLD_DATABASE_CA): with it the server's certificate must
+   * chain to this CA and, unless the URL's sslmode says otherwise, name the URL's host (db/postgres-tls.ts).
+   */
+  databaseCa: string | null;
   /** `s3://bucket/prefix` (KINEFOLD_OBJECT_STORE): sources, derived files and shards go there; null keeps storageDir. */
   objectStore: string | null;
   /** An S3-compatible service other than AWS (KINEFOLD_S3_ENDPOINT); null lets the SDK pick AWS's. */
@@ -79,6 +84,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     port,
     storageDir: path.resolve(env.KINEFOLD_STORAGE_DIR ?? 'storage'),
     databaseUrl: parseDatabaseUrl(env.KINEFOLD_DATABASE_URL),
+    databaseCa: env.KINEFOLD_DATABASE_CA ? path.resolve(env.KINEFOLD_DATABASE_CA) : null,
     objectStore: env.KINEFOLD_OBJECT_STORE || null,
     s3Endpoint: env.KINEFOLD_S3_ENDPOINT || null,
     s3Region: env.AWS_REGION || env.AWS_DEFAULT_REGION || 'us-east-1',
