@@ -9,8 +9,8 @@
 import { formatBytes } from '../../shared/format-bytes';
 import { databasePath, loadConfig, type Config } from '../core/config';
 import { postgresLocation, DatabaseStartupError } from '../core/db/postgres-connection';
-import { CopyRefused, copyDatabase, type CopyEvent } from '../core/db/scale-out/copy-database';
-import { TableCopyFailed } from '../core/db/scale-out/postgres-target';
+import { copyDatabase, type CopyEvent } from '../core/db/scale-out/copy-database';
+import { CopyRefused, TableCopyFailed } from '../core/db/scale-out/copy-errors';
 import { copyIntoStore } from '../core/storage/copy-to-store';
 import { createFolderStore } from '../core/storage/folder-store';
 import { openStoreOrExit } from '../core/storage/open-store';

@@ -24,8 +24,8 @@ const tls = (query: string, ca: string | null = null) => postgresTls(`${BASE}${q
 const checksHostName = (ssl: object) => !('checkServerIdentity' in ssl);
 
 describe('TLS to PostgreSQL from KINEFOLD_DATABASE_URL and KINEFOLD_DATABASE_CA', () => {
-  it('leaves the driver its default without sslmode or a CA, and turns TLS off for disable', () => {
-    expect(tls('')).toEqual({ url: BASE, ssl: undefined });
+  it('uses no TLS without sslmode or a CA, nor with disable', () => {
+    expect(tls('')).toEqual({ url: BASE, ssl: false });
     expect(tls('?sslmode=disable')).toEqual({ url: BASE, ssl: false });
   });
 

@@ -37,7 +37,7 @@ export async function openPostgresDatabase(url: string, caFile: string | null): 
     logging: false,
     pool: { max: POOL_MAX, min: 0, idle: 10_000 },
     define: { underscored: false, freezeTableName: false },
-    ...(tls.ssl === undefined ? {} : { dialectOptions: { ssl: tls.ssl } }),
+    dialectOptions: { ssl: tls.ssl },
   });
   try {
     await sequelize.authenticate();

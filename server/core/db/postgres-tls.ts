@@ -7,8 +7,8 @@ export class PostgresTlsError extends Error {}
 /** What the `pg` driver is given: the URL without its TLS parameters, and its `ssl` option. */
 export interface PostgresTls {
   url: string;
-  /** undefined: the driver's default (no TLS unless PGSSLMODE says otherwise); false: never TLS. */
-  ssl: ConnectionOptions | false | undefined;
+  /** false: no TLS. */
+  ssl: ConnectionOptions | false;
 }
 
 /** The URL parameters this module reads; they are taken out before the URL reaches Sequelize and the driver. */
@@ -25,7 +25,8 @@ type SslMode = (typeof SSL_MODES)[number];
  * - `verify-ca`: TLS, the certificate must chain to the CA (`sslrootcert` or KINEFOLD_DATABASE_CA), any host name;
  * - `verify-full`: TLS, the certificate must chain to the CA (or, with none given, to Node's public CAs) and name
  *   the host of the URL;
- * - no `sslmode`: `verify-full` when KINEFOLD_DATABASE_CA is set, otherwise the driver's default (no TLS).
+ * - no `sslmode`: `verify-full` when KINEFOLD_DATABASE_CA is set, otherwise no TLS. The URL and
+ *   KINEFOLD_DATABASE_CA alone decide: the driver's own reading of PGSSLMODE is not used.
  *
  * `allow` and `prefer` are refused: they fall back to an unencrypted connection, which the driver cannot do.
  * `sslcert` and `sslkey` give a client certificate. Sequelize hands the URL's parameters to the driver's own parser
@@ -83,7 +84,7 @@ export function postgresTls(
   const effective: SslMode | null = mode ?? (ca ? 'verify-full' : null);
   if (effective === null) {
     if (certFile) throw new PostgresTlsError('KINEFOLD_DATABASE_URL: sslcert needs an sslmode (require or stricter)');
-    return { url: plain, ssl: undefined };
+    return { url: plain, ssl: false };
   }
   if (effective === 'disable') {
     if (ca || certFile) {

@@ -3,12 +3,10 @@ import type pg from 'pg';
 import type { Sequelize } from 'sequelize';
 import { createMigrator, MIGRATION_NAMES } from '../migrator';
 import { openPostgresDatabase, postgresLocation } from '../postgres-connection';
+import { CopyRefused } from './copy-errors';
 import { copyOrder } from './copy-order';
 import { COPIES_TABLE, PostgresTarget, type RecordedCopy } from './postgres-target';
 import { SqliteSource, type LiveWorker, type TableExtent } from './sqlite-source';
-
-/** The copy will not start (or go on): the message says why, what to do, and that nothing was changed. */
-export class CopyRefused extends Error {}
 
 /** Tables the copy leaves alone: the migrations' own list, which the target keeps itself, and the copy's record. */
 const NOT_COPIED = new Set(['schema_migrations', COPIES_TABLE]);
