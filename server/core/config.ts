@@ -8,6 +8,11 @@ export interface Config {
   storageDir: string;
   /** `postgres://…` from KINEFOLD_DATABASE_URL: PostgreSQL instead of the SQLite file under the storage root. */
   databaseUrl: string | null;
+  /**
+   * A CA certificate file (PEM) for TLS to PostgreSQL (KINEFOLD_DATABASE_CA): with it the server's certificate must
+   * chain to this CA and, unless the URL's sslmode says otherwise, name the URL's host (db/postgres-tls.ts).
+   */
+  databaseCa: string | null;
   /** `s3://bucket/prefix` (KINEFOLD_OBJECT_STORE): sources, derived files and shards go there; null keeps storageDir. */
   objectStore: string | null;
   /**
@@ -85,6 +90,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     port,
     storageDir,
     databaseUrl: parseDatabaseUrl(env.KINEFOLD_DATABASE_URL),
+    databaseCa: env.KINEFOLD_DATABASE_CA ? path.resolve(env.KINEFOLD_DATABASE_CA) : null,
     objectStore: env.KINEFOLD_OBJECT_STORE || null,
     scratchDir: path.resolve(env.KINEFOLD_SCRATCH_DIR || path.join(storageDir, 'scratch')),
     s3Endpoint: env.KINEFOLD_S3_ENDPOINT || null,

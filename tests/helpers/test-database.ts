@@ -20,15 +20,30 @@ export interface TestDatabase {
  */
 export async function freshTestDatabase(): Promise<TestDatabase> {
   if (!TEST_POSTGRES_URL) return { url: null, drop: async () => undefined };
-  const name = `kf_${randomBytes(6).toString('hex')}`;
-  await onMaintenance(`CREATE DATABASE ${name}`);
-  const url = new URL(TEST_POSTGRES_URL);
-  url.pathname = `/${name}`;
-  return { url: url.toString(), drop: () => onMaintenance(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`) };
+  return freshDatabaseOn(TEST_POSTGRES_URL);
 }
 
-async function onMaintenance(sql: string): Promise<void> {
-  const client = new pg.Client({ connectionString: TEST_POSTGRES_URL! });
+/**
+ * The PostgreSQL server the `pg` project uses, with the same default (vite.config.ts), for a test of the `node`
+ * project that needs PostgreSQL beside SQLite (moving an installation from one to the other).
+ */
+const POSTGRES_SERVER_URL = TEST_POSTGRES_URL ?? 'postgres://postgres@127.0.0.1:5432/test';
+
+/** A new, empty PostgreSQL database of its own, whichever project runs the test. */
+export function freshPostgresDatabase(): Promise<TestDatabase & { url: string }> {
+  return freshDatabaseOn(POSTGRES_SERVER_URL);
+}
+
+async function freshDatabaseOn(server: string): Promise<TestDatabase & { url: string }> {
+  const name = `kf_${randomBytes(6).toString('hex')}`;
+  await onMaintenance(server, `CREATE DATABASE ${name}`);
+  const url = new URL(server);
+  url.pathname = `/${name}`;
+  return { url: url.toString(), drop: () => onMaintenance(server, `DROP DATABASE IF EXISTS ${name} WITH (FORCE)`) };
+}
+
+async function onMaintenance(server: string, sql: string): Promise<void> {
+  const client = new pg.Client({ connectionString: server });
   await client.connect();
   try {
     await client.query(sql);

@@ -17,6 +17,8 @@ export interface TestServer {
   storageDir: string;
   /** The environment a child process (a worker, the server) needs to share this storage folder and database. */
   env: { KINEFOLD_STORAGE_DIR: string; KINEFOLD_DATABASE_URL: string };
+  /** Stops the app's timers and closes its database, leaving the storage folder and database to other processes. */
+  release(): Promise<void>;
   close(): Promise<void>;
 }
 
@@ -40,15 +42,23 @@ export async function startTestServer(
   };
   const sequelize = await openKinefoldDatabase(config);
   const kinefold = createApp({ config, sequelize, clientDir });
+  let released: Promise<void> | null = null;
+  const release = () => {
+    released ??= (async () => {
+      kinefold.close();
+      await sequelize.close();
+    })();
+    return released;
+  };
   return {
     app: kinefold.app,
     config,
     sequelize,
     storageDir,
     env: { KINEFOLD_STORAGE_DIR: storageDir, KINEFOLD_DATABASE_URL: database.url ?? '' },
+    release,
     async close() {
-      kinefold.close();
-      await sequelize.close();
+      await release();
       await database.drop();
       fs.rmSync(storageDir, { recursive: true, force: true });
     },

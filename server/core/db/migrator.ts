@@ -15,6 +15,7 @@ import * as storageDiet from './migrations/0012-storage-diet';
 import * as diversity from './migrations/0013-diversity';
 import * as jobTiming from './migrations/0014-job-timing';
 import * as workerPresences from './migrations/0015-worker-presences';
+import * as scaleOutCopies from './migrations/0016-scale-out-copies';
 
 interface MigrationModule {
   up(queryInterface: QueryInterface, transaction: Transaction): Promise<void>;
@@ -38,7 +39,11 @@ const MIGRATIONS: [name: string, module: MigrationModule][] = [
   ['0013-diversity', diversity],
   ['0014-job-timing', jobTiming],
   ['0015-worker-presences', workerPresences],
+  ['0016-scale-out-copies', scaleOutCopies],
 ];
+
+/** The name of every migration, in order: what a database that is up to date has run. */
+export const MIGRATION_NAMES: readonly string[] = MIGRATIONS.map(([name]) => name);
 
 /** Runs each migration inside its own transaction, so a failed step leaves the schema as it was. */
 export function createMigrator(sequelize: Sequelize, logger: Console | undefined = undefined) {

@@ -1,7 +1,6 @@
 import type { Sequelize } from 'sequelize';
-import type { Config } from '../config';
 import { initModels } from '../models';
-import { openDatabase } from './connection';
+import { openDatabase, type DatabaseConfig } from './connection';
 import { createMigrator } from './migrator';
 import { DatabaseStartupError } from './postgres-connection';
 
@@ -12,7 +11,7 @@ const SCHEMA_WAIT_MS = 500;
  * a worker waits until it is, so two processes never migrate at once.
  */
 export async function openKinefoldDatabase(
-  config: Pick<Config, 'storageDir' | 'databaseUrl'>,
+  config: DatabaseConfig,
   { migrate }: { migrate: boolean } = { migrate: true },
 ): Promise<Sequelize> {
   const sequelize = await openDatabase(config);
@@ -31,7 +30,7 @@ export async function openKinefoldDatabase(
  * and the host on stderr and exit code 1 (a stack trace would only hide the cause).
  */
 export async function openKinefoldDatabaseOrExit(
-  config: Pick<Config, 'storageDir' | 'databaseUrl'>,
+  config: DatabaseConfig,
   options?: { migrate: boolean },
 ): Promise<Sequelize> {
   try {

@@ -1,5 +1,6 @@
 import pg from 'pg';
 import { Sequelize } from 'sequelize';
+import { postgresTls, PostgresTlsError, type PostgresTls } from './postgres-tls';
 import { serializeTransactions } from './postgres-transactions';
 
 /**
@@ -17,24 +18,33 @@ const POOL_MAX = 10;
 export class DatabaseStartupError extends Error {}
 
 /**
- * Opens the PostgreSQL database named by KINEFOLD_DATABASE_URL through the `pg` driver, with managed transactions
- * taking turns as on SQLite (postgres-transactions.ts). The connection is tried at once, so a wrong URL stops the
- * process at startup rather than at the first request.
+ * Opens the PostgreSQL database named by KINEFOLD_DATABASE_URL through the `pg` driver, over TLS as its `sslmode`
+ * and KINEFOLD_DATABASE_CA (`caFile`) say (postgres-tls.ts), with managed transactions taking turns as on SQLite
+ * (postgres-transactions.ts). The connection is tried at once, so a wrong URL or TLS setting stops the process at
+ * startup rather than at the first request.
  */
-export async function openPostgresDatabase(url: string): Promise<Sequelize> {
-  const sequelize = new Sequelize(url, {
+export async function openPostgresDatabase(url: string, caFile: string | null): Promise<Sequelize> {
+  let tls: PostgresTls;
+  try {
+    tls = postgresTls(url, caFile);
+  } catch (error) {
+    if (error instanceof PostgresTlsError) throw new DatabaseStartupError(error.message);
+    throw error;
+  }
+  const sequelize = new Sequelize(tls.url, {
     dialect: 'postgres',
     dialectModule: pg,
     logging: false,
     pool: { max: POOL_MAX, min: 0, idle: 10_000 },
     define: { underscored: false, freezeTableName: false },
+    dialectOptions: { ssl: tls.ssl },
   });
   try {
     await sequelize.authenticate();
   } catch (error) {
     await sequelize.close().catch(() => undefined);
     throw new DatabaseStartupError(
-      `KINEFOLD_DATABASE_URL: cannot open the PostgreSQL database at ${where(url)}: ${reason(error)}`,
+      `KINEFOLD_DATABASE_URL: cannot open the PostgreSQL database at ${postgresLocation(url)}: ${reason(error)}`,
     );
   }
   serializeTransactions(sequelize);
@@ -42,7 +52,7 @@ export async function openPostgresDatabase(url: string): Promise<Sequelize> {
 }
 
 /** Host, port and database name of the URL, never its password. */
-function where(url: string): string {
+export function postgresLocation(url: string): string {
   try {
     const parsed = new URL(url);
     return `${parsed.hostname}:${parsed.port || '5432'}${parsed.pathname}`;
