@@ -14,6 +14,7 @@ import { addMomentDescriptors } from '../helpers/moment-descriptors';
 import { buildPairsetNow } from '../helpers/pairset-build';
 import { addPairsetClip } from '../helpers/pairset-clips';
 import { startTestRuntime, type TestRuntime } from '../helpers/pipeline-runtime';
+import { startS3Fake } from '../helpers/s3-fake';
 import { freshPostgresDatabase, type TestDatabase } from '../helpers/test-database';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
 
@@ -63,6 +64,7 @@ function migrate(
   storageDir: string,
   databaseUrl: string,
   onLine: (line: string, child: ChildProcess) => void = () => undefined,
+  env: NodeJS.ProcessEnv = {},
 ): Promise<CommandRun> {
   const child = spawn(process.execPath, ['--import', 'tsx', 'server/cli/migrate-scale-out.ts'], {
     cwd: REPO,
@@ -71,6 +73,7 @@ function migrate(
       KINEFOLD_STORAGE_DIR: storageDir,
       KINEFOLD_DATABASE_URL: databaseUrl,
       KINEFOLD_OBJECT_STORE: '',
+      ...env,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
@@ -183,8 +186,8 @@ async function freePort(): Promise<number> {
   return port;
 }
 
-/** `npm run server` on PostgreSQL over the same storage folder, once it answers. */
-async function startServerOnPostgres(storageDir: string, databaseUrl: string) {
+/** `npm run server` on PostgreSQL over the storage folder (or, with `env`, a bucket), once it answers. */
+async function startServerOnPostgres(storageDir: string, databaseUrl: string, env: NodeJS.ProcessEnv = {}) {
   const port = await freePort();
   const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
     cwd: REPO,
@@ -195,6 +198,7 @@ async function startServerOnPostgres(storageDir: string, databaseUrl: string) {
       KINEFOLD_DATABASE_URL: databaseUrl,
       KINEFOLD_OBJECT_STORE: '',
       KINEFOLD_DEMO: 'off',
+      ...env,
     },
     stdio: ['ignore', 'ignore', 'inherit'],
   });
@@ -428,6 +432,32 @@ describe('npm run migrate:scale-out with KINEFOLD_DATABASE_URL', () => {
     expect(run.stdout).toMatch(/database: nothing to copy, all \d+ tables were copied before\./);
     expect(await copies()).toEqual(recorded);
     expect(await postgresCounts(target.url)).toEqual(counts);
+  });
+
+  it('with KINEFOLD_OBJECT_STORE too, moves the files into a bucket that then serves the same bytes', async () => {
+    const fake = await startS3Fake();
+    const bucket = { ...fake.env, KINEFOLD_OBJECT_STORE: `s3://${fake.bucket}/moved` };
+    try {
+      const run = await migrate(server.storageDir, target.url, undefined, bucket);
+      expect(run.stderr).toBe('');
+      expect(run.code).toBe(0);
+      expect(run.stdout).toMatch(/objects copied/);
+      // A storage folder without clips or pairsets: only the session secret comes along, so the cookie still
+      // signs in, and every file the server sends must come from the bucket.
+      const emptied = path.join(work, 'bucket-only');
+      fs.cpSync(path.join(server.storageDir, 'db', 'server-secret'), path.join(emptied, 'db', 'server-secret'));
+      const running = await startServerOnPostgres(emptied, target.url, bucket);
+      try {
+        const after = await answers(running.baseUrl, { cookie });
+        for (const [url, answer] of before) expect(after.get(url), url).toEqual(answer);
+      } finally {
+        await running.stop();
+      }
+      expect(fs.readdirSync(emptied)).not.toContain('clips');
+      expect(fs.readdirSync(emptied)).not.toContain('pairsets');
+    } finally {
+      await fake.close();
+    }
   });
 });
 
