@@ -438,7 +438,9 @@ describe('npm run migrate:scale-out with KINEFOLD_DATABASE_URL', () => {
     const fake = await startS3Fake();
     const bucket = { ...fake.env, KINEFOLD_OBJECT_STORE: `s3://${fake.bucket}/moved` };
     try {
-      const run = await migrate(server.storageDir, target.url, undefined, bucket);
+      // A database of its own, so the server that the test before ran on the first copy changes nothing here.
+      const both = await newTarget();
+      const run = await migrate(server.storageDir, both.url, undefined, bucket);
       // The AWS SDK warns about this Node.js version on stderr; nothing else may be there.
       expect(run.stderr.split('\n').filter((line) => /error|^\s+at /i.test(line))).toEqual([]);
       expect(run.code).toBe(0);
@@ -447,7 +449,7 @@ describe('npm run migrate:scale-out with KINEFOLD_DATABASE_URL', () => {
       // signs in, and every file the server sends must come from the bucket.
       const emptied = path.join(work, 'bucket-only');
       fs.cpSync(path.join(server.storageDir, 'db', 'server-secret'), path.join(emptied, 'db', 'server-secret'));
-      const running = await startServerOnPostgres(emptied, target.url, bucket);
+      const running = await startServerOnPostgres(emptied, both.url, bucket);
       try {
         const after = await answers(running.baseUrl, { cookie });
         for (const [url, answer] of before) expect(after.get(url), url).toEqual(answer);
