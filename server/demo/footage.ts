@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import { DEMO_DUPLICATE, DEMO_NOT_A_VIDEO, type DemoClipRecipe } from './scenario';
+import { DEMO_DUPLICATE, DEMO_NOT_A_VIDEO, type DemoClipRecipe, type DemoMover } from './scenario';
 
 const run = promisify(execFile);
 const TEXTURE_SIZE = '1600x900';
@@ -36,9 +36,19 @@ export async function renderTexture(dir: string, seed: number, size = TEXTURE_SI
   return file;
 }
 
-function cameraFilter(recipe: Pick<DemoClipRecipe, 'x' | 'y' | 'look'>): string {
+/** Opacity of a mover's box, so the foliage shows faintly through it. */
+export const MOVER_OPACITY = 0.95;
+
+function cameraFilter(recipe: Pick<DemoClipRecipe, 'x' | 'y' | 'movers' | 'look'>): string {
   const crop = `crop=${FRAME.width}:${FRAME.height}:x='${recipe.x}':y='${recipe.y}'`;
-  return [crop, recipe.look, 'format=yuv420p'].filter(Boolean).join(',');
+  return [crop, ...(recipe.movers ?? []).map(moverFilter), recipe.look, 'format=yuv420p'].filter(Boolean).join(',');
+}
+
+function moverFilter(mover: DemoMover): string {
+  return (
+    `drawbox=x='${mover.x}':y='${mover.y}':w=${mover.width}:h=${mover.height}:` +
+    `color=0x${mover.colour}@${MOVER_OPACITY}:t=fill`
+  );
 }
 
 /** Renders one demo clip (H.264, 640×360, 25 frames/s) into `dir`. */

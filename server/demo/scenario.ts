@@ -28,7 +28,9 @@ export interface DemoClipRecipe {
   /** The camera path over the texture, as ffmpeg expressions of t (seconds). */
   x: string;
   y: string;
-  /** Extra ffmpeg filters after the crop (exposure, blur, objects crossing…). */
+  /** Things in the scene that move on their own, drawn over the camera's view. */
+  movers?: DemoMover[];
+  /** Extra ffmpeg filters after the movers (exposure, blur…). */
   look?: string;
   /** Another texture seed from this second on: a hard scene cut. */
   cutAtS?: number;
@@ -39,8 +41,43 @@ export interface DemoClipRecipe {
   expect?: string;
 }
 
-const CRATE = "drawbox=x='mod(t*110,760)-80':y=210:w=70:h=46:color=0xc2410c@0.95:t=fill";
-const STAKE = "drawbox=x=410:y='mod(t*70,520)-120':w=14:h=120:color=0xe9dcc0@0.95:t=fill";
+/**
+ * Something that moves on its own in a demo clip: a flat box whose top-left corner follows ffmpeg expressions of t
+ * (seconds) in the 640×360 frame, drawn at 95 % opacity. Expressions use only numbers, t, +, −, *, /, sin and mod,
+ * so tests can evaluate them too (tests/helpers/demo-like-footage.ts). Its motion is its own, not the camera's, and
+ * it is visible in every frame it is in: a frame tells where things move differently from the rest of the view.
+ */
+export interface DemoMover {
+  x: string;
+  y: string;
+  width: number;
+  height: number;
+  /** sRGB as six hex digits. */
+  colour: string;
+}
+
+/** Pale untreated timber: far from the foliage's greys, so a mover stands out in every view of a frame. */
+const TIMBER = 'e9dcc0';
+/** An orange plastic crate crossing the frame (in the creek block). */
+const CRATE: DemoMover = { x: 'mod(t*110,760)-80', y: '210', width: 70, height: 46, colour: 'c2410c' };
+/** A stake passing close to the lens, top to bottom. */
+const STAKE: DemoMover = { x: '410', y: 'mod(t*70,520)-120', width: 14, height: 120, colour: TIMBER };
+/** A bin trolley pulled across the row, its left edge at `x`. */
+const trolley = (x: string, y: number): DemoMover => ({ x, y: String(y), width: 130, height: 80, colour: TIMBER });
+/** A picking crate carried across the row, its left edge at `x`. */
+const crate = (x: string, y: number): DemoMover => ({ x, y: String(y), width: 96, height: 64, colour: TIMBER });
+/** A bird-scare balloon on a pole, swaying in the wind about `x`. */
+const balloon = (x: number, swing: number, rate: number, y: number): DemoMover => ({
+  x: `${x}+${swing}*sin(t*${rate})`,
+  y: String(y),
+  width: 64,
+  height: 64,
+  colour: TIMBER,
+});
+/** The left edge of a mover crossing right to left at `speed` px/s, back in at the right every `period` px. */
+const leftward = (speed: number, period: number) => `660-mod(t*${speed},${period})`;
+/** The left edge of a mover crossing left to right, `back` px before the frame's left edge at t = 0. */
+const rightward = (speed: number, period: number, back: number) => `mod(t*${speed},${period})-${back}`;
 
 export const DEMO_CLIPS: DemoClipRecipe[] = [
   {
@@ -51,9 +88,10 @@ export const DEMO_CLIPS: DemoClipRecipe[] = [
     seconds: 10,
     x: '120+t*38',
     y: '90+t*6',
+    movers: [trolley(leftward(176, 860), 150), balloon(300, 150, 1.7, 20)],
     textureSeed: 1,
     tags: ['rows', 'morning'],
-    notes: 'Steady pass along row 3.',
+    notes: 'Steady pass along row 3; a bin trolley crosses ahead, a bird-scare balloon sways.',
   },
   {
     file: 'orchard-row-04-north.mp4',
@@ -63,9 +101,10 @@ export const DEMO_CLIPS: DemoClipRecipe[] = [
     seconds: 9,
     x: '300+t*42',
     y: '140-t*4',
+    movers: [balloon(250, 170, 1.3, 40), trolley(rightward(160, 820, 140), 230)],
     textureSeed: 2,
     tags: ['rows', 'morning'],
-    notes: 'Row 4, light wind.',
+    notes: 'Row 4, light wind: a bird-scare balloon sways, a bin trolley crosses.',
   },
   {
     file: 'orchard-row-05-crate.mp4',
@@ -75,7 +114,7 @@ export const DEMO_CLIPS: DemoClipRecipe[] = [
     seconds: 8,
     x: '220+t*30',
     y: '60+t*8',
-    look: CRATE,
+    movers: [crate(rightward(192, 800, 100), 210), balloon(460, 140, 2.1, 30)],
     textureSeed: 3,
     tags: ['rows', 'obstacle'],
     notes: 'A picking crate crosses the row.',
@@ -88,9 +127,10 @@ export const DEMO_CLIPS: DemoClipRecipe[] = [
     seconds: 8,
     x: '400+200*sin(t/3)',
     y: '200+40*sin(t/2)',
+    movers: [trolley(leftward(160, 860), 120), balloon(200, 150, 1.9, 250)],
     textureSeed: 4,
     tags: ['headland', 'turn'],
-    notes: 'Turning at the end of the terrace.',
+    notes: 'Turning at the end of the terrace; a bin trolley crosses, a bird-scare balloon sways.',
   },
   {
     file: 'orchard-handheld-walk.mp4',
@@ -100,9 +140,10 @@ export const DEMO_CLIPS: DemoClipRecipe[] = [
     seconds: 7,
     x: '500+t*22+3*sin(t*2)',
     y: '300+t*5',
+    movers: [crate(rightward(208, 820, 100), 250), balloon(180, 120, 2.6, 20)],
     textureSeed: 5,
     tags: ['walk'],
-    notes: 'Walking the row by hand.',
+    notes: 'Walking the row by hand; a picking crate is carried past, a bird-scare balloon sways.',
   },
   {
     file: 'orchard-dusk-row-02.mp4',
@@ -192,7 +233,7 @@ export const DEMO_CLIPS: DemoClipRecipe[] = [
     seconds: 8,
     x: '260+t*36',
     y: '160',
-    look: STAKE,
+    movers: [STAKE],
     textureSeed: 12,
     tags: ['benches', 'stakes'],
     notes: 'Stakes passing the lens.',
@@ -243,7 +284,7 @@ export const DEMO_CLIPS: DemoClipRecipe[] = [
     seconds: 9,
     x: '500+t*28',
     y: '100+t*12',
-    look: CRATE,
+    movers: [CRATE],
     textureSeed: 16,
     tags: ['rows', 'obstacle'],
     notes: 'A crate left on the track.',

@@ -1,5 +1,5 @@
 import sharp, { type OverlayOptions } from 'sharp';
-import { renderTexture } from '../../server/demo/footage';
+import { MOVER_OPACITY, renderTexture } from '../../server/demo/footage';
 import { DEMO_CLIPS, DEMO_VERDICTS, type DemoClipRecipe } from '../../server/demo/scenario';
 import { PROJECT_DEFAULTS } from '../../server/core/projects/projects';
 import { rgbToGrey } from '../../shared/colour/grey';
@@ -9,10 +9,10 @@ import { ESTIMATOR_REGISTRY, type EstimatorEntry, type EstimatorParams } from '.
 /**
  * The demo pairset's footage without the demo's ffmpeg encode and worker pipeline: for each accepted clip of the
  * demo pairset's project, the demo's own procedural texture (server/demo/footage.ts) seen through the demo camera
- * path, sampled at the project defaults (5 frames/s, 320 px working size), the demo's picking crate drawn where the
- * recipe puts it, and the forward field of each neighbour pair from the projects' default estimator with its default
- * parameters. Differences from a real demo start: no H.264 round trip and no scaling filter of ffmpeg,
- * so fields and frames differ in detail, not in kind.
+ * path, sampled at the project defaults (5 frames/s, 320 px working size), the demo's movers (crate, trolley,
+ * flag…) drawn where the recipe puts them, and the forward field of each neighbour pair from the projects' default
+ * estimator with its default parameters. Differences from a real demo start: no H.264 round trip, no scaling
+ * filter of ffmpeg and drawbox's YUV blending done in RGB, so fields and frames differ in detail, not in kind.
  */
 export interface DemoLikeClip {
   recipe: DemoClipRecipe;
@@ -24,7 +24,6 @@ export interface DemoLikeClip {
 }
 
 const SOURCE = { width: 640, height: 360 };
-const CRATE = /drawbox=x='mod\(t\*(\d+),(\d+)\)-(\d+)':y=(\d+):w=(\d+):h=(\d+):color=0x([0-9a-f]{6})/;
 
 /** The accepted clips of the demo pairset's project (project 0 of the scenario), in scenario order. */
 export function demoPairsetRecipes(): DemoClipRecipe[] {
@@ -34,8 +33,8 @@ export function demoPairsetRecipes(): DemoClipRecipe[] {
 
 export async function demoLikeClip(dir: string, recipe: DemoClipRecipe): Promise<DemoLikeClip> {
   const texture = await renderTexture(dir, recipe.textureSeed);
-  const x = pathFunction(recipe.x);
-  const y = pathFunction(recipe.y);
+  const x = timeFunction(recipe.x);
+  const y = timeFunction(recipe.y);
   const scale = PROJECT_DEFAULTS.workingSize / SOURCE.width;
   const width = PROJECT_DEFAULTS.workingSize;
   const height = Math.round(SOURCE.height * scale);
@@ -51,8 +50,8 @@ export async function demoLikeClip(dir: string, recipe: DemoClipRecipe): Promise
         height: SOURCE.height,
       })
       .removeAlpha();
-    const composite = crate(recipe, t);
-    const source = composite ? sharp(await window.png().toBuffer()).composite([composite]) : window;
+    const overlays = moverOverlays(recipe, t);
+    const source = overlays.length > 0 ? sharp(await window.png().toBuffer()).composite(overlays) : window;
     const { data } = await sharp(await source.png().toBuffer())
       .resize(width, height, { kernel: 'cubic' })
       .removeAlpha()
@@ -68,33 +67,39 @@ export async function demoLikeClip(dir: string, recipe: DemoClipRecipe): Promise
   return { recipe, width, height, frames, fields };
 }
 
-/** The recipe's camera path, an ffmpeg expression of t that uses only +, −, *, / and sin. */
-function pathFunction(expression: string): (t: number) => number {
-  if (!/^[0-9t+\-*/(). sin]+$/.test(expression)) throw new Error(`unsupported camera path ${expression}`);
-  return new Function('t', `return ${expression.replace(/sin/g, 'Math.sin')};`) as (t: number) => number;
+/**
+ * A demo expression of t (camera path or mover position) as a function: only numbers, t, +, −, *, /, sin and mod.
+ * The demo only takes mod of non-negative values (t ≥ 0, positive speeds), where the floored remainder used here
+ * and a truncated one agree.
+ */
+function timeFunction(expression: string): (t: number) => number {
+  if (!/^[0-9t+\-*/(). ,]*$/.test(expression.replace(/sin|mod/g, ''))) {
+    throw new Error(`unsupported demo expression ${expression}`);
+  }
+  const body = expression.replace(/sin/g, 'Math.sin').replace(/mod/g, 'floorMod');
+  const evaluate = new Function('t', 'floorMod', `return ${body};`) as (t: number, m: typeof floorMod) => number;
+  return (t) => evaluate(t, floorMod);
 }
 
-/** The demo's picking crate as a sharp overlay, where the recipe's drawbox puts it at time t. */
-function crate(recipe: DemoClipRecipe, t: number): OverlayOptions | null {
-  const match = recipe.look?.match(CRATE);
-  if (!match) return null;
-  const [, speed, period, back, top, w, h, colour] = match.map((v, i) => (i === 7 ? v : Number(v))) as number[];
-  const left = ((t * speed!) % period!) - back!;
-  const clipped = Math.max(0, left);
-  const visible = Math.min(SOURCE.width, left + w!) - clipped;
-  if (visible <= 0) return null;
-  const hex = String(colour);
-  const rgb = [0, 2, 4].map((i) => parseInt(hex.slice(i, i + 2), 16));
-  return {
-    input: {
-      create: {
-        width: Math.round(visible),
-        height: h!,
-        channels: 3,
-        background: { r: rgb[0]!, g: rgb[1]!, b: rgb[2]! },
-      },
-    },
-    left: Math.round(clipped),
-    top: top!,
-  };
+function floorMod(x: number, y: number): number {
+  return x - y * Math.floor(x / y);
+}
+
+/**
+ * The recipe's movers as sharp overlays at time t: each box where its drawbox puts it (ffmpeg truncates the
+ * position to whole pixels), cut to the frame, at the demo's opacity; none for a box wholly outside the frame.
+ */
+function moverOverlays(recipe: DemoClipRecipe, t: number): OverlayOptions[] {
+  return (recipe.movers ?? []).flatMap((mover) => {
+    const x = Math.trunc(timeFunction(mover.x)(t));
+    const y = Math.trunc(timeFunction(mover.y)(t));
+    const left = Math.max(0, x);
+    const top = Math.max(0, y);
+    const width = Math.min(SOURCE.width, x + mover.width) - left;
+    const height = Math.min(SOURCE.height, y + mover.height) - top;
+    if (width <= 0 || height <= 0) return [];
+    const [r, g, b] = [0, 2, 4].map((i) => parseInt(mover.colour.slice(i, i + 2), 16));
+    const background = { r: r!, g: g!, b: b!, alpha: MOVER_OPACITY };
+    return [{ input: { create: { width, height, channels: 4 as const, background } }, left, top }];
+  });
 }
