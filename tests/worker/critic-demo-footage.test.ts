@@ -14,7 +14,7 @@ import { demoLikeClip, demoPairsetRecipes, type DemoLikeClip } from '../helpers/
 
 /**
  * The trained critic on the demo pairset's footage (tests/helpers/demo-like-footage.ts: the demo's textures, camera
- * paths and crate, sampled and estimated as the demo project does, without the H.264 round trip), split into train
+ * paths and movers, sampled and estimated as the demo project does, without the H.264 round trip), split into train
  * and val clips as the demo pairset splits them, and trained in the real worker-thread pool.
  * The demo ingests DEMO_CLIPS in order, so a clip's id is its place in that list plus one.
  */
@@ -79,20 +79,19 @@ describe('the trained critic on the demo pairset footage', () => {
 
   it('finds a positive held-out bound for frame~neighbour', () => {
     const [neighbour] = kinds;
-    const bound = neighbour!.results[0]!.heldOut!.bound;
-    expect(bound).toBeGreaterThan(0);
+    expect(neighbour!.results[0]!.heldOut!.bound).toBeGreaterThan(0);
     expect(['shared', 'trivial']).toContain(neighbour!.reading);
   });
 
-  it('no longer reads frame~motion as a negative bound: nothing found, said as such', () => {
-    // The val clip is a steady pan over a still texture: every moment's motion field is the same translation, so
-    // nothing in one frame tells its field from another moment's. The honest held-out figure is about 0.
+  it('finds a positive held-out bound for frame~motion: each frame shows what moves on its own', () => {
+    // The movers (trolley, flag, crate) are where a moment's field differs from the camera's own motion, and they
+    // are in the frame; without them every field of a steady pan is the same translation and the bound is about 0.
+    // Above the reading's 5 % of log K, so the figure is more than chance on these few held-out pairs, and from a
+    // trained critic (kept step > 0), not the untrained one's near-uniform scores.
     const motion = kinds[1]!;
     const result = motion.results[0]!;
-    expect(result.floor!.bound).toBeLessThan(0);
-    expect(result.heldOut!.bound).toBeGreaterThan(result.floor!.bound);
-    expect(Math.abs(result.heldOut!.bound)).toBeLessThanOrEqual(0.05 * result.logK);
-    expect(motion.reading).toBe('nothing-found');
-    expect(motion.message).toMatch(/does not show the views are unrelated/);
+    expect(motion.training!.keptStep).toBeGreaterThan(0);
+    expect(result.heldOut!.bound).toBeGreaterThan(0.05 * result.logK);
+    expect(['shared', 'trivial']).toContain(motion.reading);
   });
 });
