@@ -60,8 +60,8 @@ export const DEFAULT_CRITIC: Readonly<Omit<CriticOptions, 'temperature' | 'seed'
   weightDecay: 0.01,
   initScale: 0.1,
   // Checked often: on a few clips what carries over to new ones is learnt in the first steps and the rest fits
-  // particulars; checked every 10 steps, the demo footage's frame~motion critic already had its stopping loss
-  // above step 0's at the first check and was reported untrained (docs/pairsets.md, "Checks").
+  // particulars; checked every 10 steps, the frame~motion critic on most demo-like footage tried already had its
+  // stopping loss above step 0's at the first check and was reported untrained (docs/pairsets.md, "Checks").
   curveEvery: 2,
   stopShare: 0.25,
 });
