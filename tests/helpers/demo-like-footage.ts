@@ -9,8 +9,8 @@ import { ESTIMATOR_REGISTRY, type EstimatorEntry, type EstimatorParams } from '.
 /**
  * The demo pairset's footage without the demo's ffmpeg encode and worker pipeline: for each accepted clip of the
  * demo pairset's project, the demo's own procedural texture (server/demo/footage.ts) seen through the demo camera
- * path, sampled at the project defaults (5 frames/s, 320 px working size), the demo's movers (crate, trolley,
- * flag…) drawn where the recipe puts them, and the forward field of each neighbour pair from the projects' default
+ * path, sampled at the project defaults (5 frames/s, 320 px working size), the demo's movers (trolley, crate,
+ * balloon) drawn where the recipe puts them, and the forward field of each neighbour pair from the projects' default
  * estimator with its default parameters. Differences from a real demo start: no H.264 round trip, no scaling
  * filter of ffmpeg and drawbox's YUV blending done in RGB, so fields and frames differ in detail, not in kind.
  */

@@ -84,7 +84,7 @@ describe('the trained critic on the demo pairset footage', () => {
   });
 
   it('finds a positive held-out bound for frame~motion: each frame shows what moves on its own', () => {
-    // The movers (trolley, flag, crate) are where a moment's field differs from the camera's own motion, and they
+    // The movers (trolley, crate, balloon) are where a moment's field differs from the camera's own motion, and they
     // are in the frame; without them every field of a steady pan is the same translation and the bound is about 0.
     // Above the reading's 5 % of log K, so the figure is more than chance on these few held-out pairs, and from a
     // trained critic (kept step > 0), not the untrained one's near-uniform scores.
