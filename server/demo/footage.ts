@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import { DEMO_DUPLICATE, DEMO_NOT_A_VIDEO, type DemoClipRecipe, type DemoMover } from './scenario';
+import { DEMO_DUPLICATE, DEMO_NOT_A_VIDEO, type DemoClipRecipe } from './scenario';
 
 const run = promisify(execFile);
 const TEXTURE_SIZE = '1600x900';
@@ -39,16 +39,29 @@ export async function renderTexture(dir: string, seed: number, size = TEXTURE_SI
 /** Opacity of a mover's box, so the foliage shows faintly through it. */
 export const MOVER_OPACITY = 0.95;
 
-function cameraFilter(recipe: Pick<DemoClipRecipe, 'x' | 'y' | 'movers' | 'look'>): string {
-  const crop = `crop=${FRAME.width}:${FRAME.height}:x='${recipe.x}':y='${recipe.y}'`;
-  return [crop, ...(recipe.movers ?? []).map(moverFilter), recipe.look, 'format=yuv420p'].filter(Boolean).join(',');
-}
-
-function moverFilter(mover: DemoMover): string {
-  return (
-    `drawbox=x='${mover.x}':y='${mover.y}':w=${mover.width}:h=${mover.height}:` +
-    `color=0x${mover.colour}@${MOVER_OPACITY}:t=fill`
-  );
+/**
+ * The camera's view of input `[input]` as filter-graph text ending in `[output]`: the crop along the camera path,
+ * each mover overlaid where its path puts it at the frame's time, then the look. Movers are overlays, not drawbox:
+ * overlay evaluates its position on every frame (eval=frame), while the bundled ffmpeg's drawbox evaluates it once,
+ * which left the boxes standing still.
+ */
+function cameraGraph(
+  recipe: Pick<DemoClipRecipe, 'x' | 'y' | 'movers' | 'look'>,
+  input: string,
+  output: string,
+): string {
+  const movers = recipe.movers ?? [];
+  const parts = [`[${input}]crop=${FRAME.width}:${FRAME.height}:x='${recipe.x}':y='${recipe.y}'[${output}0]`];
+  movers.forEach((mover, i) => {
+    parts.push(
+      `color=c=0x${mover.colour}@${MOVER_OPACITY}:s=${mover.width}x${mover.height}:r=${FRAME.rate},` +
+        `format=rgba[${output}m${i}]`,
+      `[${output}${i}][${output}m${i}]overlay=x='${mover.x}':y='${mover.y}':eval=frame:shortest=1[${output}${i + 1}]`,
+    );
+  });
+  const finish = [recipe.look, 'format=yuv420p'].filter(Boolean).join(',');
+  parts.push(`[${output}${movers.length}]${finish}[${output}]`);
+  return parts.join(';');
 }
 
 /** Renders one demo clip (H.264, 640×360, 25 frames/s) into `dir`. */
@@ -67,8 +80,10 @@ export async function renderDemoClip(dir: string, recipe: DemoClipRecipe): Promi
       String(FRAME.rate),
       '-i',
       texture,
-      '-vf',
-      cameraFilter(recipe),
+      '-filter_complex',
+      cameraGraph(recipe, '0', 'v'),
+      '-map',
+      '[v]',
       '-t',
       String(recipe.seconds),
       ...encode,
@@ -99,7 +114,8 @@ export async function renderDemoClip(dir: string, recipe: DemoClipRecipe): Promi
     '-i',
     other,
     '-filter_complex',
-    `[0]${cameraFilter(recipe)}[a];[1]${cameraFilter({ x: '500+t*25', y: '300' })}[b];` + '[a][b]concat=n=2:v=1[v]',
+    `${cameraGraph(recipe, '0', 'a')};${cameraGraph({ x: '500+t*25', y: '300' }, '1', 'b')};` +
+      '[a][b]concat=n=2:v=1[v]',
     '-map',
     '[v]',
     ...encode,
