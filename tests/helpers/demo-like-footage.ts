@@ -12,7 +12,7 @@ import { ESTIMATOR_REGISTRY, type EstimatorEntry, type EstimatorParams } from '.
  * path, sampled at the project defaults (5 frames/s, 320 px working size), the demo's movers (trolley, crate,
  * balloon) drawn where the recipe puts them, and the forward field of each neighbour pair from the projects' default
  * estimator with its default parameters. Differences from a real demo start: no H.264 round trip, no scaling
- * filter of ffmpeg and drawbox's YUV blending done in RGB, so fields and frames differ in detail, not in kind.
+ * filter of ffmpeg and the overlay's blending done in RGB, so fields and frames differ in detail, not in kind.
  */
 export interface DemoLikeClip {
   recipe: DemoClipRecipe;
@@ -86,8 +86,8 @@ function floorMod(x: number, y: number): number {
 }
 
 /**
- * The recipe's movers as sharp overlays at time t: each box where its drawbox puts it (ffmpeg truncates the
- * position to whole pixels), cut to the frame, at the demo's opacity; none for a box wholly outside the frame.
+ * The recipe's movers as sharp overlays at time t: each box where the demo's ffmpeg overlay puts it (at whole
+ * pixels), cut to the frame, at the demo's opacity; none for a box wholly outside the frame.
  */
 function moverOverlays(recipe: DemoClipRecipe, t: number): OverlayOptions[] {
   return (recipe.movers ?? []).flatMap((mover) => {
