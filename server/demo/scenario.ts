@@ -354,7 +354,7 @@ export const DEMO_PAIRSET = {
  * than 60 % of its moments, with clusters taken in turn within each shard. Why 60 %: the steady orchard clips share
  * their movers (pale timber trolleys, crates, balloons), and to the clustering they make two scenes, one of them
  * most of the moments; a share cap needs more clusters than one over the share, so 40 % would keep nothing, while
- * 60 % kept 117 of the 205 moments and 22 of the val clip's (measured while the movers still stood still).
+ * 60 % kept 117 of the 205 moments and 22 of the val clip's in a demo start.
  */
 export const DEMO_BALANCE = { clusteringSeed: 2026, k: 5, capShare: 0.6, mixClusters: true } as const;
 
