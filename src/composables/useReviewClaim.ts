@@ -28,6 +28,8 @@ export function useReviewClaim(clipId: Ref<number>) {
   let timer: ReturnType<typeof setInterval> | undefined;
   /** The latest attempt: which clip, its answer, and whether a verdict took it over (so it is not let go). */
   let attempt: { clipId: number; taken: Promise<ClipClaim>; handedOver: boolean } | null = null;
+  /** The screen has closed: a claim answered after that is let go. */
+  let left = false;
 
   function take(): Promise<void> {
     const id = clipId.value;
@@ -36,7 +38,7 @@ export function useReviewClaim(clipId: Ref<number>) {
     claiming.value = claim.value === null;
     return entry.taken.then(
       (taken) => {
-        if (id !== clipId.value) {
+        if (id !== clipId.value || left) {
           // Left before the answer came, without deciding: the claim is let go, as leaving does.
           if (!entry.handedOver) void releaseClaim(id).catch(() => undefined);
           return;
@@ -66,9 +68,10 @@ export function useReviewClaim(clipId: Ref<number>) {
     const held = claim.value;
     claim.value = null;
     claiming.value = false;
+    // A renewal still on its way must not let go of the claim the verdict needs.
+    if (attempt?.clipId === id) attempt.handedOver = true;
     if (held?.clipId === id) return Promise.resolve(held);
     if (attempt?.clipId !== id) return Promise.reject(new Error(`Clip ${id} is not claimed by you.`));
-    attempt.handedOver = true;
     return attempt.taken;
   }
 
@@ -116,6 +119,7 @@ export function useReviewClaim(clipId: Ref<number>) {
     for (const kind of ACTIVITY) window.addEventListener(kind, noteActivity, { passive: true });
   });
   onBeforeUnmount(() => {
+    left = true;
     clearInterval(timer);
     for (const kind of ACTIVITY) window.removeEventListener(kind, noteActivity);
     void release(clipId.value);
