@@ -21,25 +21,58 @@ export function useReviewClaim(clipId: Ref<number>) {
   const claim = ref<ClipClaim | null>(null);
   const heldBy = ref<ClipClaim | null>(null);
   const problem = ref('');
+  /** The claim on the clip on screen is being taken: a decision may be given, and is sent once it is held. */
+  const claiming = ref(false);
   const mine = computed(() => claim.value !== null);
   let lastActivity = Date.now();
   let timer: ReturnType<typeof setInterval> | undefined;
+  /** The latest attempt: which clip, its answer, and whether a verdict took it over (so it is not let go). */
+  let attempt: { clipId: number; taken: Promise<ClipClaim>; handedOver: boolean } | null = null;
+  /** The screen has closed: a claim answered after that is let go. */
+  let left = false;
 
-  async function take(): Promise<void> {
+  function take(): Promise<void> {
     const id = clipId.value;
-    try {
-      const taken = await claimClip(id);
-      if (id !== clipId.value) return;
-      claim.value = taken;
-      heldBy.value = null;
-      problem.value = '';
-    } catch (error) {
-      if (id !== clipId.value) return;
-      claim.value = null;
-      const details = error instanceof ApiError ? (error.details as { claim?: ClipClaim } | undefined) : undefined;
-      if (error instanceof ApiError && error.code === 'claimed' && details?.claim) heldBy.value = details.claim;
-      else problem.value = (error as Error).message;
-    }
+    const entry = { clipId: id, taken: claimClip(id), handedOver: false };
+    attempt = entry;
+    claiming.value = claim.value === null;
+    return entry.taken.then(
+      (taken) => {
+        if (id !== clipId.value || left) {
+          // Left before the answer came, without deciding: the claim is let go, as leaving does.
+          if (!entry.handedOver) void releaseClaim(id).catch(() => undefined);
+          return;
+        }
+        if (attempt === entry) claiming.value = false;
+        claim.value = taken;
+        heldBy.value = null;
+        problem.value = '';
+      },
+      (error: unknown) => {
+        if (id !== clipId.value) return;
+        if (attempt === entry) claiming.value = false;
+        claim.value = null;
+        const details = error instanceof ApiError ? (error.details as { claim?: ClipClaim } | undefined) : undefined;
+        if (error instanceof ApiError && error.code === 'claimed' && details?.claim) heldBy.value = details.claim;
+        else problem.value = (error as Error).message;
+      },
+    );
+  }
+
+  /**
+   * A verdict is given on the clip on screen: resolves once its claim is held (at once when it is), rejects with
+   * the reason when it cannot be. The verdict ends the claim on the server, so the screen forgets it.
+   */
+  function handOver(): Promise<unknown> {
+    const id = clipId.value;
+    const held = claim.value;
+    claim.value = null;
+    claiming.value = false;
+    // A renewal still on its way must not let go of the claim the verdict needs.
+    if (attempt?.clipId === id) attempt.handedOver = true;
+    if (held?.clipId === id) return Promise.resolve(held);
+    if (attempt?.clipId !== id) return Promise.reject(new Error(`Clip ${id} is not claimed by you.`));
+    return attempt.taken;
   }
 
   async function release(id: number): Promise<void> {
@@ -56,11 +89,6 @@ export function useReviewClaim(clipId: Ref<number>) {
     } catch (error) {
       problem.value = (error as Error).message;
     }
-  }
-
-  /** After a verdict the server has ended the claim already. */
-  function forget(): void {
-    claim.value = null;
   }
 
   function check(): void {
@@ -81,6 +109,7 @@ export function useReviewClaim(clipId: Ref<number>) {
     if (previous !== undefined) await release(previous);
     heldBy.value = null;
     problem.value = '';
+    claim.value = null;
     await take();
   });
 
@@ -90,10 +119,11 @@ export function useReviewClaim(clipId: Ref<number>) {
     for (const kind of ACTIVITY) window.addEventListener(kind, noteActivity, { passive: true });
   });
   onBeforeUnmount(() => {
+    left = true;
     clearInterval(timer);
     for (const kind of ACTIVITY) window.removeEventListener(kind, noteActivity);
     void release(clipId.value);
   });
 
-  return { claim, heldBy, problem, mine, take, takeOver, forget };
+  return { claim, heldBy, problem, claiming, mine, take, takeOver, handOver };
 }

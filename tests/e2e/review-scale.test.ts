@@ -149,6 +149,45 @@ describe('flow through the queue', () => {
     await page.goto(`${server.baseUrl}/review?${query}`);
     await page.waitForSelector(`[data-test="queue-open-${second}"]`);
   });
+
+  it('moves on before the verdict is recorded, shows one the server refuses and opens its clip again', async () => {
+    const query = `projectId=${sortedProjectId}&hasFlag=blurry&sort=-medianSharpness`;
+    const [, , third, fourth] = blurrySharpestFirst;
+    const operator = (await User.findByEmail('operator@kinefold.test'))!;
+    await page.goto(`${server.baseUrl}/review?${query}`);
+    await page.click(`[data-test="queue-open-${third}"]`);
+    await shownClip(third!);
+    await page.waitForSelector('[data-test="claim-mine"]');
+    // Someone else holds the clip by the time the verdict arrives: the server refuses it.
+    await Clip.update(
+      { claimedBy: operator.id, claimExpiresAt: new Date(Date.now() + 600_000) },
+      { where: { id: third } },
+    );
+    await page.keyboard.press('a');
+    await shownClip(fourth!);
+    const refusal = `[data-test="refused-${third}"]`;
+    await page.waitForSelector(refusal);
+    await expectInView(refusal);
+    const name = (await Clip.findByPk(third))!.originalName;
+    expect(await page.textContent(refusal)).toContain(`Not recorded: Accept on ${name}.`);
+    expect(await page.textContent(refusal)).toContain(`is claimed by ${operator.name}`);
+    expect((await Clip.findByPk(third))!.state).toBe('awaiting_review');
+    expect(await Verdict.count({ where: { clipId: third } })).toBe(0);
+
+    // Their claim ends; the curator opens the clip from the notice and decides it again.
+    await Clip.update({ claimedBy: null, claimExpiresAt: null }, { where: { id: third } });
+    await page.click(`[data-test="refused-reopen-${third}"]`);
+    await shownClip(third!);
+    expect(await page.locator(refusal).count()).toBe(0);
+    await page.waitForSelector('[data-test="claim-mine"]');
+    await page.keyboard.press('a');
+    await shownClip(fourth!);
+    await expect.poll(async () => (await Clip.findByPk(third))!.state).toBe('accepted');
+    await page.waitForSelector('[data-test="undo-verdict"]');
+    await page.keyboard.press('u');
+    await shownClip(third!);
+    expect((await Clip.findByPk(third))!.state).toBe('awaiting_review');
+  });
 });
 
 describe('the queue at 1440 × 900', () => {
