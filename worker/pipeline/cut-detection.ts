@@ -29,17 +29,26 @@ export async function detectClipCuts(
   context: Pick<StageContext, 'pool' | 'signal'>,
 ): Promise<ClipCuts> {
   const thumbs = measured.map((m) => m.cutThumb);
+  const histogram = (a: number, b: number) => 1 - histogramCorrelation(measured[a]!.histogram, measured[b]!.histogram);
+  const histogramDistances = thumbs.slice(1).map((_, p) => histogram(p, p + 1));
   const runs = thumbs.length > 1 ? splitRuns([{ first: 0, pairs: thumbs.length - 1 }], context.pool.threads) : [];
   const evidence = await forEachFrame(
     runs.length,
     { signal: context.signal, progress: () => undefined },
     (r, signal) => {
       const { first, pairs } = runs[r]!;
-      return context.pool.measureCutPairs({ thumbs: thumbs.slice(first, first + pairs + 1) }, signal);
+      return context.pool.measureCutPairs(
+        {
+          thumbs: thumbs.slice(first, first + pairs + 1),
+          histogramDistances: histogramDistances.slice(first, first + pairs),
+        },
+        signal,
+      );
     },
   );
-  const histogram = (a: number, b: number) => 1 - histogramCorrelation(measured[a]!.histogram, measured[b]!.histogram);
-  const pairs: PairMeasures[] = evidence.flat().map((pair, p) => ({ ...pair, histogramDistance: histogram(p, p + 1) }));
+  const pairs: PairMeasures[] = evidence
+    .flat()
+    .map((pair, p) => ({ ...pair, histogramDistance: histogramDistances[p]! }));
   const compare = (a: number, b: number): PairMeasures => ({
     ...pairEvidence(thumbs[a]!, thumbs[b]!),
     histogramDistance: histogram(a, b),
