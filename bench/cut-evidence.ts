@@ -1,6 +1,6 @@
 /**
  * Cut evidence benchmark (not a test): the cost the cut detector adds per neighbour pair (thumbs, global shift, edge
- * change and, where the shift does not explain the pair, two coarse Farnebäck fields), against the Motion stage's
+ * change and, where the shift does not explain the pair and it is not quiet, two coarse Farnebäck fields), against the Motion stage's
  * own work on the same pair in the same run (the project default estimator, forward and backward at the 320 px
  * working size). Frames come from the generated cut set (tests/helpers/cut-footage.ts); the first clip is measured
  * twice and its first pass, which warms the code up, is left out.
@@ -35,8 +35,8 @@ try {
     const thumbs = clip.frames.map((grey) => cutThumb(grey, clip.width, clip.height));
     let hint: { dx: number; dy: number } | null = null;
     for (let k = 1; k < thumbs.length; k += 1) {
-      hint = pairEvidence(thumbs[k - 1]!, thumbs[k]!, workspace, hint).shift;
-      histogramCorrelation(histograms[k - 1]!, histograms[k]!);
+      const histogramDistance = 1 - histogramCorrelation(histograms[k - 1]!, histograms[k]!);
+      hint = pairEvidence(thumbs[k - 1]!, thumbs[k]!, workspace, hint, histogramDistance).shift;
     }
     const cutTook = performance.now() - cutStart;
     const motionWorkspace = new MotionWorkspace();

@@ -17,7 +17,10 @@ export async function addMomentDescriptors(server: TestServer, clipId: number, f
   const appearance: Float32Array[] = [];
   const motion: Float32Array[] = [];
   for (let index = 0; index < frames; index += 1) {
-    appearance.push((await measureFrame({ kind: 'measure', frameFile: layout.frame(index), cutBins: 64 })).appearance);
+    appearance.push(
+      (await measureFrame({ kind: 'measure', frameFile: layout.frame(index), cutBins: 64, cutThumb: false }))
+        .appearance,
+    );
     const field = layout.motionField(index);
     motion.push(
       fs.existsSync(field)

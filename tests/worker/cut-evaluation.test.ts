@@ -43,10 +43,14 @@ beforeAll(async () => {
     const thumbs = clip.frames.map((grey) => cutThumb(grey, clip.width, clip.height));
     const histograms = clip.frames.map((grey) => greyHistogram(grey));
     const compare = (a: number, b: number) => measures(thumbs, histograms, a, b);
-    // Pairs as the pipeline's thread pool measures them (each pair's camera shift a hint for the next).
-    const pairs = measureCutPairs({ kind: 'cut-pairs', thumbs }).map((pair, p) => ({
+    const histogramDistances = thumbs
+      .slice(1)
+      .map((_, p) => 1 - histogramCorrelation(histograms[p]!, histograms[p + 1]!));
+    // Pairs as the pipeline's thread pool measures them (each pair's camera shift a hint for the next, quiet pairs
+    // without their fields).
+    const pairs = measureCutPairs({ kind: 'cut-pairs', thumbs, histogramDistances }).map((pair, p) => ({
       ...pair,
-      histogramDistance: 1 - histogramCorrelation(histograms[p]!, histograms[p + 1]!),
+      histogramDistance: histogramDistances[p]!,
     }));
     const { cutBefore } = decideCuts(pairs, compare, { histogramThreshold: DEFAULT_CUT_THRESHOLD });
     outcomes.push({

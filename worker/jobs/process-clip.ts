@@ -7,7 +7,7 @@ import { flagsStage } from '../pipeline/flags-stage';
 import { motionStage } from '../pipeline/motion-stage';
 import { pipelineSettings } from '../pipeline/project-settings';
 import { sampleStage } from '../pipeline/sample-stage';
-import { signalsStage } from '../pipeline/signals-stage';
+import { createSignalsStage } from '../pipeline/signals-stage';
 import type { PipelineStage } from '../pipeline/stage';
 import { openWorkDir, removeLeftoverWorkDirs, type WorkDir } from '../pipeline/work-dir';
 import { clipStoredUsage } from '../../server/core/storage/stored-usage';
@@ -24,47 +24,56 @@ import { LeaseLostError } from './job-errors';
  */
 const MOTION_STAGES: readonly PipelineStage[] = [motionStage];
 
-const STAGES: readonly PipelineStage[] = [sampleStage, signalsStage, ...MOTION_STAGES, flagsStage];
-
 const PROGRESS_INTERVAL_MS = 500;
 
 /**
  * process-clip: runs the stages in order. The job row remembers the stage in hand, and each stage's commit moves
  * it on in the same transaction as the stage's rows, so a job claimed again after a crash resumes at the stage
  * that did not commit and redoes only that one.
+ * `cutEvidence: false` is for the cut detector's cost benchmark only (bench/cut-realtime.ts): its reference runs
+ * decide cuts by the histogram alone.
  */
-export const processClip: Handler<'process-clip'> = {
-  async run({ job, payload }, context) {
-    const { clipId } = payload;
-    if (!(await Clip.findByPk(clipId))) return;
-    await removeLeftoverWorkDirs(context.paths.clipDir(clipId));
-    const first = await firstStage(clipId, job.stage);
-    try {
-      // Beside a bucket: the stored files this attempt reads, the source only if it starts at sample.
-      await context.mirror.pull(clipId, { source: first === 0 });
-      for (let i = first; i < STAGES.length; i += 1) {
-        if (!(await runStage(STAGES[i]!, STAGES[i + 1] ?? null, clipId, context))) return;
+export function createProcessClip({ cutEvidence }: { cutEvidence: boolean }): Handler<'process-clip'> {
+  const stages: readonly PipelineStage[] = [
+    sampleStage,
+    createSignalsStage({ cutEvidence }),
+    ...MOTION_STAGES,
+    flagsStage,
+  ];
+  return {
+    async run({ job, payload }, context) {
+      const { clipId } = payload;
+      if (!(await Clip.findByPk(clipId))) return;
+      await removeLeftoverWorkDirs(context.paths.clipDir(clipId));
+      const first = await firstStage(stages, clipId, job.stage);
+      try {
+        // Beside a bucket: the stored files this attempt reads, the source only if it starts at sample.
+        await context.mirror.pull(clipId, { source: first === 0 });
+        for (let i = first; i < stages.length; i += 1) {
+          if (!(await runStage(stages[i]!, stages[i + 1] ?? null, clipId, context))) return;
+        }
+      } catch (error) {
+        if (await removeIfClipDeleted(clipId, context)) return;
+        throw error;
+      } finally {
+        await context.mirror.release(clipId);
       }
-    } catch (error) {
-      if (await removeIfClipDeleted(clipId, context)) return;
-      throw error;
-    } finally {
-      await context.mirror.release(clipId);
-    }
-  },
-  recordFailure: recordClipFailure,
-};
+    },
+    recordFailure: recordClipFailure,
+  };
+}
 
+export const processClip = createProcessClip({ cutEvidence: true });
 /**
  * Where a claimed job resumes: at the stage that did not commit. A clip whose frames are still in the original
  * format starts again from sample, so no later stage mixes the two formats.
  */
-async function firstStage(clipId: number, stage: string | null): Promise<number> {
+async function firstStage(stages: readonly PipelineStage[], clipId: number, stage: string | null): Promise<number> {
   const clip = await Clip.findByPk(clipId, { attributes: ['derivedFormat'] });
   if (clip?.derivedFormat !== 'packed') return 0;
   return Math.max(
     0,
-    STAGES.findIndex((each) => each.name === stage),
+    stages.findIndex((each) => each.name === stage),
   );
 }
 

@@ -2,8 +2,8 @@ import { CutMark } from '../../server/core/models';
 import type { CutEvidence } from '../../shared/types/cuts';
 import { splitRuns } from './motion-runs';
 import type { FrameMeasurement } from '../pool/frame-tasks';
-import { pairEvidence } from '../signals/cut-evidence';
-import { decideCuts, type PairMeasures } from '../signals/cut-decision';
+import { pairEvidence, type CutThumb } from '../signals/cut-evidence';
+import { decideCuts, type CutDecision, type PairMeasures } from '../signals/cut-decision';
 import { histogramCorrelation } from '../signals/cuts';
 import { forEachFrame } from './each-frame';
 import type { StageContext } from './stage';
@@ -20,7 +20,9 @@ export interface ClipCuts {
 /**
  * The cuts of a clip from its measured frames: the pair evidence runs in the thread pool in runs of consecutive
  * frames (one run per thread), the decision and its few checks across a transition or a flash in this thread, and
- * curators' marks override the detector frame by frame (so processing a clip again keeps them).
+ * curators' marks override the detector frame by frame (so processing a clip again keeps them). Frames measured
+ * without thumbs (the cost benchmark's reference runs, bench/cut-realtime.ts) are decided by the histogram
+ * distance alone, as before the evidence existed.
  */
 export async function detectClipCuts(
   clipId: number,
@@ -28,23 +30,15 @@ export async function detectClipCuts(
   histogramThreshold: number,
   context: Pick<StageContext, 'pool' | 'signal'>,
 ): Promise<ClipCuts> {
-  const thumbs = measured.map((m) => m.cutThumb);
-  const runs = thumbs.length > 1 ? splitRuns([{ first: 0, pairs: thumbs.length - 1 }], context.pool.threads) : [];
-  const evidence = await forEachFrame(
-    runs.length,
-    { signal: context.signal, progress: () => undefined },
-    (r, signal) => {
-      const { first, pairs } = runs[r]!;
-      return context.pool.measureCutPairs({ thumbs: thumbs.slice(first, first + pairs + 1) }, signal);
-    },
-  );
   const histogram = (a: number, b: number) => 1 - histogramCorrelation(measured[a]!.histogram, measured[b]!.histogram);
-  const pairs: PairMeasures[] = evidence.flat().map((pair, p) => ({ ...pair, histogramDistance: histogram(p, p + 1) }));
-  const compare = (a: number, b: number): PairMeasures => ({
-    ...pairEvidence(thumbs[a]!, thumbs[b]!),
-    histogramDistance: histogram(a, b),
-  });
-  const decision = decideCuts(pairs, compare, { histogramThreshold });
+  const histogramDistances = measured.slice(1).map((_, p) => histogram(p, p + 1));
+  const thumbs = measured.map((m) => m.cutThumb);
+  const decision = thumbs.every((thumb): thumb is CutThumb => thumb !== null)
+    ? await decideFromEvidence(thumbs, histogramDistances, histogram, histogramThreshold, context)
+    : {
+        cutBefore: measured.map((_, k) => k > 0 && histogramDistances[k - 1]! >= histogramThreshold),
+        evidence: measured.map(() => null),
+      };
   const marks = await CutMark.findAll({ where: { clipId }, attributes: ['frameIndex', 'value'] });
   const cutBefore = [...decision.cutBefore];
   for (const mark of marks) {
@@ -53,6 +47,39 @@ export async function detectClipCuts(
   return {
     cutBefore,
     evidence: decision.evidence,
-    histogramDistances: [null, ...pairs.map((pair) => pair.histogramDistance)],
+    histogramDistances: [null, ...histogramDistances],
   };
+}
+
+/** The detector's decision from the pair evidence, measured in the thread pool, and the histogram distances. */
+async function decideFromEvidence(
+  thumbs: CutThumb[],
+  histogramDistances: number[],
+  histogram: (a: number, b: number) => number,
+  histogramThreshold: number,
+  context: Pick<StageContext, 'pool' | 'signal'>,
+): Promise<CutDecision> {
+  const runs = thumbs.length > 1 ? splitRuns([{ first: 0, pairs: thumbs.length - 1 }], context.pool.threads) : [];
+  const evidence = await forEachFrame(
+    runs.length,
+    { signal: context.signal, progress: () => undefined },
+    (r, signal) => {
+      const { first, pairs } = runs[r]!;
+      return context.pool.measureCutPairs(
+        {
+          thumbs: thumbs.slice(first, first + pairs + 1),
+          histogramDistances: histogramDistances.slice(first, first + pairs),
+        },
+        signal,
+      );
+    },
+  );
+  const pairs: PairMeasures[] = evidence
+    .flat()
+    .map((pair, p) => ({ ...pair, histogramDistance: histogramDistances[p]! }));
+  const compare = (a: number, b: number): PairMeasures => ({
+    ...pairEvidence(thumbs[a]!, thumbs[b]!),
+    histogramDistance: histogram(a, b),
+  });
+  return decideCuts(pairs, compare, { histogramThreshold });
 }

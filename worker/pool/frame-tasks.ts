@@ -15,6 +15,8 @@ export interface MeasureFrameTask {
   kind: 'measure';
   frameFile: string;
   cutBins: number;
+  /** Whether to make the cut detector's thumbs (off only for the cost benchmark's reference runs). */
+  cutThumb: boolean;
 }
 
 export interface FrameMeasurement {
@@ -23,15 +25,19 @@ export interface FrameMeasurement {
   histogram: Float64Array;
   /** dHash as 16 hex digits. */
   dhash: string;
-  /** Small copies for the cut detector's motion and edge evidence. */
-  cutThumb: CutThumb;
+  /** Small copies for the cut detector's motion and edge evidence; null when not asked for. */
+  cutThumb: CutThumb | null;
   /** The appearance part of the moment descriptor (shared/diversity/descriptor-layout.ts). */
   appearance: Float32Array;
 }
 
 export type FrameTask = MeasureFrameTask;
 
-export async function measureFrame({ frameFile, cutBins }: MeasureFrameTask): Promise<FrameMeasurement> {
+export async function measureFrame({
+  frameFile,
+  cutBins,
+  cutThumb: withThumb,
+}: MeasureFrameTask): Promise<FrameMeasurement> {
   const { rgb, width, height } = await readRgbImage(frameFile);
   const grey = rgbToGrey(rgb, new Float32Array(width * height));
   const signals = frameSignals(grey, width, height);
@@ -39,7 +45,7 @@ export async function measureFrame({ frameFile, cutBins }: MeasureFrameTask): Pr
     signals,
     histogram: greyHistogram(grey, cutBins),
     dhash: hashToHex(dHash(grey, width, height)),
-    cutThumb: cutThumb(grey, width, height),
+    cutThumb: withThumb ? cutThumb(grey, width, height) : null,
     appearance: appearanceDescriptor(rgb, grey, width, height, signals.sharpness),
   };
 }

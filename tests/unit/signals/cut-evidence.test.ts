@@ -97,3 +97,36 @@ describe('pair evidence', () => {
     expect(cut.edgeChange).toBeGreaterThan(2 * same.edgeChange);
   });
 });
+
+describe('quiet pairs', () => {
+  const width = 320;
+  const height = 180;
+  const first = window(width, height, 0, 0, 7);
+
+  it('spare the fields of a dim, grainy pan, and keep the warp error of the last shift for it', () => {
+    // Faint texture (a third of its contrast) under grain of ±10 grey levels, panned by half a coarse pixel: the
+    // shift alone leaves a warp error above 0.25, so the fields ran; its tones and edges (none reach the edge
+    // level) stay quiet.
+    let state = 1;
+    const grain = () => ((state = (state * 1103515245 + 12345) % 2 ** 31) / 2 ** 31) * 20 - 10;
+    const dim = (x0: number, y0: number) =>
+      window(width, height, x0, y0, 7).map((value) => 128 + 0.3 * (value - 128) + grain());
+    const before = cutThumb(dim(0, 0), width, height);
+    const after = cutThumb(dim(2.5, 1), width, height);
+    const full = pairEvidence(before, after);
+    const quiet = pairEvidence(before, after, undefined, null, 0);
+    expect(full.motionConsistency).not.toBeNull();
+    expect(quiet.motionConsistency).toBeNull();
+    expect(quiet.edgeChange).toBeLessThan(0.08);
+    expect(quiet.warpError).toBeGreaterThan(0.25);
+    expect(quiet.warpError).toBeGreaterThanOrEqual(full.warpError);
+    expect(quiet.warpError).toBeLessThan(0.6);
+  });
+
+  it('still measure a jump to another part of one scene, whose histogram is as quiet', () => {
+    const elsewhere = window(width, height, 150, 90, 7);
+    const jump = pairEvidence(cutThumb(first, width, height), cutThumb(elsewhere, width, height), undefined, null, 0);
+    expect(jump.motionConsistency).not.toBeNull();
+    expect(jump.warpError).toBeGreaterThan(0.8);
+  });
+});
