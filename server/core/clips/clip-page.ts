@@ -1,16 +1,17 @@
-import { QueryTypes } from 'sequelize';
+import { QueryTypes, type QueryOptionsWithType } from 'sequelize';
 import type { ClipFlagDetail, ClipSummary } from '../../../shared/types/clips';
 import type { ClipVerdict } from '../../../shared/types/review';
 import { storedBoolean, storedIso, storedIsoOrNull, storedJson } from '../db/stored-values';
 import { Clip } from '../models';
 
 /**
- * One page of the clip list read lean: one statement joins the page's clips to their project, uploader and verdict
- * in force (with its curator), and plain rows become the API's objects, field for field as `Clip.toApi` makes them.
- * Building Sequelize instances for the 50 clips, their relations and three more lookups cost more of the server's
- * CPU than the SQL under 50 concurrent clients (docs/benchmarks.md, "Load").
+ * One page of the clip list read lean: one statement picks the page's clips (by the list's filter and order, on
+ * clips alone so indexes apply) and joins only those to their project, uploader and verdict in force (with its
+ * curator); plain rows become the API's objects, field for field as `Clip.toApi` makes them. Building Sequelize
+ * instances for the 50 clips, their relations and four more statements cost more of the server's CPU than the SQL
+ * under 50 concurrent clients (docs/benchmarks.md, "Load").
  */
-const PAGE_SQL = `
+const pageSql = (chosen: string, order: string) => `
   SELECT c.id, c."projectId", p.name AS "projectName", c."uploaderId", u.name AS "uploaderName", c."originalName",
     c."sizeBytes", c."storedBytes", c.sha256, c.state, c.stage, c.error, c.flags, c.container, c.codec,
     c."durationS", c.fps, c.width, c.height, c.rotation, c."hasThumbnail", c.site, c.rig, c."capturedAt", c.tags,
@@ -19,12 +20,13 @@ const PAGE_SQL = `
     v.id AS "verdictId", v.decision AS "verdictDecision", v.reason AS "verdictReason",
     v."reasonLabel" AS "verdictReasonLabel", v.comment AS "verdictComment", v."curatorId" AS "verdictCuratorId",
     k.name AS "verdictCuratorName", v.at AS "verdictAt", v.bulk AS "verdictBulk"
-  FROM clips c
+  FROM (${chosen}) chosen
+  JOIN clips c ON c.id = chosen.id
   LEFT JOIN projects p ON p.id = c."projectId"
   LEFT JOIN users u ON u.id = c."uploaderId"
   LEFT JOIN verdicts v ON v."clipId" = c.id AND v."supersededAt" IS NULL
   LEFT JOIN users k ON k.id = v."curatorId"
-  WHERE c.id IN (:ids)`;
+  ORDER BY ${order}`;
 
 type StoredDate = string | Date;
 
@@ -141,13 +143,15 @@ function toSummary(row: PageRow): ClipSummary {
   };
 }
 
-/** The clips with these ids as the list shows them, in the order of `ids`; ids of clips gone meanwhile are skipped. */
-export async function readClipPage(ids: number[]): Promise<ClipSummary[]> {
-  if (ids.length === 0) return [];
-  const rows = await Clip.sequelize!.query<PageRow>(PAGE_SQL, { replacements: { ids }, type: QueryTypes.SELECT });
-  const byId = new Map(rows.map((row) => [row.id, row]));
-  return ids.flatMap((id) => {
-    const row = byId.get(id);
-    return row ? [toSummary(row)] : [];
-  });
+/**
+ * The clips a statement `chosen` picks (its one column: `id`), as the list shows them, in `order` (terms on `c`, the
+ * same order `chosen` picks by). `tableNames: []` tells Sequelize's SQLite dialect that the statement needs no
+ * column types: from a Sequelize-written `chosen` it would otherwise read `PRAGMA table_info` before every page.
+ */
+export async function readClipPage(chosen: string, order: string): Promise<ClipSummary[]> {
+  const rows = await Clip.sequelize!.query<PageRow>(pageSql(chosen, order), {
+    type: QueryTypes.SELECT,
+    tableNames: [],
+  } as QueryOptionsWithType<QueryTypes.SELECT>);
+  return rows.map(toSummary);
 }
