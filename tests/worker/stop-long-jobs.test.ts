@@ -69,7 +69,9 @@ afterAll(async () => {
 
 describe('a stopping worker', () => {
   it('gives back a compact-storage job between clips, and the next claim carries on', async () => {
-    const job = await enqueueJob('compact-storage', { reason: 'upgrade' }, {});
+    const job = await Clip.sequelize!.transaction((transaction) =>
+      enqueueJob('compact-storage', { reason: 'upgrade' }, { transaction }),
+    );
     const running = worker.runtime.run();
     for (;;) {
       await job.reload();
@@ -107,7 +109,9 @@ describe('a stopping worker', () => {
         return objects;
       },
     };
-    const job = await enqueueJob('reconcile-usage', { reason: 'scheduled' }, {});
+    const job = await Clip.sequelize!.transaction((transaction) =>
+      enqueueJob('reconcile-usage', { reason: 'scheduled' }, { transaction }),
+    );
     const run = reconcileUsage.run(
       { job, payload: { reason: 'scheduled' } },
       {

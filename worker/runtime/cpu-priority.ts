@@ -15,7 +15,7 @@ export function lowerCpuPriority(nice: number): void {
       if (os.getPriority(id) < nice) os.setPriority(id, nice);
     } catch (error) {
       // A thread that ended since the listing has nothing left to lower.
-      if ((error as NodeJS.ErrnoException).info?.code !== 'ESRCH') throw error;
+      if ((error as { info?: { code?: string } }).info?.code !== 'ESRCH') throw error;
     }
   }
 }
