@@ -7,7 +7,8 @@
  *   - 24 concurrent 50 MB uploads from the four sessions: errors and the server's RSS growth.
  * Goals: lists ≥ 300 requests/s with p95 ≤ 250 ms; uploads with 0 errors and RSS growth < 128 MB.
  *   npm run bench:load [-- --storage DIR] [--seconds 10] [--connections 50] [--uploads 24] [--mb 50]
- * With --storage the seeded database is kept and reused (seeding takes a minute or two).
+ * With --storage the seeded database is kept in DIR and reused (seeding takes a minute or two). Every run serves a
+ * fresh copy of it, so one run's uploads and unfinished jobs never reach the next run's "worker idle" figures.
  */
 import { execFile } from 'node:child_process';
 import fs from 'node:fs';
@@ -38,9 +39,11 @@ const ROLES: Role[] = ['curator', 'operator', 'engineer', 'admin'];
 /** Clips the worker is given for the "worker busy" run: long enough to keep it busy through the measurement. */
 const BUSY_CLIPS = 4;
 const BUSY_CLIP_S = 60;
+const SETTLE_LIMIT_MS = 300_000;
 
 const work = values.storage ? path.resolve(values.storage) : fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-load-'));
-const storageDir = path.join(work, 'storage');
+const run = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-load-run-'));
+const storageDir = path.join(run, 'storage');
 const media = fs.mkdtempSync(path.join(os.tmpdir(), 'kinefold-load-media-'));
 
 /** The review-queue benchmark seeds 100,000 clips into <work>/storage when it finds none; one short run of it. */
@@ -51,6 +54,30 @@ async function seed(): Promise<void> {
     ['--import', 'tsx', 'bench/review-queue.ts', '--storage', work, '--runs', '1'],
     { maxBuffer: 16 * 1024 * 1024 },
   );
+}
+
+/** The seeded clips have no files: their database is all a run needs, copied while no process has it open. */
+function copySeed(): void {
+  fs.cpSync(path.join(work, 'storage', 'db'), path.join(storageDir, 'db'), { recursive: true });
+}
+
+/**
+ * Waits until the worker holds and awaits no job: at start it runs its daily pass over the 100,000 clips, which
+ * is not what "worker idle" means.
+ */
+async function workerSettled(app: RunningApp, admin: Session): Promise<number> {
+  const begin = performance.now();
+  for (;;) {
+    const totals = await Promise.all(
+      ['running', 'queued'].map(async (state) => {
+        const answer = await app.api(admin, 'GET', `/api/jobs?state=${state}`);
+        return ((await answer.json()) as { total: number }).total;
+      }),
+    );
+    if (totals.every((total) => total === 0)) return (performance.now() - begin) / 1000;
+    if (performance.now() - begin > SETTLE_LIMIT_MS) throw new Error(`the worker still has jobs: ${totals.join(', ')}`);
+    await new Promise((done) => setTimeout(done, 500));
+  }
 }
 
 interface Row {
@@ -134,10 +161,12 @@ async function uploads(app: RunningApp, sessions: Session[]): Promise<string> {
 }
 
 await seed();
+copySeed();
 const app = await startRunningApp(storageDir, { worker: true });
 try {
   const sessions: Session[] = [];
   for (const role of ROLES) sessions.push(await app.signIn(role));
+  console.log(`worker settled after ${(await workerSettled(app, sessions[ROLES.indexOf('admin')]!)).toFixed(1)} s`);
   const health = await load('GET /api/health (floor)', [{ method: 'GET', path: '/api/health' }], app.baseUrl);
   const idle = await load('queue + clip list, worker idle', listRequests(sessions), app.baseUrl);
 
@@ -170,7 +199,10 @@ try {
   }
   console.log(`\n${await uploads(app, sessions)}`);
 } finally {
+  const stopping = performance.now();
   await app.stop();
+  console.log(`server and worker stopped ${((performance.now() - stopping) / 1000).toFixed(1)} s after SIGTERM`);
+  fs.rmSync(run, { recursive: true, force: true });
   fs.rmSync(media, { recursive: true, force: true });
   if (!values.storage) fs.rmSync(work, { recursive: true, force: true });
 }

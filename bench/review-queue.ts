@@ -124,7 +124,8 @@ async function seed(sequelize: Sequelize): Promise<void> {
         pick(uploaders),
         `pass-${n}.mp4`,
         5e7,
-        6e7,
+        // Stored bytes as reconcile-usage measures them: the seeded clips have no files.
+        0,
         createHash('sha256').update(String(n)).digest('hex'),
         'mp4',
         state,
@@ -151,6 +152,8 @@ async function seed(sequelize: Sequelize): Promise<void> {
         Math.floor(random() * 400),
         1,
         1,
+        // As a current installation stores clips; the original format would have the worker convert them all.
+        'packed',
         stamp(created),
         stamp(created),
       ];
@@ -161,7 +164,7 @@ async function seed(sequelize: Sequelize): Promise<void> {
       `INSERT INTO clips (projectId, uploaderId, originalName, sizeBytes, storedBytes, sha256,
       sourceExt, state, container, codec, durationS, fps, width, height, rotation, site, rig, capturedAt, tags, notes,
       flags, flagDetails, frameCount, cutCount, medianSharpness, meanLuma, meanMotion, consistentShare, usablePairs,
-      hasPreview, hasThumbnail, createdAt, updatedAt) VALUES ${rows.join(', ')}`,
+      hasPreview, hasThumbnail, derivedFormat, createdAt, updatedAt) VALUES ${rows.join(', ')}`,
       { transaction },
     );
   }

@@ -10,35 +10,23 @@ import { openKinefoldDatabaseOrExit } from '../server/core/db/open';
 import { queueCompactionIfNeeded } from '../server/core/storage/compaction';
 import { openStoreOrExit } from '../server/core/storage/open-store';
 import { createFramePool } from './pool/frame-pool';
+import { lowerCpuPriority } from './runtime/cpu-priority';
 import { startDailySchedule } from './runtime/daily-schedule';
 import { createJobRuntime } from './runtime/job-runtime';
 import { startPresence } from './runtime/presence';
 import { sweepScratch, workerStorage } from './storage/worker-storage';
 
 const config = loadConfig();
+lowerCpuPriority(config.workerNice);
 const store = await openStoreOrExit(config, 'worker');
 const storage = workerStorage(config, store);
 // Beside a bucket the stages work on copies in this machine's scratch folder; a killed worker's copies go here.
 if (store.kind !== 'folder') await sweepScratch(config.scratchDir);
-// Set before the thread pool, ffmpeg and libuv's threads start, so they inherit it: the worker's CPU-heavy work
-// yields to the server, which must keep answering people while clips process. Only ever lowered: a process may not
-// raise its own priority, and one started nicer than this stays so.
-if (os.getPriority() < config.workerNice) os.setPriority(config.workerNice);
 const owner = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
 const sequelize = await openKinefoldDatabaseOrExit(config, { migrate: false });
 const pool = createFramePool();
 const runtime = createJobRuntime({ config, storage, pool, owner });
 const presence = await startPresence({ name: owner, leaseS: config.jobLeaseS, jobsRunning: runtime.running });
-const scratch = store.kind === 'folder' ? '' : `, scratch: ${storage.paths.root}`;
-console.log(
-  `Kinefold worker ${owner} ready (storage: ${store.location}${scratch}, ` +
-    `database: ${config.databaseUrl ? 'PostgreSQL' : 'SQLite'}, lease ${config.jobLeaseS} s, ` +
-    `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`,
-);
-
-// An installation upgraded from the original storage format converts its clips in the background.
-if (await queueCompactionIfNeeded('upgrade')) console.log('Kinefold worker: queued compact-storage for older clips.');
-
 const stopSchedule = startDailySchedule();
 
 let stopping = false;
@@ -66,4 +54,16 @@ function stop(signal: string): void {
 process.on('SIGINT', () => stop('SIGINT'));
 process.on('SIGTERM', () => stop('SIGTERM'));
 
-await runtime.run();
+// An installation upgraded from the original storage format converts its clips in the background.
+if (await queueCompactionIfNeeded('upgrade')) console.log('Kinefold worker: queued compact-storage for older clips.');
+
+// Ready once a signal stops it cleanly: before the handlers above, a SIGTERM would kill it outright.
+const scratch = store.kind === 'folder' ? '' : `, scratch: ${storage.paths.root}`;
+console.log(
+  `Kinefold worker ${owner} ready (storage: ${store.location}${scratch}, ` +
+    `database: ${config.databaseUrl ? 'PostgreSQL' : 'SQLite'}, lease ${config.jobLeaseS} s, ` +
+    `${config.jobConcurrency} jobs at once, nice ${os.getPriority()}).`,
+);
+
+// A signal during the start-up steps above has stopped it already: running now would claim a job while it exits.
+if (!stopping) await runtime.run();

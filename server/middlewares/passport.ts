@@ -3,6 +3,7 @@ import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import { User } from '../core/models';
 import { hashPassword, MIN_BCRYPT_COST, verifyPassword } from '../core/people/passwords';
+import { signedInUser } from '../core/people/signed-in-user';
 
 /** Spends the same bcrypt time on unknown e-mail addresses so timing does not reveal which accounts exist. */
 let unknownAccountHash: Promise<string> | null = null;
@@ -30,10 +31,10 @@ export function configurePassport(): typeof passport {
 
   passport.serializeUser((user, done) => done(null, user.id));
 
-  // Reloading the user on every request makes disabling an account (or changing a role) take effect at once.
+  // The account is read again (at most ACCOUNT_REUSE_MS old) so disabling it or changing its role takes effect.
   passport.deserializeUser((id: number, done) => {
-    User.findByPk(id)
-      .then((user) => done(null, user && !user.disabled ? user : false))
+    signedInUser(id)
+      .then((user) => done(null, user ?? false))
       .catch(done);
   });
   return passport;

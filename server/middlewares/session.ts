@@ -2,6 +2,7 @@ import connectSessionSequelize from 'connect-session-sequelize';
 import session from 'express-session';
 import type { Sequelize } from 'sequelize';
 import type { Config } from '../core/config';
+import { reuseSessionReads } from './session-reads';
 import { throttleTouches } from './session-touch';
 
 export const SESSION_COOKIE = 'kinefold.sid';
@@ -26,6 +27,7 @@ export function createSessionMiddleware(config: Config, sequelize: Sequelize, se
     }),
   });
   throttleTouches(store);
+  reuseSessionReads(store);
   const middleware = session({
     name: SESSION_COOKIE,
     secret,

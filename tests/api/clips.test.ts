@@ -3,7 +3,8 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Clip, Job, Project } from '../../server/core/models';
+import { findClip } from '../../server/core/clips/clips';
+import { AuditEvent, Clip, Job, Project, User, Verdict } from '../../server/core/models';
 import { storagePaths } from '../../server/core/storage/paths';
 import { makeTestClip } from '../helpers/media-fixtures';
 import { addUser, signedInAgent, startTestServer, type TestServer } from '../helpers/test-server';
@@ -102,6 +103,32 @@ describe('GET /api/clips', () => {
     const page = await curator.agent.get('/api/clips?sort=durationS&pageSize=1&page=3').expect(200);
     expect(page.body).toMatchObject({ total: 3, page: 3, pageSize: 1 });
     expect(page.body.items[0].id).toBe(ids[1]);
+  });
+
+  it('answers each clip byte for byte as the clip record itself reads, verdict and curator included', async () => {
+    // The list reads plain rows (core/clips/clip-page.ts); the clip's model with its relations is the reference.
+    const reviewer = (await User.findByEmail('curator@example.test'))!;
+    const verdict = await Verdict.create({
+      clipId: ids[1]!,
+      curatorId: reviewer.id,
+      decision: 'reject',
+      reason: 'blurred',
+      reasonLabel: 'Out of focus',
+      comment: 'soft all through',
+      bulk: true,
+      at: new Date('2026-03-06T09:30:00.123Z'),
+    });
+    try {
+      const page = await curator.agent.get('/api/clips?pageSize=10').expect(200);
+      expect(page.body.items.map((clip: { id: number }) => clip.id)).toEqual([...ids].reverse());
+      for (const item of page.body.items as { id: number }[]) {
+        expect(JSON.stringify(item)).toBe(JSON.stringify((await findClip(item.id)).toApi()));
+      }
+      const judged = page.body.items.find((clip: { id: number }) => clip.id === ids[1]);
+      expect(judged.verdict).toMatchObject({ decision: 'reject', curatorName: 'Test curator', bulk: true });
+    } finally {
+      await verdict.destroy();
+    }
   });
 });
 

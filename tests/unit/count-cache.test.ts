@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { COUNT_REUSE_MS, noteWrite, reusedCount } from '../../server/core/db/count-cache';
+import { COUNT_REUSE_MS, reusedCount } from '../../server/core/db/count-cache';
+import { noteWrite } from '../../server/core/db/reused-reads';
 
 describe('reused list totals', () => {
   it('counts once for many askers, again after a write of this process or once the reuse time is over', async () => {

@@ -31,11 +31,16 @@ export function utcDay(now = new Date()): string {
  * kind. The store is measured before the one short transaction that writes the results.
  */
 export const reconcileUsage: Handler<'reconcile-usage'> = {
-  async run({ payload }, { store }) {
+  async run({ payload }, { store, signal }) {
+    // A stopping worker gives the job back between its long steps (on 100,000 clips each takes seconds). Records
+    // change only in the closing transaction, which a stop rolls back whole; a stray folder already removed stays
+    // removed, as the next run would remove it anyway.
     const stored = await storedUsageByClip(store);
+    signal.throwIfAborted();
     const clips = await Clip.findAll({
       attributes: ['id', 'storedBytes', 'state', 'sizeBytes', 'predictedDerivedBytes'],
     });
+    signal.throwIfAborted();
     const known = new Set(clips.map((clip) => clip.id));
     // An admission moves the source under the clip's id before its row commits: a folder written to lately may be
     // such a clip, and waits for the next run.
@@ -60,6 +65,7 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
       ...[...stored.others].filter(([name]) => name.startsWith(REMOVING_PREFIX)),
     ];
     for (const [folder, { total: bytes }] of strays) {
+      signal.throwIfAborted();
       drift.strayFolders.push({ folder: `clips/${folder}`, bytes });
       await store.delete(joinKey(objectKeys.clipsDir, folder));
     }
@@ -69,6 +75,7 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
       // Only where nothing recorded a new size since it was read: processing or compaction may have changed the
       // folder and written its size while this job measured, and their figure is the newer one.
       for (const fix of fixes) {
+        signal.throwIfAborted();
         await Clip.update(
           { storedBytes: fix.bytes },
           { where: { id: fix.id, storedBytes: fix.recorded }, transaction, silent: true },

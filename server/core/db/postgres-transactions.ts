@@ -1,7 +1,7 @@
 import { AsyncLocalStorage } from 'node:async_hooks';
 import PQueue from 'p-queue';
 import type { Sequelize, Transaction } from 'sequelize';
-import { noteWrite } from './count-cache';
+import { noteWrite } from './reused-reads';
 import { isWrite } from './write-queue';
 
 /** The advisory lock every managed transaction takes; any fixed number, the same in every Kinefold process. */

@@ -2,7 +2,7 @@ import { AsyncLocalStorage } from 'node:async_hooks';
 import { setTimeout as sleep } from 'node:timers/promises';
 import PQueue from 'p-queue';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import { noteWrite } from './count-cache';
+import { noteWrite } from './reused-reads';
 
 /**
  * How long one statement may let SQLite's busy handler wait inside a libuv pool thread. Kept tiny: a waiting
