@@ -5,6 +5,7 @@
 import { execFile, spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import http from 'node:http';
+import net from 'node:net';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { DEMO_ACCOUNTS } from '../../server/core/people/demo-accounts';
@@ -65,8 +66,23 @@ export interface AppOptions {
   onServerOutput?: (line: string) => void;
 }
 
+/**
+ * A port nothing listens on, chosen by the system (a random one could be taken, or be one of the ports the fetch
+ * standard blocks, such as 3659, which Node's fetch refuses as "bad port").
+ */
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = net.createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const { port } = probe.address() as net.AddressInfo;
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
 export async function startRunningApp(storageDir: string, options: AppOptions = {}): Promise<RunningApp> {
-  const port = 3400 + Math.floor(Math.random() * 500);
+  const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
   const env = {
     ...process.env,
