@@ -11,11 +11,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { performance } from 'node:perf_hooks';
-import {
-  DEFAULT_PICTURE_CACHE_BYTES,
-  pictureCacheStats,
-  setPictureCacheBytes,
-} from '../server/core/clips/made-pictures';
+import { pictureCacheStats, setPictureCacheBytes } from '../server/core/clips/made-pictures';
+import { DEFAULT_PICTURE_CACHE_BYTES } from '../server/core/clips/picture-cache';
 import { MotionField } from '../server/core/models';
 import { addProject, insertClip, makePatternClip } from '../tests/helpers/pipeline-clips';
 import { startTestRuntime } from '../tests/helpers/pipeline-runtime';

@@ -3,11 +3,8 @@ import path from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { reprocessClip } from '../../server/core/clips/clip-media';
-import {
-  DEFAULT_PICTURE_CACHE_BYTES,
-  pictureCacheStats,
-  setPictureCacheBytes,
-} from '../../server/core/clips/made-pictures';
+import { pictureCacheStats, setPictureCacheBytes } from '../../server/core/clips/made-pictures';
+import { DEFAULT_PICTURE_CACHE_BYTES } from '../../server/core/clips/picture-cache';
 import { Clip, MotionField } from '../../server/core/models';
 import { updateProject } from '../../server/core/projects/projects';
 import { addProject, insertClip, makePatternClip } from '../helpers/pipeline-clips';
