@@ -12,15 +12,17 @@ import {
   previewObject,
   reprocessClip,
   thumbnailObject,
-  viewImage,
+  viewPicture,
 } from '../core/clips/clip-media';
-import { motionFieldFile, type MotionFile } from '../core/clips/clip-motion';
+import { motionFieldPicture, type MotionFile } from '../core/clips/clip-motion';
+import type { MadePicture } from '../core/clips/made-pictures';
 import type { ObjectStore, StoredRef } from '../core/storage/object-store';
 import { sendStored } from './send-stored';
 
 /**
  * What processing made of a clip, under /api/clips. Stored files stream with Range support (send-stored.ts);
- * views, .flo files and motion pictures are made when asked and answered whole, with an ETag.
+ * views, .flo files and motion pictures are made when asked (or kept from an earlier asking), with an ETag known
+ * before they are made.
  */
 export function createClipMediaRouter(store: ObjectStore): Router {
   const router = Router();
@@ -51,7 +53,7 @@ function getFrameImage(store: ObjectStore) {
 function getViewImage(store: ObjectStore) {
   return async ({ params }: { params: ViewParam }, req: Request, res: Response) => {
     const { id, index, view } = params;
-    sendMade(req, res, await viewImage(id, index, view, store), 'image/png');
+    await sendMade(req, res, await viewPicture(id, index, view, store), 'image/png');
   };
 }
 
@@ -59,11 +61,11 @@ function getViewImage(store: ObjectStore) {
 function getMotion(store: ObjectStore, file: MotionFile) {
   return async ({ params }: { params: FrameParam }, req: Request, res: Response) => {
     const { id, index } = params;
-    const bytes = await motionFieldFile(id, index, file, store);
-    if (file === 'picture') return sendMade(req, res, bytes, 'image/png');
+    const made = await motionFieldPicture(id, index, file, store);
+    if (file === 'picture') return sendMade(req, res, made, 'image/png');
     // .flo has no registered media type; a download name saves scripts from guessing one.
     res.set('Content-Disposition', `attachment; filename="clip-${id}-motion-${index}.flo"`);
-    sendMade(req, res, bytes, 'application/octet-stream');
+    await sendMade(req, res, made, 'application/octet-stream');
   };
 }
 
@@ -92,11 +94,16 @@ async function postReprocess(
 }
 
 /**
- * A file made for this request: express's ETag lets a browser that has it already get a 304, and one byte range
- * (a resumed download) is answered 206 as sendFile would; several ranges get the whole file.
+ * A made file: a browser whose copy has the ETag gets a 304 before anything is made; one byte range (a resumed
+ * download) is answered 206 as sendFile would; several ranges get the whole file.
  */
-function sendMade(req: Request, res: Response, bytes: Buffer, type: string): void {
-  res.set({ 'Cache-Control': 'private, no-cache', 'Accept-Ranges': 'bytes' }).type(type);
+async function sendMade(req: Request, res: Response, made: MadePicture, type: string): Promise<void> {
+  res.set({ 'Cache-Control': 'private, no-cache', 'Accept-Ranges': 'bytes', ETag: made.etag }).type(type);
+  if (req.fresh) {
+    res.status(HttpStatus.NOT_MODIFIED).end();
+    return;
+  }
+  const bytes = await made.bytes();
   const ranges = req.headers.range ? req.range(bytes.length) : undefined;
   if (ranges === -1) {
     res.status(HttpStatus.RANGE_NOT_SATISFIABLE).set('Content-Range', `bytes */${bytes.length}`).end();

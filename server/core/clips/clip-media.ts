@@ -10,12 +10,14 @@ import type { ObjectStore, StoredRef } from '../storage/object-store';
 import { objectKeys } from '../storage/paths';
 import { recordAudit } from '../audit/audit';
 import { enqueueJob } from '../jobs/enqueue';
+import { madePicture, processingStamp, type MadePicture } from './made-pictures';
 
 /**
  * What processing made of a clip (frames, signals, views, preview, thumbnail, progress) and starting it again.
  * Motion field files: clip-motion.ts.
  * Stored files are answered as object keys for the route to stream; a key is always built from ids (storage/paths.ts).
- * Views are derived from the frame for each request (media/frame-views.ts) and answered as bytes.
+ * Views are derived from the frame when asked (media/frame-views.ts), known by an ETag before they are made and
+ * kept in memory a while (made-pictures.ts).
  */
 
 /** Frames with the summary of the forward motion field from each, and the scale of the clip's motion pictures. */
@@ -34,16 +36,31 @@ export async function listFrames(clipId: number): Promise<ClipFrameList> {
 }
 
 export async function frameObject(clipId: number, index: number): Promise<StoredRef> {
-  const clip = await existingFrame(clipId, index);
+  return frameRef(await existingFrame(clipId, index), index);
+}
+
+function frameRef(clip: Clip, index: number): StoredRef {
   return {
-    key: objectKeys.clipDerived(clipId, clip.derivedFormat).frame(index),
-    what: `Frame ${index} of clip ${clipId}`,
+    key: objectKeys.clipDerived(clip.id, clip.derivedFormat).frame(index),
+    what: `Frame ${index} of clip ${clip.id}`,
   };
 }
 
 /** The luma or chroma view of a frame as PNG, derived from the stored frame. */
+export async function viewPicture(
+  clipId: number,
+  index: number,
+  view: FrameView,
+  store: ObjectStore,
+): Promise<MadePicture> {
+  const clip = await existingFrame(clipId, index);
+  return madePicture(['view', clipId, index, view, processingStamp(clip)], async () =>
+    viewPng(await storedBytes(store, frameRef(clip, index)), view),
+  );
+}
+
 export async function viewImage(clipId: number, index: number, view: FrameView, store: ObjectStore): Promise<Buffer> {
-  return viewPng(await storedBytes(store, await frameObject(clipId, index)), view);
+  return (await viewPicture(clipId, index, view, store)).bytes();
 }
 
 export async function thumbnailObject(clipId: number): Promise<StoredRef> {

@@ -4,25 +4,46 @@ import { encodeFlo } from '../../../shared/motion/formats/flo';
 import { clipMotionScale } from '../../../shared/motion/motion-scale';
 import { AppError, notFound } from '../errors';
 import { motionPicturePng, readStoredField } from '../media/stored-field';
-import { Frame, MotionField } from '../models';
+import { Frame, MotionField, type Clip } from '../models';
 import type { ObjectStore, StoredRef } from '../storage/object-store';
 import { objectKeys } from '../storage/paths';
 import { existingClip, storedBytes } from './clip-media';
+import { madePicture, processingStamp, rememberedScale, type MadePicture } from './made-pictures';
 
 /** A stored forward motion field as a file: its colour picture (PNG) or the field itself (Middlebury .flo). */
 export type MotionFile = 'picture' | 'flo';
 
 /**
  * The forward field from frame `index` to `index` + 1 as a Middlebury .flo or as its colour picture, both made
- * from the stored field when asked. The picture uses the clip's motion scale (the one the frame list reports), so
- * pictures compare within the clip. Where no field can exist, the 404 says why: the frame is the clip's last, or a
- * cut follows it (no field spans a cut); or the fields are not made yet.
+ * from the stored field when asked and known by an ETag before (made-pictures.ts). The picture uses the clip's
+ * motion scale (the one the frame list reports, worked out once per processing of the clip), so pictures compare
+ * within the clip. Where no field can exist, the 404 says why: the frame is the clip's last, or a cut follows it
+ * (no field spans a cut); or the fields are not made yet.
  */
+export async function motionFieldPicture(
+  clipId: number,
+  index: number,
+  file: MotionFile,
+  store: ObjectStore,
+): Promise<MadePicture> {
+  const clip = await existingClip(clipId);
+  const stored = await storedFieldObject(clip, index);
+  const stamp = processingStamp(clip);
+  const field = async () => readStoredField(await storedBytes(store, stored), stored.key);
+  if (file === 'flo') {
+    // A .flo is 8 bytes a pixel and rarely asked twice: known by its ETag, not kept.
+    const flo = async () => {
+      const { flow, width, height } = await field();
+      return Buffer.from(encodeFlo(flow, width, height));
+    };
+    return madePicture(['flo', clipId, index, stamp], flo, { keep: false });
+  }
+  const scale = await rememberedScale(clipId, stamp, () => clipMotionScalePx(clipId));
+  return madePicture(['motion', clipId, index, stamp, scale], async () => motionPicturePng(await field(), scale));
+}
+
 export async function motionFieldFile(clipId: number, index: number, file: MotionFile, store: ObjectStore) {
-  const stored = await storedFieldObject(clipId, index);
-  const field = readStoredField(await storedBytes(store, stored), stored.key);
-  if (file === 'flo') return Buffer.from(encodeFlo(field.flow, field.width, field.height));
-  return motionPicturePng(field, await clipMotionScalePx(clipId));
+  return (await motionFieldPicture(clipId, index, file, store)).bytes();
 }
 
 async function clipMotionScalePx(clipId: number): Promise<number> {
@@ -31,8 +52,8 @@ async function clipMotionScalePx(clipId: number): Promise<number> {
   return clipMotionScale(fields, new Set(cuts.map((frame) => frame.index)))?.pxPerStep ?? 0;
 }
 
-async function storedFieldObject(clipId: number, index: number): Promise<StoredRef> {
-  const clip = await existingClip(clipId);
+async function storedFieldObject(clip: Clip, index: number): Promise<StoredRef> {
+  const clipId = clip.id;
   const frames = await Frame.findAll({
     where: { clipId, index: { [Op.in]: [index, index + 1] } },
     attributes: ['index', 'cutBefore'],
