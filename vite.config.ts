@@ -1,10 +1,20 @@
 import { fileURLToPath, URL } from 'node:url';
-import { defineConfig } from 'vitest/config';
+import { configDefaults, defineConfig } from 'vitest/config';
 import vue from '@vitejs/plugin-vue';
 
 const apiPort = Number(process.env.PORT ?? 3000);
 /** The local PostgreSQL server the `pg` project creates its test databases on (`.ci/run` starts it). */
 const POSTGRES_TEST_URL = 'postgres://postgres@127.0.0.1:5432/test';
+/** Worker suites that never open a database: run once, in `node`, since the `pg` leg would only repeat them. */
+const DATABASE_FREE_WORKER_TESTS = [
+  'critic-demo-footage',
+  'critic-threads',
+  'cut-evaluation',
+  'motion-field-summary',
+  'motion-runs',
+  'motion-scale',
+  'pairset-files',
+].map((name) => `tests/worker/${name}.test.ts`);
 
 export default defineConfig({
   plugins: [vue()],
@@ -31,6 +41,7 @@ export default defineConfig({
           name: 'pg',
           environment: 'node',
           include: ['tests/{api,worker}/**/*.test.ts', 'tests/unit/migrations.test.ts'],
+          exclude: [...configDefaults.exclude, ...DATABASE_FREE_WORKER_TESTS],
           env: { KINEFOLD_TEST_POSTGRES_URL: process.env.KINEFOLD_TEST_POSTGRES_URL ?? POSTGRES_TEST_URL },
           testTimeout: 60_000,
           hookTimeout: 120_000,
