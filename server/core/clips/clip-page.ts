@@ -1,5 +1,5 @@
 import { QueryTypes, type QueryOptionsWithType } from 'sequelize';
-import type { ClipFlagDetail, ClipSummary } from '../../../shared/types/clips';
+import type { ClipFlagDetail, ClipProbe, ClipSummary } from '../../../shared/types/clips';
 import type { ClipVerdict } from '../../../shared/types/review';
 import { storedBoolean, storedIso, storedIsoOrNull, storedJson } from '../db/stored-values';
 import { Clip } from '../models';
@@ -30,7 +30,8 @@ const pageSql = (chosen: string, order: string) => `
 
 type StoredDate = string | Date;
 
-interface PageRow {
+/** A page row as the driver gives it: the probe's fields as stored, the rest in the forms SQLite or PostgreSQL use. */
+interface PageRow extends ClipProbe {
   id: number;
   projectId: number;
   projectName: string | null;
@@ -44,13 +45,6 @@ interface PageRow {
   stage: string | null;
   error: string | null;
   flags: string | string[];
-  container: string;
-  codec: string;
-  durationS: number;
-  fps: number;
-  width: number;
-  height: number;
-  rotation: number;
   hasThumbnail: number | boolean;
   site: string;
   rig: string;
