@@ -10,6 +10,7 @@ const DATABASE_FREE_WORKER_TESTS = [
   'critic-demo-footage',
   'critic-threads',
   'cut-evaluation',
+  'frame-pool-abort',
   'motion-field-summary',
   'motion-runs',
   'motion-scale',

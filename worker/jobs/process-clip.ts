@@ -79,6 +79,8 @@ async function firstStage(stages: readonly PipelineStage[], clipId: number, stag
 
 /** Runs one stage on a freshly loaded clip; false when the clip was deleted meanwhile. */
 async function runStage(stage: PipelineStage, next: PipelineStage | null, clipId: number, context: JobContext) {
+  // A stop or a lost lease between two stages ends the job here, before the next stage begins.
+  context.signal.throwIfAborted();
   const clip = await Clip.findByPk(clipId);
   const project = clip && (await Project.findByPk(clip.projectId));
   if (!clip || !project) return false;

@@ -1,5 +1,10 @@
 import os from 'node:os';
+import PQueue from 'p-queue';
 import { Piscina } from 'piscina';
+// Loaded here, in the thread that owns the pool, so libvips stays loaded while threads come and go: when the last
+// thread holding it ends, glibc would otherwise unload it under libvips' own threads (sharp's documented advice for
+// worker threads).
+import 'sharp';
 import type { CriticOutcome, CriticTask } from './critic-tasks';
 import type { KMeansRunOutcome, KMeansRunTask } from '../diversity/cluster-moments';
 import type { FrameMeasurement, MeasureFrameTask } from './frame-tasks';
@@ -41,16 +46,32 @@ export function createFramePool(threads = os.availableParallelism()): FramePool 
     // cost a thread start and the thread's motion buffers.
     idleTimeout: IDLE_THREAD_MS,
   });
-  // A task aborted (its clip was removed) while its answer was already on the way back comes home to no one; piscina
-  // reports that as an 'error' event, which without a listener would end the whole worker process.
+  // Piscina reports a thread's stray message as an 'error' event, which without a listener would end the process.
   pool.on('error', (error: Error) => console.warn(`Kinefold worker: frame pool: ${error.message.split('\n')[0]}`));
+  // Tasks wait here, at most one per thread in flight, rather than in piscina's own queue. Piscina cancels a running
+  // task by terminating its thread, which may be inside libvips or halfway through writing a field file; here an
+  // aborted task that has not started is dropped, and one that has started runs to its end and its answer is
+  // dropped, so a caller that waits for its tasks to settle knows that no thread still works for it.
+  const waiting = new PQueue({ concurrency: maxThreads });
+  const closing = new AbortController();
+  const run = <T>(task: object, signal?: AbortSignal): Promise<T> =>
+    waiting.add(() => {
+      closing.signal.throwIfAborted();
+      signal?.throwIfAborted();
+      return pool.run(task) as Promise<T>;
+    });
   return {
-    measureFrame: (task, signal) => pool.run({ kind: 'measure', ...task }, { signal }),
-    estimateMotionRun: (task, signal) => pool.run({ kind: 'motion-run', ...task }, { signal }),
-    measureCutPairs: (task, signal) => pool.run({ kind: 'cut-pairs', ...task }, { signal }),
-    trainCritic: (task, signal) => pool.run({ kind: 'critic', ...task }, { signal }),
-    runKMeans: (task, signal) => pool.run({ kind: 'kmeans-run', ...task }, { signal }),
+    measureFrame: (task, signal) => run({ kind: 'measure', ...task }, signal),
+    estimateMotionRun: (task, signal) => run({ kind: 'motion-run', ...task }, signal),
+    measureCutPairs: (task, signal) => run({ kind: 'cut-pairs', ...task }, signal),
+    trainCritic: (task, signal) => run({ kind: 'critic', ...task }, signal),
+    runKMeans: (task, signal) => run({ kind: 'kmeans-run', ...task }, signal),
     threads: maxThreads,
-    destroy: () => pool.destroy(),
+    async destroy() {
+      // Threads end only once idle: the tasks not started fail at once, the running ones finish.
+      closing.abort(new Error('The frame pool was closed.'));
+      await waiting.onIdle();
+      await pool.destroy();
+    },
   };
 }
