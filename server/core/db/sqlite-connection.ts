@@ -2,13 +2,15 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { Sequelize, Transaction } from 'sequelize';
 import type { Database } from 'sqlite3';
+import { readOnReaderConnections } from './read-connections';
 import { POOL_BUSY_WAIT_MS, queueWrites } from './write-queue';
 
 /**
  * Opens the SQLite database that server and worker processes share (DESIGN §4):
  * WAL so readers never wait for the writer, foreign keys on, a short busy_timeout on every connection,
  * IMMEDIATE transactions so a writer takes the write lock up front instead of failing on upgrade, and writes
- * that take turns in the process and wait for other processes on timers (write-queue.ts).
+ * that take turns in the process and wait for other processes on timers (write-queue.ts), and plain reads spread
+ * over connections of their own (read-connections.ts).
  */
 export async function openSqliteDatabase(file: string): Promise<Sequelize> {
   fs.mkdirSync(path.dirname(file), { recursive: true });
@@ -21,6 +23,7 @@ export async function openSqliteDatabase(file: string): Promise<Sequelize> {
   });
   configureEveryConnection(sequelize);
   queueWrites(sequelize);
+  readOnReaderConnections(sequelize);
   await sequelize.query('PRAGMA journal_mode = WAL');
   await sequelize.query('PRAGMA synchronous = NORMAL');
   return sequelize;
