@@ -3,11 +3,14 @@ import { CLAIM_MINUTES } from '../../shared/review/rules';
 import type { ClipClaim } from '../../shared/types/review';
 import { ApiError } from '../api/http';
 import { claimClip, releaseClaim } from '../api/review';
+import { afterPaint } from '../util/after-paint';
 
 const CHECK_EVERY_MS = 60_000;
 /** Renew once less than this is left, so a claim never lapses between two checks. */
 const RENEW_WHEN_LEFT_MS = 10 * 60_000;
 const MINUTE_MS = 60_000;
+/** The claim waits this long once the clip is drawn, so its request does not compete with showing the clip. */
+const CLAIM_AFTER_MS = 250;
 /** What counts as working on the clip. */
 const ACTIVITY = ['keydown', 'pointerdown', 'scroll'] as const;
 
@@ -33,7 +36,8 @@ export function useReviewClaim(clipId: Ref<number>) {
 
   function take(): Promise<void> {
     const id = clipId.value;
-    const entry = { clipId: id, taken: claimClip(id), handedOver: false };
+    // Asked for once the clip has been shown: a decision given meanwhile waits for this answer all the same.
+    const entry = { clipId: id, taken: afterPaint(CLAIM_AFTER_MS).then(() => claimClip(id)), handedOver: false };
     attempt = entry;
     claiming.value = claim.value === null;
     return entry.taken.then(

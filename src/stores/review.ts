@@ -90,6 +90,11 @@ export const useReviewStore = defineStore('review', () => {
     for (const old of ahead.keys()) if (ahead.size > AHEAD_AT_MOST) ahead.delete(old);
   }
 
+  /** The evidence being fetched ahead for a clip, left for evidenceOf; null when none is. */
+  function aheadOf(clipId: number): Promise<ClipEvidence> | null {
+    return ahead.get(clipId)?.evidence ?? null;
+  }
+
   /** The evidence of a clip: what was fetched ahead when there is some (used once), else fetched now. */
   function evidenceOf(clipId: number): Promise<ClipEvidence> {
     const entry = ahead.get(clipId);
@@ -194,6 +199,7 @@ export const useReviewStore = defineStore('review', () => {
     pass,
     offerable,
     fetchAhead,
+    aheadOf,
     evidenceOf,
     nextAfter,
     lookAhead,

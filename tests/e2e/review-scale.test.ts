@@ -265,8 +265,8 @@ describe('a duplicate side by side', () => {
     await screenshot(page, 'review-duplicate-compare');
     await page.click('[data-test="reject-duplicate"]');
     await page.waitForURL((url) => !url.pathname.endsWith(`/review/${copyId}`));
-    const rejected = (await Clip.findByPk(copyId))!;
-    expect(rejected.state).toBe('rejected');
+    // The verdict is sent behind the next clip, so it is recorded shortly after the screen moves on.
+    await expect.poll(async () => (await Clip.findByPk(copyId))!.state).toBe('rejected');
     const verdict = await Verdict.findOne({ where: { clipId: copyId, supersededAt: null } });
     expect([verdict!.reason, verdict!.comment]).toEqual([
       'duplicate',

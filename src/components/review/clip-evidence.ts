@@ -31,8 +31,8 @@ export async function fetchClipEvidence(clipId: number): Promise<ClipEvidence> {
 }
 
 /**
- * The pictures the review screen shows first for a clip, fetched by the browser ahead of time: a document reuses
- * an image it has already loaded, so moving on to the clip shows them at once.
+ * The pictures the review screen shows first for a clip, fetched and decoded by the browser ahead of time: a
+ * document reuses an image it has already loaded, so moving on to the clip shows them at once.
  */
 export function warmPictures(evidence: ClipEvidence): HTMLImageElement[] {
   const { detail, frames, deltas } = evidence;
@@ -46,10 +46,12 @@ export function warmPictures(evidence: ClipEvidence): HTMLImageElement[] {
       if (frame.motion) urls.push(clipMediaUrl.motion(detail.id, frame.index));
     }
   }
-  // Kept by the caller until the clip is shown, so the browser does not drop them half-loaded.
+  // Kept by the caller until the clip is shown, so the browser does not drop them half-loaded. Decoded now too:
+  // otherwise the browser decodes them all while drawing the clip, and the curator waits for it.
   return [...new Set(urls)].map((url) => {
     const image = new Image();
     image.src = url;
+    image.decode().catch(() => undefined);
     return image;
   });
 }
