@@ -53,6 +53,11 @@ export const useReviewStore = defineStore('review', () => {
   const ahead = new Map<number, { evidence: Promise<ClipEvidence>; pictures: HTMLImageElement[] }>();
   /** "Next" looked up ahead, by the clip it follows and the queue's filter and order. */
   const nextLookups = new Map<string, Promise<number | null>>();
+  // A verdict is sent a moment after it is given, behind the next clip: closing or reloading the tab meanwhile
+  // would lose it, so the browser asks the curator first.
+  window.addEventListener('beforeunload', (event) => {
+    if (sending.value.length > 0) event.preventDefault();
+  });
 
   function visit(clipId: number): void {
     if (trail.value.at(-1) !== clipId) trail.value.push(clipId);

@@ -57,6 +57,22 @@ describe('the review store: verdicts sent behind the screen', () => {
     expect(review.refused).toEqual([]);
   });
 
+  it('asks before the tab closes while a verdict is still to be sent, and not after', async () => {
+    stubApi(() => jsonResponse(200, decidedClip(8, 80)));
+    const review = useReviewStore();
+    const leaving = () => {
+      const event = new Event('beforeunload', { cancelable: true });
+      window.dispatchEvent(event);
+      return event.defaultPrevented;
+    };
+    let holdClaim!: () => void;
+    review.give(accept(8), new Promise<void>((resolve) => (holdClaim = resolve)));
+    expect(leaving()).toBe(true);
+    holdClaim();
+    await review.settled();
+    expect(leaving()).toBe(false);
+  });
+
   it('sends verdicts one after the other, so the one to undo is the last given', async () => {
     let answerFirst!: () => void;
     const firstAnswered = new Promise<void>((resolve) => (answerFirst = resolve));
