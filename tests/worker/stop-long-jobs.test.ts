@@ -1,6 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { enqueueJob } from '../../server/core/jobs/enqueue';
+import fs from 'node:fs';
+import path from 'node:path';
 import { Clip, Job, UsageSnapshot } from '../../server/core/models';
+import { storagePaths } from '../../server/core/storage/paths';
 import { createObjectStore } from '../../server/core/storage/open-store';
 import type { ObjectStore } from '../../server/core/storage/object-store';
 import { ShutdownError } from '../../worker/jobs/job-errors';
@@ -127,5 +130,41 @@ describe('a stopping worker', () => {
     expect(await UsageSnapshot.count()).toBe(0);
     // Every clip keeps the bytes recorded for it, though the store holds none of them.
     expect(await Clip.count({ where: { storedBytes: RECORDED_BYTES } })).toBe(await Clip.count());
+  });
+});
+
+describe('reconcile-usage beside a job that records a clip size', () => {
+  it('leaves a size recorded while it measured, instead of writing its older measurement over it', async () => {
+    const [clip] = await Clip.findAll({ limit: 1, order: [['id', 'ASC']] });
+    await clip!.update({ storedBytes: 500 });
+    const file = path.join(storagePaths(server.storageDir).clipDir(clip!.id), 'frames', '000000.webp');
+    fs.mkdirSync(path.dirname(file), { recursive: true });
+    fs.writeFileSync(file, Buffer.alloc(1000));
+    const storage = workerStorage(server.config, createObjectStore(server.config));
+    const store: ObjectStore = {
+      ...storage.store,
+      // Compaction finishes the clip just after the listing: smaller files, and their size recorded.
+      list: async (prefix) => {
+        const objects = await storage.store.list(prefix);
+        fs.writeFileSync(file, Buffer.alloc(800));
+        await Clip.update({ storedBytes: 800 }, { where: { id: clip!.id } });
+        return objects;
+      },
+    };
+    const job = await Clip.sequelize!.transaction((transaction) =>
+      enqueueJob('reconcile-usage', { reason: 'scheduled' }, { transaction }),
+    );
+    await reconcileUsage.run(
+      { job, payload: { reason: 'scheduled' } },
+      {
+        ...storage,
+        store,
+        config: server.config,
+        pool: worker.pool,
+        lease: { jobId: job.id, owner: 'test-worker' },
+        signal: new AbortController().signal,
+      },
+    );
+    expect(Number((await clip!.reload()).storedBytes)).toBe(800);
   });
 });

@@ -35,11 +35,15 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
     // A stopping worker gives the job back between its long steps (on 100,000 clips each takes seconds). Records
     // change only in the closing transaction, which a stop rolls back whole; a stray folder already removed stays
     // removed, as the next run would remove it anyway.
-    const stored = await storedUsageByClip(store);
-    signal.throwIfAborted();
+    // The rows are read before the store is measured. A size that processing or compaction records after this read
+    // no longer matches the figure read here, so the closing write leaves it alone; one recorded before the read
+    // is older than the measurement. Read after measuring, a size recorded in between was overwritten with a
+    // measurement of the folder mid-change (the compaction test once found a converted clip at 0 bytes).
     const clips = await Clip.findAll({
       attributes: ['id', 'storedBytes', 'state', 'sizeBytes', 'predictedDerivedBytes'],
     });
+    signal.throwIfAborted();
+    const stored = await storedUsageByClip(store);
     signal.throwIfAborted();
     const known = new Set(clips.map((clip) => clip.id));
     // An admission moves the source under the clip's id before its row commits: a folder written to lately may be
@@ -72,8 +76,8 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
     byKind.pairsets = await store.size(objectKeys.pairsetsDir);
     const totalBytes = Object.values(byKind).reduce((sum, bytes) => sum + bytes, 0);
     await Clip.sequelize!.transaction(async (transaction) => {
-      // Only where nothing recorded a new size since it was read: processing or compaction may have changed the
-      // folder and written its size while this job measured, and their figure is the newer one.
+      // Only where nothing recorded a new size since the rows were read: processing or compaction may have changed
+      // the folder and written its size while this job measured, and their figure is the newer one.
       for (const fix of fixes) {
         signal.throwIfAborted();
         await Clip.update(
