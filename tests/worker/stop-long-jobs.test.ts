@@ -70,6 +70,36 @@ afterAll(async () => {
   await server.close();
 });
 
+/**
+ * Runs reconcile-usage on the test's storage, with `afterListing` run once the store has been listed (the pass's
+ * first long step), as a stop or another job could land there.
+ */
+async function reconcileWith(afterListing: () => Promise<void>, signal: AbortSignal): Promise<void> {
+  const storage = workerStorage(server.config, createObjectStore(server.config));
+  const store: ObjectStore = {
+    ...storage.store,
+    list: async (prefix) => {
+      const objects = await storage.store.list(prefix);
+      await afterListing();
+      return objects;
+    },
+  };
+  const job = await Clip.sequelize!.transaction((transaction) =>
+    enqueueJob('reconcile-usage', { reason: 'scheduled' }, { transaction }),
+  );
+  await reconcileUsage.run(
+    { job, payload: { reason: 'scheduled' } },
+    {
+      ...storage,
+      store,
+      config: server.config,
+      pool: worker.pool,
+      lease: { jobId: job.id, owner: 'test-worker' },
+      signal,
+    },
+  );
+}
+
 describe('a stopping worker', () => {
   it('gives back a compact-storage job between clips, and the next claim carries on', async () => {
     const job = await Clip.sequelize!.transaction((transaction) =>
@@ -101,31 +131,9 @@ describe('a stopping worker', () => {
 
   it('stops reconcile-usage after its listing of the store, with nothing recorded', async () => {
     await Clip.update({ storedBytes: RECORDED_BYTES }, { where: {} });
-    const storage = workerStorage(server.config, createObjectStore(server.config));
     const controller = new AbortController();
     // The stop arrives while the store is listed, the pass's first long step.
-    const store: ObjectStore = {
-      ...storage.store,
-      list: async (prefix) => {
-        const objects = await storage.store.list(prefix);
-        controller.abort(new ShutdownError());
-        return objects;
-      },
-    };
-    const job = await Clip.sequelize!.transaction((transaction) =>
-      enqueueJob('reconcile-usage', { reason: 'scheduled' }, { transaction }),
-    );
-    const run = reconcileUsage.run(
-      { job, payload: { reason: 'scheduled' } },
-      {
-        ...storage,
-        store,
-        config: server.config,
-        pool: worker.pool,
-        lease: { jobId: job.id, owner: 'test-worker' },
-        signal: controller.signal,
-      },
-    );
+    const run = reconcileWith(async () => controller.abort(new ShutdownError()), controller.signal);
     await expect(run).rejects.toBeInstanceOf(ShutdownError);
     expect(await UsageSnapshot.count()).toBe(0);
     // Every clip keeps the bytes recorded for it, though the store holds none of them.
@@ -140,31 +148,11 @@ describe('reconcile-usage beside a job that records a clip size', () => {
     const file = path.join(storagePaths(server.storageDir).clipDir(clip!.id), 'frames', '000000.webp');
     fs.mkdirSync(path.dirname(file), { recursive: true });
     fs.writeFileSync(file, Buffer.alloc(1000));
-    const storage = workerStorage(server.config, createObjectStore(server.config));
-    const store: ObjectStore = {
-      ...storage.store,
-      // Compaction finishes the clip just after the listing: smaller files, and their size recorded.
-      list: async (prefix) => {
-        const objects = await storage.store.list(prefix);
-        fs.writeFileSync(file, Buffer.alloc(800));
-        await Clip.update({ storedBytes: 800 }, { where: { id: clip!.id } });
-        return objects;
-      },
-    };
-    const job = await Clip.sequelize!.transaction((transaction) =>
-      enqueueJob('reconcile-usage', { reason: 'scheduled' }, { transaction }),
-    );
-    await reconcileUsage.run(
-      { job, payload: { reason: 'scheduled' } },
-      {
-        ...storage,
-        store,
-        config: server.config,
-        pool: worker.pool,
-        lease: { jobId: job.id, owner: 'test-worker' },
-        signal: new AbortController().signal,
-      },
-    );
+    // Compaction finishes the clip just after the listing: smaller files, and their size recorded.
+    await reconcileWith(async () => {
+      fs.writeFileSync(file, Buffer.alloc(800));
+      await Clip.update({ storedBytes: 800 }, { where: { id: clip!.id } });
+    }, new AbortController().signal);
     expect(Number((await clip!.reload()).storedBytes)).toBe(800);
   });
 });
