@@ -18,6 +18,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 import type { Page } from 'playwright-core';
 import { Clip, Frame, MotionField, Project, User, Verdict } from '../server/core/models';
@@ -69,14 +70,17 @@ try {
   console.log(`Seeded ${CLIPS} clips awaiting review (${FULL} with the evidence of clip ${sourceId}).`);
 
   const page = await (await browser.newContext({ viewport: VIEWPORT })).newPage();
+  await page.addInitScript({ path: fileURLToPath(new URL('./review-flow-watch.js', import.meta.url)) });
   await signInThroughForm(page, server.baseUrl, curator.email, curator.password);
   await page.waitForSelector('[data-test="signed-in-user"]');
 
   const queueTimes: number[] = [];
+  const queuePageTimes: number[] = [];
   for (let run = 0; run < 5; run += 1) {
     const started = performance.now();
-    await page.goto(`${server.baseUrl}/review?sort=createdAt`);
-    await page.waitForSelector(`[data-test="queue-open-${ids[0]}"]`);
+    await page.goto(`${server.baseUrl}/review?sort=createdAt`, { waitUntil: 'commit' });
+    // The page's own clock starts at the navigation, so the time it paints the first rows is the page's time.
+    queuePageTimes.push(await paintedWhen(page, `[data-test="queue-open-${ids[0]}"]`));
     queueTimes.push(performance.now() - started);
   }
 
@@ -96,12 +100,12 @@ try {
   await page.click(`[data-test="queue-open-${ids[0]}"]`);
   await fullyShown(page, ids[0]!, 0);
   const waits: number[] = [];
+  const pageWaits: number[] = [];
   for (let n = 0; n < DECIDE; n += 1) {
     await page.waitForTimeout(LOOK_MS);
-    const started = performance.now();
-    await page.keyboard.press('a');
-    await fullyShown(page, ids[n + 1]!, n + 1);
-    waits.push(performance.now() - started);
+    const waited = await pressAndWait(page, 'a', ids[n + 1]!, n + 1);
+    waits.push(waited.driver);
+    pageWaits.push(waited.page);
   }
   // The screen moved on before the server answered: every verdict must still be recorded, none refused.
   await page.waitForFunction(() => !document.querySelector('[data-test="verdicts-sending"]'), undefined, {
@@ -125,12 +129,18 @@ try {
       .join(', ')} on ` + `${os.cpus().length} cores`,
   );
   console.log(
-    `Queue page, ${CLIPS} clips waiting: median ${ms(median(queueTimes))}, worst ` +
-      `${ms(Math.max(...queueTimes))} (goal ≤ 1000 ms)`,
+    `Queue page, ${CLIPS} clips waiting, navigation to the first rows painted (page's clock): median ` +
+      `${ms(median(queuePageTimes))}, worst ${ms(Math.max(...queuePageTimes))} (goal ≤ 1000 ms); as the driver ` +
+      `saw it: median ${ms(median(queueTimes))}, worst ${ms(Math.max(...queueTimes))}`,
   );
   console.log(`Clip page opened afresh (reference): median ${ms(median(reference))}`);
   console.log(
-    `Accept → next clip fully shown, ${DECIDE} clips, each looked at for ${LOOK_MS} ms: total ${ms(sum(waits))} (goal ≤ 2000 ms), median ` +
+    `Accept → next clip fully shown and painted, ${DECIDE} clips, each looked at for ${LOOK_MS} ms (page's clock, ` +
+      `from the key event): total ${ms(sum(pageWaits))} (goal ≤ 2000 ms), median ${ms(median(pageWaits))}, p95 ` +
+      `${ms(p95(pageWaits))}, worst ${ms(Math.max(...pageWaits))}`,
+  );
+  console.log(
+    `… as the driver saw it (with its round trips to the browser): total ${ms(sum(waits))}, median ` +
       `${ms(median(waits))}, p95 ${ms(p95(waits))}, worst ${ms(Math.max(...waits))}; median as a share of the ` +
       `reference: ${(median(waits) / median(reference)).toFixed(2)}; ${recorded} of ${DECIDE} verdicts recorded`,
   );
@@ -155,7 +165,7 @@ async function seedQueue(sourceId: number, projectId: number, uploaderId: number
   for (let n = 0; n < FULL; n += 1) {
     const clip = await Clip.create({
       ...copied,
-      originalName: `bench-row-${n}.mp4`,
+      originalName: clipName(n),
       sha256: reviewClipRow({ projectId, uploaderId }).sha256,
     });
     await Clip.sequelize!.query('UPDATE clips SET createdAt = :at WHERE id = :id', {
@@ -173,34 +183,54 @@ async function seedQueue(sourceId: number, projectId: number, uploaderId: number
   return ids;
 }
 
-/**
- * The clip's page fully shown: its title, every evidence panel (the chart drawn on its canvas, the motion scale's
- * legend), the preview's poster loaded, and every picture in the panels loaded with pixels. Pictures the strip has
- * scrolled out of sight load lazily, so only those in sight count. The claim is not waited for: the screen takes
- * it behind the clip, and a decision given meanwhile is sent once it is held.
- */
+declare global {
+  interface Window {
+    kfClipShown(id: number, name: string): boolean;
+    kfNoteShownAfterPaint(): void;
+    kfArmKey(id: number, name: string): void;
+    /** When the key event happened, on the page's clock (the event's own time stamp). */
+    kfKeyAt?: number;
+    /** When the frame that first showed what the benchmark waited for had been painted, on the page's clock. */
+    kfShownAt?: number;
+  }
+}
+
+/** Waits for `selector` and returns when, on the page's clock (from the navigation), it was first painted. */
+async function paintedWhen(page: Page, selector: string): Promise<number> {
+  await page.waitForFunction((selector) => {
+    if (!document.querySelector(selector)) return false;
+    window.kfShownAt = undefined;
+    window.kfNoteShownAfterPaint();
+    return true;
+  }, selector);
+  await page.waitForFunction(() => window.kfShownAt !== undefined);
+  return page.evaluate(() => window.kfShownAt!);
+}
+
+/** The clip's page fully shown (`kfClipShown` in review-flow-watch.js says what that takes). */
 async function fullyShown(page: Page, id: number, row: number): Promise<void> {
-  await page.waitForFunction(
-    ({ id, name }) => {
-      const screen = document.querySelector(`[data-test="review-clip"][data-clip-id="${id}"]`);
-      if (screen?.querySelector('h1')?.textContent?.trim() !== name) return false;
-      const panels = ['preview', 'flags', 'signals', 'neighbours', 'views', 'frames'];
-      if (!panels.every((panel) => screen.querySelector(`[data-panel="${panel}"]`))) return false;
-      if (!screen.querySelector('[data-panel="signals"] canvas')) return false;
-      if (!screen.querySelector('[data-test="motion-scale"]')) return false;
-      const poster = screen.querySelector<HTMLVideoElement>('[data-test="review-preview"]')?.poster;
-      if (!poster) return false;
-      // A picture the document has loaded is complete at once when asked for again; one still loading is not.
-      const probe = new Image();
-      probe.src = poster;
-      if (!probe.complete || probe.naturalWidth === 0) return false;
-      const strip = screen.querySelector('[data-test="frame-strip"]')!.getBoundingClientRect();
-      const pictures = [...screen.querySelectorAll<HTMLImageElement>('[data-panel] img')].filter((image) => {
-        const box = image.getBoundingClientRect();
-        return !image.closest('[data-test="frame-strip"]') || box.left < strip.right;
-      });
-      return pictures.length > 0 && pictures.every((image) => image.complete && image.naturalWidth > 0);
-    },
-    { id, name: `bench-row-${row}.mp4` },
-  );
+  await page.waitForFunction(({ id, name }) => window.kfClipShown(id, name), { id, name: clipName(row) });
+}
+
+/**
+ * Presses `key` on the clip's page and returns how long the curator waited for clip `id` (row `row` of the queue)
+ * to be fully shown: from the key event to the end of the frame that showed it, on the page's clock, and as the
+ * driver saw it (with its round trips to the browser).
+ */
+async function pressAndWait(
+  page: Page,
+  key: string,
+  id: number,
+  row: number,
+): Promise<{ page: number; driver: number }> {
+  await page.evaluate(({ id, name }) => window.kfArmKey(id, name), { id, name: clipName(row) });
+  const started = performance.now();
+  await page.keyboard.press(key);
+  await page.waitForFunction(() => window.kfShownAt !== undefined);
+  const driver = performance.now() - started;
+  return { page: await page.evaluate(() => window.kfShownAt! - window.kfKeyAt!), driver };
+}
+
+function clipName(row: number): string {
+  return `bench-row-${row}.mp4`;
 }
