@@ -101,11 +101,15 @@ try {
   await fullyShown(page, ids[0]!, 0);
   const waits: number[] = [];
   const pageWaits: number[] = [];
+  const timerWaits: number[] = [];
+  let reportedByBrowser = 0;
   for (let n = 0; n < DECIDE; n += 1) {
     await page.waitForTimeout(LOOK_MS);
     const waited = await pressAndWait(page, 'a', ids[n + 1]!, n + 1);
     waits.push(waited.driver);
     pageWaits.push(waited.page);
+    timerWaits.push(waited.byTimer);
+    if (waited.byBrowser !== null) reportedByBrowser += 1;
   }
   // The screen moved on before the server answered: every verdict must still be recorded, none refused.
   await page.waitForFunction(() => !document.querySelector('[data-test="verdicts-sending"]'), undefined, {
@@ -135,9 +139,14 @@ try {
   );
   console.log(`Clip page opened afresh (reference): median ${ms(median(reference))}`);
   console.log(
-    `Accept → next clip fully shown and painted, ${DECIDE} clips, each looked at for ${LOOK_MS} ms (page's clock, ` +
-      `from the key event): total ${ms(sum(pageWaits))} (goal ≤ 2000 ms), median ${ms(median(pageWaits))}, p95 ` +
+    `Accept → next clip fully shown on screen, ${DECIDE} clips, each looked at for ${LOOK_MS} ms (page's clock, ` +
+      `from the key event; the browser's key-to-screen time for ${reportedByBrowser} of them, the timer's for the ` +
+      `rest): total ${ms(sum(pageWaits))} (goal ≤ 2000 ms), median ${ms(median(pageWaits))}, p95 ` +
       `${ms(p95(pageWaits))}, worst ${ms(Math.max(...pageWaits))}`,
+  );
+  console.log(
+    `… to the task run after the frame that showed it (timer): total ${ms(sum(timerWaits))}, median ` +
+      `${ms(median(timerWaits))}, p95 ${ms(p95(timerWaits))}, worst ${ms(Math.max(...timerWaits))}`,
   );
   console.log(
     `… as the driver saw it (with its round trips to the browser): total ${ms(sum(waits))}, median ` +
@@ -188,6 +197,7 @@ declare global {
     kfClipShown(id: number, name: string): boolean;
     kfNoteShownAfterPaint(): void;
     kfArmKey(id: number, name: string): void;
+    kfKeyWait(): Promise<{ wait: number; byTimer: number; byBrowser: number | null }>;
     /** When the key event happened, on the page's clock (the event's own time stamp). */
     kfKeyAt?: number;
     /** When the frame that first showed what the benchmark waited for had been painted, on the page's clock. */
@@ -222,13 +232,14 @@ async function pressAndWait(
   key: string,
   id: number,
   row: number,
-): Promise<{ page: number; driver: number }> {
+): Promise<{ page: number; byTimer: number; byBrowser: number | null; driver: number }> {
   await page.evaluate(({ id, name }) => window.kfArmKey(id, name), { id, name: clipName(row) });
   const started = performance.now();
   await page.keyboard.press(key);
   await page.waitForFunction(() => window.kfShownAt !== undefined);
   const driver = performance.now() - started;
-  return { page: await page.evaluate(() => window.kfShownAt! - window.kfKeyAt!), driver };
+  const { wait, byTimer, byBrowser } = await page.evaluate(() => window.kfKeyWait());
+  return { page: wait, byTimer, byBrowser, driver };
 }
 
 function clipName(row: number): string {
