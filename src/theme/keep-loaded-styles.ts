@@ -24,9 +24,8 @@ function forgetIfBaseSheetMissing(): void {
  * style sheet, so the whole page's style is worked out again at the next frame. The review screen paid that on
  * every clip it showed, and the queue page on every row.
  *
- * Now a mount forgets them only when the base sheet is missing from the page.
- * Kinefold sets its theme once, at start-up; when a theme does change (PrimeVue's `theme:change` event), the whole
- * set is forgotten. This listener is added before any component registers its own, so it runs first and the
+ * Now a mount forgets them only when the base sheet is missing from the page. Kinefold sets its theme once, at
+ * start-up; when a theme does change (PrimeVue's `theme:change` event), the whole set is forgotten. This listener is added before any component registers its own, so it runs first and the
  * components then write their sheets again, as PrimeVue intends.
  */
 export const keepLoadedStyles: Plugin = {
