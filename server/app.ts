@@ -59,6 +59,9 @@ export function createApp(context: AppContext): KinefoldApp {
       },
     }),
   );
+  // The built client's files come before sessions: they are the same for everyone, so reading the session and the
+  // user from the database for each of the ~30 files a page loads was work for nothing.
+  if (context.clientDir) serveClientFiles(app, context.clientDir);
   app.use(express.json({ limit: '1mb' }));
   app.use(cookieParser());
   app.use(sessions.middleware);
@@ -82,16 +85,25 @@ export function createApp(context: AppContext): KinefoldApp {
       config,
     }),
   );
-  if (context.clientDir) serveClient(app, context.clientDir);
+  if (context.clientDir) serveClientPage(app, context.clientDir);
   app.use(errorHandler);
   return { app, close: sessions.stop };
 }
 
-/** Serves the built Vue client and sends index.html for any other path so the client's router can take over. */
-function serveClient(app: Express, clientDir: string): void {
+/**
+ * The built client's files. Vite names everything under assets/ by a hash of its content, so those never change
+ * under their name and a browser may keep them for a year without asking again; other files (the icon) an hour.
+ */
+function serveClientFiles(app: Express, clientDir: string): void {
+  if (!fs.existsSync(path.join(clientDir, 'index.html'))) return;
+  app.use('/assets', express.static(path.join(clientDir, 'assets'), { index: false, immutable: true, maxAge: '1y' }));
+  app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+}
+
+/** index.html for any other path, so the client's router takes over; asked again each time (no-cache). */
+function serveClientPage(app: Express, clientDir: string): void {
   const indexFile = path.join(clientDir, 'index.html');
   if (!fs.existsSync(indexFile)) return;
-  app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
   app.get('/{*rest}', (_req, res) => {
     res.setHeader('Cache-Control', 'no-cache');
     res.sendFile(indexFile);

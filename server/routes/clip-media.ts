@@ -1,6 +1,13 @@
 import { Router, type Request, type Response } from 'express';
 import { HttpStatus } from '../../shared/http-status';
-import { frameParamSchema, viewParamSchema, type FrameParam, type ViewParam } from '../../shared/schemas/clip-media';
+import {
+  frameParamSchema,
+  pictureHeightQuerySchema,
+  viewParamSchema,
+  type FrameParam,
+  type PictureHeightQuery,
+  type ViewParam,
+} from '../../shared/schemas/clip-media';
 import { idParamSchema, type IdParam } from '../../shared/schemas/params';
 import type { ClipFrameList, ClipProgress } from '../../shared/types/frames';
 import { currentUser, requireRole, requireSignIn } from '../middlewares/auth';
@@ -11,11 +18,12 @@ import {
   listFrames,
   previewObject,
   reprocessClip,
+  shrunkFramePicture,
   thumbnailObject,
   viewPicture,
 } from '../core/clips/clip-media';
-import { motionFieldPicture, type MotionFile } from '../core/clips/clip-motion';
-import type { MadePicture } from '../core/clips/made-pictures';
+import { motionFieldPicture } from '../core/clips/clip-motion';
+import { shrunkPicture, type MadePicture } from '../core/clips/made-pictures';
 import type { ObjectStore, StoredRef } from '../core/storage/object-store';
 import { sendStored } from './send-stored';
 
@@ -28,10 +36,11 @@ export function createClipMediaRouter(store: ObjectStore): Router {
   const router = Router();
   const byId = { params: idParamSchema };
   router.get('/:id/frames', requireSignIn, validated(byId, getFrames));
-  router.get('/:id/frames/:index', requireSignIn, validated({ params: frameParamSchema }, getFrameImage(store)));
+  const picture = { params: frameParamSchema, query: pictureHeightQuerySchema };
+  router.get('/:id/frames/:index', requireSignIn, validated(picture, getFrameImage(store)));
   router.get('/:id/views/:index/:view', requireSignIn, validated({ params: viewParamSchema }, getViewImage(store)));
-  router.get('/:id/motion/:index', requireSignIn, validated({ params: frameParamSchema }, getMotion(store, 'picture')));
-  router.get('/:id/motion/:index/flo', requireSignIn, validated({ params: frameParamSchema }, getMotion(store, 'flo')));
+  router.get('/:id/motion/:index', requireSignIn, validated(picture, getMotionPicture(store)));
+  router.get('/:id/motion/:index/flo', requireSignIn, validated({ params: frameParamSchema }, getMotionFlo(store)));
   router.get('/:id/thumbnail', requireSignIn, validated(byId, getThumbnail(store)));
   router.get('/:id/preview', requireSignIn, validated(byId, getPreview(store)));
   router.get('/:id/progress', requireSignIn, validated(byId, getProgress));
@@ -43,9 +52,11 @@ async function getFrames({ params }: { params: IdParam }, _req: Request, res: Re
   res.json(await listFrames(params.id));
 }
 
+/** The frame as stored, or with `?height=` shrunk for the frame strip. */
 function getFrameImage(store: ObjectStore) {
-  return async ({ params }: { params: FrameParam }, req: Request, res: Response) => {
+  return async ({ params, query }: { params: FrameParam; query: PictureHeightQuery }, req: Request, res: Response) => {
     const { id, index } = params;
+    if (query.height) return sendMade(req, res, await shrunkFramePicture(id, index, query.height, store), 'image/webp');
     await sendDerived(req, res, store, await frameObject(id, index));
   };
 }
@@ -57,12 +68,20 @@ function getViewImage(store: ObjectStore) {
   };
 }
 
-/** The forward field from frame index to index + 1: its colour picture, or the field as a Middlebury .flo file. */
-function getMotion(store: ObjectStore, file: MotionFile) {
+/** The colour picture of the forward field from frame index to index + 1; with `?height=` shrunk for the strip. */
+function getMotionPicture(store: ObjectStore) {
+  return async ({ params, query }: { params: FrameParam; query: PictureHeightQuery }, req: Request, res: Response) => {
+    const made = await motionFieldPicture(params.id, params.index, 'picture', store);
+    if (query.height) return sendMade(req, res, shrunkPicture(made, query.height), 'image/webp');
+    await sendMade(req, res, made, 'image/png');
+  };
+}
+
+/** The same field as a Middlebury .flo file. */
+function getMotionFlo(store: ObjectStore) {
   return async ({ params }: { params: FrameParam }, req: Request, res: Response) => {
     const { id, index } = params;
-    const made = await motionFieldPicture(id, index, file, store);
-    if (file === 'picture') return sendMade(req, res, made, 'image/png');
+    const made = await motionFieldPicture(id, index, 'flo', store);
     // .flo has no registered media type; a download name saves scripts from guessing one.
     res.set('Content-Disposition', `attachment; filename="clip-${id}-motion-${index}.flo"`);
     await sendMade(req, res, made, 'application/octet-stream');

@@ -130,11 +130,15 @@ describe('GET /api/clips/:id/frames/:index and /views/:index/:view', () => {
 
   it('refuse query fields the address does not take', async () => {
     const { agent } = await curator();
-    for (const url of ['preview?file=../../db/kinefold.sqlite', 'frames/0?size=9999', 'thumbnail?x=1']) {
+    for (const url of ['preview?file=../../db/kinefold.sqlite', 'thumbnail?x=1']) {
       const response = await agent.get(`/api/clips/${processed.id}/${url}`).expect(400);
       expect(response.body.error.code).toBe('invalid_input');
       expect(response.body.error.message).toMatch(/this address takes no query fields/);
     }
+    // A frame takes `height` (the strip's small copies) and nothing else.
+    const frame = await agent.get(`/api/clips/${processed.id}/frames/0?size=9999`).expect(400);
+    expect(frame.body.error.code).toBe('invalid_input');
+    expect(frame.body.error.message).toMatch(/size/);
   });
 
   it('are 404 for a frame the clip does not have', async () => {

@@ -2,6 +2,7 @@ import { Op } from 'sequelize';
 import { HttpStatus } from '../../../shared/http-status';
 import { clipMotionScale } from '../../../shared/motion/motion-scale';
 import type { ClipStage, FrameView } from '../../../shared/pipeline-stages';
+import { shrunkWebp } from '../media/frame-images';
 import { viewPng } from '../media/frame-views';
 import type { ClipFrameList, ClipProgress } from '../../../shared/types/frames';
 import { AppError, conflict, notFound } from '../errors';
@@ -44,6 +45,19 @@ function frameRef(clip: Clip, index: number): StoredRef {
     key: objectKeys.clipDerived(clip.id, clip.derivedFormat).frame(index),
     what: `Frame ${index} of clip ${clip.id}`,
   };
+}
+
+/** The stored frame shrunk to `height` pixels high (WebP), for the frame strip. */
+export async function shrunkFramePicture(
+  clipId: number,
+  index: number,
+  height: number,
+  store: ObjectStore,
+): Promise<MadePicture> {
+  const clip = await existingFrame(clipId, index);
+  return madePicture(['frame', clipId, index, height, processingStamp(clip)], async () =>
+    shrunkWebp(await storedBytes(store, frameRef(clip, index)), height),
+  );
 }
 
 /** The luma or chroma view of a frame as PNG, derived from the stored frame. */

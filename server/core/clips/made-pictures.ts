@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto';
+import { shrunkWebp } from '../media/frame-images';
 import type { Clip } from '../models';
 import { DEFAULT_PICTURE_CACHE_BYTES, PictureCache, type PictureCacheStats } from './picture-cache';
 
@@ -41,6 +42,11 @@ export function madePicture(
     etag: `"${createHash('sha256').update(key).digest('base64url').slice(0, 27)}"`,
     bytes: () => (keep ? pictures.get(key, make) : make()),
   };
+}
+
+/** `picture` shrunk to `height` pixels high (WebP), known by the picture's own ETag and the height. */
+export function shrunkPicture(picture: MadePicture, height: number): MadePicture {
+  return madePicture(['shrunk', picture.etag, height], async () => shrunkWebp(await picture.bytes(), height));
 }
 
 /** The clip's motion scale worked out once per processing stamp (`stamp`) and then remembered. */

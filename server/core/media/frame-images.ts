@@ -62,3 +62,11 @@ export async function writeThumbnail(frameFile: string, file: string): Promise<v
     .jpeg({ quality: THUMBNAIL_QUALITY })
     .toFile(file);
 }
+
+/** Small copies for the frame strip: lossy WebP is a fraction of the bytes and fine at 34–108 pixels high. */
+const SHRUNK_QUALITY = 82;
+
+/** A picture `height` pixels high, its aspect ratio kept (never enlarged), as WebP. */
+export function shrunkWebp(picture: Buffer, height: number): Promise<Buffer> {
+  return sharp(picture).resize({ height, withoutEnlargement: true }).webp({ quality: SHRUNK_QUALITY }).toBuffer();
+}

@@ -4,6 +4,7 @@ import type { ClipFrame } from '../../../shared/types/frames';
 import { clipMediaUrl, listFrames } from '../../api/clip-media';
 import { getClip } from '../../api/clips';
 import { getProject } from '../../api/projects';
+import { stripPictureHeightHere, type StripHeight } from '../clips/strip-pictures';
 
 /** Everything the review screen shows of one clip, fetched in as few round trips as the API allows. */
 export interface ClipEvidence {
@@ -15,6 +16,8 @@ export interface ClipEvidence {
 
 /** Frames of the strip fetched ahead: the ones a 1440 px screen shows before any scrolling. */
 const STRIP_AHEAD = 14;
+/** The review screen draws its frame strip this high, so that the screen fits 1440 × 900. */
+export const REVIEW_STRIP_HEIGHT: StripHeight = 34;
 
 export async function fetchClipEvidence(clipId: number): Promise<ClipEvidence> {
   const detail = await getClip(clipId);
@@ -39,11 +42,15 @@ export function warmPictures(evidence: ClipEvidence): HTMLImageElement[] {
   const urls: string[] = [];
   if (detail.hasThumbnail) urls.push(clipMediaUrl.thumbnail(detail.id));
   if (frames.length > 0) {
-    urls.push(clipMediaUrl.luma(detail.id, 0), clipMediaUrl.chroma(detail.id, 0));
+    // Frame 0 whole, as the neighbours and the views show it, with its neighbours, views and motion picture.
+    urls.push(clipMediaUrl.frame(detail.id, 0), clipMediaUrl.luma(detail.id, 0), clipMediaUrl.chroma(detail.id, 0));
+    if (frames[0]!.motion) urls.push(clipMediaUrl.motion(detail.id, 0));
     for (const delta of deltas) if (delta < frames.length) urls.push(clipMediaUrl.frame(detail.id, delta));
+    // The strip's pictures at the size the strip's srcset picks on this screen.
+    const height = stripPictureHeightHere(REVIEW_STRIP_HEIGHT);
     for (const frame of frames.slice(0, STRIP_AHEAD)) {
-      urls.push(clipMediaUrl.frame(detail.id, frame.index));
-      if (frame.motion) urls.push(clipMediaUrl.motion(detail.id, frame.index));
+      urls.push(clipMediaUrl.frame(detail.id, frame.index, height));
+      if (frame.motion) urls.push(clipMediaUrl.motion(detail.id, frame.index, height));
     }
   }
   // Kept by the caller until the clip is shown, so the browser does not drop them half-loaded. Decoded now too:
