@@ -218,6 +218,18 @@ describe('the queue at 1440 × 900', () => {
     }
   });
 
+  it("asks for the rows' pictures once the rows are on screen, in boxes that keep their size", async () => {
+    await page.goto(`${server.baseUrl}/review`);
+    const thumbnail = page.locator(`[data-test="queue-open-${processedId}"] [data-test="queue-thumbnail"]`);
+    await thumbnail.waitFor();
+    expect(await thumbnail.boundingBox()).toMatchObject({ width: 48, height: 27 });
+    await expect.poll(() => thumbnail.getAttribute('src')).toBe(`/api/clips/${processedId}/thumbnail`);
+    await expect
+      .poll(() => thumbnail.evaluate((image: HTMLImageElement) => image.complete && image.naturalWidth > 0))
+      .toBe(true);
+    expect(await thumbnail.boundingBox()).toMatchObject({ width: 48, height: 27 });
+  });
+
   it('pins the selection bar in view when a row near the bottom is picked', async () => {
     await page.goto(`${server.baseUrl}/review`);
     await page.waitForSelector(`[data-test="queue-open-${processedId}"]`);
