@@ -48,28 +48,29 @@ function frameRef(clip: Clip, index: number): StoredRef {
 }
 
 /** The stored frame shrunk to `height` pixels high (WebP), for the frame strip. */
-export async function shrunkFramePicture(
-  clipId: number,
-  index: number,
-  height: number,
-  store: ObjectStore,
-): Promise<MadePicture> {
-  const clip = await existingFrame(clipId, index);
-  return madePicture(['frame', clipId, index, height, processingStamp(clip)], async () =>
-    shrunkWebp(await storedBytes(store, frameRef(clip, index)), height),
-  );
+export function shrunkFramePicture(clipId: number, index: number, height: number, store: ObjectStore) {
+  return madeFromFrame(clipId, index, store, ['frame', height], (frame) => shrunkWebp(frame, height));
 }
 
 /** The luma or chroma view of a frame as PNG, derived from the stored frame. */
-export async function viewPicture(
+export function viewPicture(clipId: number, index: number, view: FrameView, store: ObjectStore) {
+  return madeFromFrame(clipId, index, store, ['view', view], (frame) => viewPng(frame, view));
+}
+
+/**
+ * A picture made from a stored frame, known by `what` (it must name everything `make` depends on) with the clip,
+ * the frame and the clip's processing stamp.
+ */
+async function madeFromFrame(
   clipId: number,
   index: number,
-  view: FrameView,
   store: ObjectStore,
+  [kind, variant]: [string, string | number],
+  make: (frame: Buffer) => Promise<Buffer>,
 ): Promise<MadePicture> {
   const clip = await existingFrame(clipId, index);
-  return madePicture(['view', clipId, index, view, processingStamp(clip)], async () =>
-    viewPng(await storedBytes(store, frameRef(clip, index)), view),
+  return madePicture([kind, clipId, index, variant, processingStamp(clip)], async () =>
+    make(await storedBytes(store, frameRef(clip, index))),
   );
 }
 

@@ -46,7 +46,7 @@ export function warmPictures(evidence: ClipEvidence): HTMLImageElement[] {
     urls.push(clipMediaUrl.frame(detail.id, 0), clipMediaUrl.luma(detail.id, 0), clipMediaUrl.chroma(detail.id, 0));
     if (frames[0]!.motion) urls.push(clipMediaUrl.motion(detail.id, 0));
     for (const delta of deltas) if (delta < frames.length) urls.push(clipMediaUrl.frame(detail.id, delta));
-    // The strip's pictures at the size the strip's srcset picks on this screen.
+    // The strip's pictures at the height the strip asks for on this screen (ClipFrameStrip.vue).
     const height = stripPictureHeightHere(REVIEW_STRIP_HEIGHT);
     for (const frame of frames.slice(0, STRIP_AHEAD)) {
       urls.push(clipMediaUrl.frame(detail.id, frame.index, height));
