@@ -37,8 +37,8 @@ export const reconcileUsage: Handler<'reconcile-usage'> = {
     // removed, as the next run would remove it anyway.
     // The rows are read before the store is measured. A size that processing or compaction records after this read
     // no longer matches the figure read here, so the closing write leaves it alone; one recorded before the read
-    // is older than the measurement. Read after measuring, a size recorded in between was overwritten with a
-    // measurement of the folder mid-change (the compaction test once found a converted clip at 0 bytes).
+    // is older than the measurement. Read after measuring, a size recorded in between would be overwritten with a
+    // measurement of the folder mid-change.
     const clips = await Clip.findAll({
       attributes: ['id', 'storedBytes', 'state', 'sizeBytes', 'predictedDerivedBytes'],
     });

@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import PQueue from 'p-queue';
 import type { ObjectStore } from '../../server/core/storage/object-store';
+import { filesUnder } from '../../server/core/storage/files-under';
 import { objectKeys, WORK_DIR_PREFIX, type StoragePaths } from '../../server/core/storage/paths';
 import { REMOVING_PREFIX } from '../../server/core/storage/remove-folder';
 
@@ -101,7 +102,3 @@ function isDerived(clipId: number, key: string): boolean {
   );
 }
 
-async function filesUnder(dir: string): Promise<string[]> {
-  const entries = await fs.promises.readdir(dir, { recursive: true, withFileTypes: true }).catch(() => []);
-  return entries.filter((entry) => entry.isFile()).map((entry) => path.join(entry.parentPath, entry.name));
-}

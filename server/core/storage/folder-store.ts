@@ -11,6 +11,7 @@ import {
   type ObjectStore,
   type StoredObject,
 } from './object-store';
+import { filesUnder } from './files-under';
 import { removeFolder } from './remove-folder';
 
 /**
@@ -62,9 +63,7 @@ export function createFolderStore(folder: string): ObjectStore {
     if (!stat) return [];
     if (stat.isFile()) return [{ key: toKey(start), size: stat.size, modified: stat.mtime }];
     const found: StoredObject[] = [];
-    for (const entry of await fs.promises.readdir(start, { recursive: true, withFileTypes: true }).catch(() => [])) {
-      if (!entry.isFile()) continue;
-      const full = path.join(entry.parentPath, entry.name);
+    for (const full of await filesUnder(start)) {
       const entryStat = await fs.promises.stat(full).catch(() => null);
       if (entryStat) found.push({ key: toKey(full), size: entryStat.size, modified: entryStat.mtime });
     }
