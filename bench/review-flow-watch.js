@@ -1,10 +1,10 @@
-/* global window, document, requestAnimationFrame, Image, HTMLVideoElement */
+/* global window, document, requestAnimationFrame, getComputedStyle, Image, HTMLVideoElement */
 // Runs in the review-flow benchmark's page before the page's own scripts (Playwright's addInitScript). It is plain
 // JavaScript so that the code the page runs is exactly this text.
 //
-// `kfClipShown(id, name)` says whether the clip's page is fully shown: its title, every evidence panel (the chart
-// drawn on its canvas, the motion scale's legend), the preview's poster loaded, and every picture in the panels
-// loaded with pixels. Pictures the strip has scrolled out of sight load lazily, so only those in sight count. The
+// `kfClipShown(id, name)` says whether the clip's page is fully shown: its title, its evidence opaque (the next
+// clip's is drawn ahead, transparent, in the same place), every evidence panel (the chart drawn on its canvas, the
+// motion scale's legend), the preview's poster loaded, and every picture in the panels loaded with pixels. Pictures the strip has scrolled out of sight load lazily, so only those in sight count. The
 // claim is not waited for: the screen takes it behind the clip.
 //
 // `kfArmKey(id, name)` is called before a key is pressed. From the key event on, the clip is checked in every
@@ -13,8 +13,11 @@
 // page's own clock, without the benchmark driver's round trips to the browser (see there).
 
 window.kfClipShown = function (id, name) {
-  const screen = document.querySelector(`[data-test="review-clip"][data-clip-id="${id}"]`);
-  if (screen?.querySelector('h1')?.textContent?.trim() !== name) return false;
+  const page = document.querySelector(`[data-test="review-clip"][data-clip-id="${id}"]`);
+  if (page?.querySelector('h1')?.textContent?.trim() !== name) return false;
+  // The clip's evidence as shown, not the next clip's drawn behind it.
+  const screen = page.querySelector(`[data-test="review-evidence"][data-clip-id="${id}"]`);
+  if (!screen || getComputedStyle(screen).opacity !== '1') return false;
   const panels = ['preview', 'flags', 'signals', 'neighbours', 'views', 'frames'];
   if (!panels.every((panel) => screen.querySelector(`[data-panel="${panel}"]`))) return false;
   if (!screen.querySelector('[data-panel="signals"] canvas')) return false;

@@ -133,8 +133,19 @@ describe('flow through the queue', () => {
     await page.click(`[data-test="queue-open-${second}"]`);
     await shownClip(second!);
     await page.waitForSelector('[data-test="claim-mine"]');
+    // The next row's evidence is drawn behind the clip on screen, out of sight and out of reach of keys and clicks;
+    // the key shows that very element rather than building the next clip's screen.
+    const ahead = page.locator(`[data-test="review-ahead"][data-clip-id="${third}"]`);
+    await ahead.waitFor({ state: 'attached' });
+    expect(await ahead.evaluate((element) => getComputedStyle(element).opacity)).toBe('0');
+    expect(await ahead.evaluate((element) => (element as HTMLElement).inert)).toBe(true);
+    await ahead.evaluate((element) => element.setAttribute('data-marked', 'drawn ahead'));
     await page.keyboard.press('a');
     await shownClip(third!);
+    const shown = page.locator(`[data-test="review-evidence"][data-clip-id="${third}"]`);
+    expect(await shown.getAttribute('data-marked')).toBe('drawn ahead');
+    expect(await shown.evaluate((element) => getComputedStyle(element).opacity)).toBe('1');
+    expect(await shown.evaluate((element) => (element as HTMLElement).inert)).toBe(false);
     expect(page.url()).toContain(query);
     await page.waitForSelector('[data-test="undo-verdict"]');
     await expectInView('[data-test="undo-notice"]');
