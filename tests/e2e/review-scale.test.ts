@@ -147,6 +147,11 @@ describe('flow through the queue', () => {
     expect(await shown.evaluate((element) => getComputedStyle(element).opacity)).toBe('1');
     expect(await shown.evaluate((element) => (element as HTMLElement).inert)).toBe(false);
     expect(page.url()).toContain(query);
+    // The address follows the screen once the clip is drawn, so the browser's back and forward step through clips.
+    await page.goBack();
+    await shownClip(second!);
+    await page.goForward();
+    await shownClip(third!);
     await page.waitForSelector('[data-test="undo-verdict"]');
     await expectInView('[data-test="undo-notice"]');
     expect((await Clip.findByPk(second))!.state).toBe('accepted');
