@@ -14,6 +14,11 @@ export interface ClipEvidence {
   deltas: number[];
 }
 
+/** The clip a duplicate flag says this one matches; null when no flag names one. */
+export function duplicateOf(detail: ClipDetail): number | null {
+  return detail.flagDetails.find((flag) => flag.matchClipId)?.matchClipId ?? null;
+}
+
 /** Frames of the strip fetched ahead: the ones a 1440 px screen shows before any scrolling. */
 const STRIP_AHEAD = 14;
 /** The review screen draws its frame strip this high, so that the screen fits 1440 × 900. */
