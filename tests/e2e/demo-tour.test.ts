@@ -52,7 +52,7 @@ async function until<T>(what: string, read: () => Promise<T | null>): Promise<T>
 
 /** The rows of a table once at least `atLeast` have rendered (lazy tables fill in after their request returns). */
 async function rows(page: Page, table: string, atLeast = 1): Promise<number> {
-  const selector = `[data-test="${table}"] tbody tr:not(.p-datatable-empty-message)`;
+  const selector = `[data-test="${table}"] tbody tr:not(.p-datatable-empty-message, .kf-qtable__empty)`;
   await page.waitForFunction(
     ([rowSelector, least]) => document.querySelectorAll(rowSelector as string).length >= (least as number),
     [selector, atLeast] as const,

@@ -210,7 +210,7 @@ describe('the queue at 1440 × 900', () => {
   /** [scroll width, client width] of the page and of the table's scroller. */
   const widths = () =>
     page.evaluate(() => {
-      const table = document.querySelector('[data-test="queue-table"] .p-datatable-table-container');
+      const table = document.querySelector('[data-test="queue-table"]');
       return [
         document.documentElement.scrollWidth - document.documentElement.clientWidth,
         (table?.scrollWidth ?? 0) - (table?.clientWidth ?? 0),
@@ -246,10 +246,33 @@ describe('the queue at 1440 × 900', () => {
     expect(await thumbnail.boundingBox()).toMatchObject({ width: 48, height: 27 });
   });
 
+  it('sorts by a column from its header, turning the order round on a second click', async () => {
+    // The blurry clips the tests before have left in the queue, sharpest first.
+    const waiting = await Clip.findAll({ where: { id: blurrySharpestFirst, state: 'awaiting_review' } });
+    const sharpestFirst = blurrySharpestFirst.filter((id) => waiting.some((clip) => clip.id === id));
+    expect(sharpestFirst.length).toBeGreaterThan(1);
+    await page.goto(`${server.baseUrl}/review?projectId=${sortedProjectId}&hasFlag=blurry`);
+    await page.waitForSelector(`[data-test="queue-open-${sharpestFirst[0]}"]`);
+    const header = page.locator('th', { has: page.locator('[data-test="queue-sort-medianSharpness"]') });
+    const order = () =>
+      page
+        .locator('[data-test="queue-table"] [data-test^="queue-open-"]')
+        .evaluateAll((links) => links.map((link) => Number(link.getAttribute('data-test')!.split('-').at(-1))));
+    expect(await header.getAttribute('aria-sort')).toBe('none');
+    await page.click('[data-test="queue-sort-medianSharpness"]');
+    await page.waitForURL(/sort=medianSharpness/);
+    expect(await header.getAttribute('aria-sort')).toBe('ascending');
+    await expect.poll(order).toEqual([...sharpestFirst].reverse());
+    await page.click('[data-test="queue-sort-medianSharpness"]');
+    await page.waitForURL(/sort=-medianSharpness/);
+    expect(await header.getAttribute('aria-sort')).toBe('descending');
+    await expect.poll(order).toEqual(sharpestFirst);
+  });
+
   it('pins the selection bar in view when a row near the bottom is picked', async () => {
     await page.goto(`${server.baseUrl}/review`);
     await page.waitForSelector(`[data-test="queue-open-${processedId}"]`);
-    await page.locator('[data-test="queue-table"] tbody tr').last().locator('.p-checkbox').click();
+    await page.locator('[data-test="queue-table"] tbody tr').last().locator('input[type="checkbox"]').click();
     await expectInView('[data-test="bulk-bar"]');
   });
 
