@@ -2,9 +2,11 @@
 const FRAME_AT_MOST_MS = 100;
 
 /**
- * Resolves once the browser has drawn the next frame (or after FRAME_AT_MOST_MS) and `thenMs` more have passed,
- * so that work which can wait (requests behind the screen, drawing what comes next) does not hold up showing what
- * the curator is waiting for.
+ * Resolves once the page's own part of the next frame is done (its animation frame, then a task; or after
+ * FRAME_AT_MOST_MS) and `thenMs` more have passed, so that work which can wait (requests behind the screen,
+ * drawing what comes next) does not hold up showing what the curator is waiting for. The frame is not on screen
+ * yet at that point: its raster and the display compositor's drawing follow (20–40 ms with software rendering,
+ * traced), so work that would compete with them for the processor passes a `thenMs` beyond that.
  */
 export function afterPaint(thenMs = 0): Promise<void> {
   const drawn = new Promise<void>((resolve) => {
